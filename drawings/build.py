@@ -1,0 +1,70 @@
+"""Regenerate the demo drawings in this folder.
+
+    python drawings/build.py
+
+The scenario is invented for the demos: the Tarnbeck Slate Quarry's incline
+haulage winch (drawing TQ-W2-BR-201, a two-shoe holding brake on a 400 mm
+drum worked through a tie rod and a floating bell crank) and its stone-saw
+feed conveyor (drawing TQ-C7-BR-105, a single-lever block brake on a 300 mm
+drum).  All dimensions are made up; they are not taken from any real brake.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+HERE = Path(__file__).resolve().parent
+sys.path.insert(0, str(HERE.parent))
+
+from dxfcheck.sketch import Sketch  # noqa: E402
+
+
+def winch_two_shoe() -> Sketch:
+    """TQ-W2-BR-201: two pivoted shoes, levers, tie rod, floating bell crank."""
+    sk = Sketch()
+    sk.drum(0, 0, 200)
+    # left lever: frame pivot at the foot, shoe pin, tie-rod pin at the top
+    sk.pivot(-250, -320, 30, label="O1")
+    sk.pin(-250, 0, 24, label="S1")
+    sk.pin(-250, 520, 20, label="T1")
+    sk.link((-250, -320), (-250, 0), (-250, 520), label="left lever", label_at=(-285, 260))
+    # left shoe: pivoted on S1, lining over 70 degrees
+    sk.link((-250, 0), (-200, 0), label="left shoe", label_at=(-212, 12))
+    sk.shoe(0, 0, 200, 145, 215)
+    # right lever
+    sk.pivot(250, -320, 30, label="O2")
+    sk.pin(250, 0, 24, label="S2")
+    sk.pin(250, 420, 24, label="T2")
+    sk.link((250, -320), (250, 0), (250, 420), label="right lever", label_at=(285, 210))
+    sk.link((250, 0), (200, 0), label="right shoe", label_at=(212, 12))
+    sk.shoe(0, 0, 200, -35, 35)
+    # floating bell crank on T2: arm up to the tie rod, arm out to the effort
+    sk.pin(250, 520, 20, label="C")
+    sk.link((250, 520), (250, 420), (580, 420), label="bell crank", label_at=(420, 440))
+    # tie rod T1-C
+    sk.link((-250, 520), (250, 520), label="tie rod", label_at=(0, 540))
+    # effort: the set weight's pull at the end of the bell crank arm
+    sk.load(580, 420, 0, -1, "1.8 kN", length=90)
+    return sk
+
+
+def conveyor_block() -> Sketch:
+    """TQ-C7-BR-105: one lever with a block fixed to it."""
+    sk = Sketch()
+    sk.drum(0, 0, 150)
+    sk.pivot(-260, 210, 24, label="O")
+    sk.link((-260, 210), (520, 210), label="lever", label_at=(300, 230))
+    sk.link((0, 210), (0, 150))
+    sk.shoe(0, 0, 150, 75, 105, label="block")
+    sk.load(520, 210, 0, -1, "420 N", length=80)
+    return sk
+
+
+def main() -> None:
+    winch_two_shoe().save(HERE / "winch_two_shoe.dxf")
+    conveyor_block().save(HERE / "conveyor_block.dxf")
+
+
+if __name__ == "__main__":
+    main()

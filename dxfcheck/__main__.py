@@ -1,0 +1,5 @@
+"""``python -m dxfcheck``."""
+
+from dxfcheck.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,83 @@
+"""The whole solve pipeline in one call: drawing -> mechanism -> solution."""
+
+from __future__ import annotations
+
+import os
+from collections.abc import Sequence
+from pathlib import Path
+
+from dxfcheck.config import Config, find_config, load_config
+from dxfcheck.contact import Direction
+from dxfcheck.drawing import read_drawing
+from dxfcheck.errors import MechanismError
+from dxfcheck.findings import Severity, has_errors
+from dxfcheck.mechanism import build_mechanism
+from dxfcheck.statics import Solution, solve
+
+__all__ = ["DEFAULT_MU", "analyse", "resolve_config"]
+
+#: Friction coefficient used when none is given [-]: the dry value for a
+#: rigid non-asbestos lining in Neale (ed.), *Tribology Handbook*, section
+#: B8, Table 8.10.
+DEFAULT_MU = 0.35
+
+
+def resolve_config(drawing: str | os.PathLike[str], config: str | os.PathLike[str] | Config | None) -> Config:
+    """The project configuration for a drawing: ``config`` if given (a
+    :class:`Config` or a path), else the nearest ``dxfcheck.toml``."""
+    if isinstance(config, Config):
+        return config
+    if config is not None:
+        return load_config(Path(config))
+    return load_config(find_config(Path(drawing)))
+
+
+def analyse(
+    path: str | os.PathLike[str],
+    *,
+    mu: float = DEFAULT_MU,
+    effort_N: float | None = None,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    config: str | os.PathLike[str] | Config | None = None,
+    units: str | None = None,
+    tolerance_mm: float | None = None,
+) -> Solution:
+    """Read a brake drawing, infer its mechanism and solve its statics.
+
+    Parameters
+    ----------
+    path : path-like
+        The DXF drawing (only read).
+    mu : float
+        Lining-drum friction coefficient [-].
+    effort_N : float, optional
+        Magnitude of every load [N], instead of the texts on the load layer.
+    directions : sequence of Direction or str
+        Drum directions to solve, as seen in the drawing.
+    config : path-like or Config, optional
+        Project file; default: the nearest ``dxfcheck.toml``.
+    units : str, optional
+        Override the drawing unit.
+    tolerance_mm : float, optional
+        "Lies on" tolerance [mm].
+
+    Returns
+    -------
+    Solution
+
+    Raises
+    ------
+    DrawingReadError, ConfigError, MechanismError, SolveError
+        Each carries the findings that explain it.
+    """
+    cfg = resolve_config(path, config)
+    drawing = read_drawing(path, cfg, units=units)
+    mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort_N)
+    if has_errors(list(mech.findings)):
+        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
+        raise MechanismError(
+            f"no mechanism can be built ({len(errors)} error{'s' if len(errors) > 1 else ''} in the drawing)",
+            path=str(path),
+            findings=errors,
+        )
+    return solve(mech, mu, directions)

@@ -1,0 +1,172 @@
+"""Short-shoe contact models (the contact force concentrated at one point).
+
+Short-shoe theory treats the lining pressure as uniform over a small arc, so
+the drum's action on the shoe reduces to a normal force ``N`` at one point of
+the drum surface and a Coulomb friction force ``μN`` along the surface's
+motion.  It is accurate for small contact angles (commonly quoted: below
+about 45°–60°); the long-shoe models correct it for larger arcs.
+
+* **Fixed shoe** (rigid on its lever): ``N`` acts radially at the midpoint of
+  the lining arc, ``μN`` along the tangent there.
+* **Pivoted shoe** (free to turn on a pin): the shoe aligns itself so that the
+  drum's resultant passes through the pin.  The resultant is inclined at the
+  friction angle ``φ = atan μ`` to the normal at its contact point, so its
+  line is tangent to the *friction circle* of radius ``r·sin φ`` about the
+  drum axis; the contact point is where that line meets the drum surface.
+
+Friction on the shoe acts in the direction of the drum surface's motion.
+Weights are neglected.
+
+References
+----------
+.. [1] R. G. Budynas and J. K. Nisbett, *Shigley's Mechanical Engineering
+   Design*, 10th ed., McGraw-Hill, 2015, ch. 16, "Clutches, Brakes,
+   Couplings, and Flywheels" (short-shoe assumption, self-energising shoes).
+.. [2] R. S. Khurmi and J. K. Gupta, *Theory of Machines*, S. Chand, chapter
+   on brakes (block brakes: P·l = N(x ∓ μa)); friction circle: chapter on
+   friction.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+from dxfcheck.contact.base import ContactWrench, Direction, surface_tangent
+from dxfcheck.findings import Code, Finding
+from dxfcheck.geometry import Point, angle_in_arc, cross
+from dxfcheck.mechanism import Drum, Mounting, Shoe
+
+__all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
+
+#: Samples over the half-circle searched for a pivoted shoe's contact point.
+CONTACT_SEARCH_SAMPLES = 720
+#: Bisection stops when the bracket is narrower than this [rad].
+CONTACT_ANGLE_TOL = 1e-13
+#: Slack allowed at the lining's ends before a contact point is reported as
+#: outside the lining [degrees].
+LINING_SLACK_DEG = 1e-6
+
+
+def _wrench_at(
+    model: str, shoe: Shoe, drum: Drum, alpha: float, mu: float, direction: Direction
+) -> ContactWrench:
+    radial = (math.cos(alpha), math.sin(alpha))
+    # the drum pushes an external shoe outward and an internal shoe inward
+    n = (-radial[0], -radial[1]) if shoe.internal else radial
+    t = surface_tangent(alpha, direction)
+    point = (drum.center[0] + drum.radius_mm * radial[0], drum.center[1] + drum.radius_mm * radial[1])
+    force = (n[0] + mu * t[0], n[1] + mu * t[1])
+    # braking torque on the drum: minus the moment of the shoe's force about
+    # the axis, counted positive against the drum's motion
+    arm = (point[0] - drum.center[0], point[1] - drum.center[1])
+    torque = direction.sign * cross(arm, force)
+    findings: tuple[Finding, ...] = ()
+    deg = math.degrees(alpha) % 360
+    if not angle_in_arc(deg, shoe.arc.start_deg, shoe.arc.end_deg, LINING_SLACK_DEG):
+        findings = (
+            Finding(
+                Code.CONTACT_OFF_LINING,
+                f"shoe {shoe.name}: the drum's resultant meets the drum at {deg:.2f}°, outside the "
+                f"lining ({shoe.arc.start_deg:.2f}° to {shoe.arc.end_deg:.2f}°); the shoe would tip",
+                (shoe.arc.source.ref,),
+                (shoe.arc.source.layer,),
+                point,
+            ),
+        )
+    return ContactWrench(model, point, force, n, t, 1.0, mu, torque, findings)
+
+
+@dataclass(frozen=True)
+class ShortFixedShoe:
+    """Short shoe fixed to its lever: ``N`` radial at the lining's midpoint.
+
+    Parameters
+    ----------
+    shoe : Shoe
+    drum : Drum
+    """
+
+    shoe: Shoe
+    drum: Drum
+    name: str = "short-fixed"
+
+    def wrench(self, mu: float, direction: Direction) -> ContactWrench:
+        """Force on the shoe per newton of normal force [N/N]."""
+        alpha = math.radians(self.shoe.arc.mid_deg)
+        return _wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction)
+
+
+@dataclass(frozen=True)
+class ShortPivotedShoe:
+    """Short shoe on a pin: the resultant passes through the pin, tangent to
+    the friction circle of radius ``r·sin(atan μ)``.
+
+    Parameters
+    ----------
+    shoe : Shoe
+    drum : Drum
+    pin_center : Point
+        The shoe pin's axis [mm].
+    """
+
+    shoe: Shoe
+    drum: Drum
+    pin_center: Point
+    name: str = "short-pivoted"
+
+    def _miss(self, alpha: float, mu: float, direction: Direction) -> float:
+        w = _wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction)
+        rel = (self.pin_center[0] - w.point[0], self.pin_center[1] - w.point[1])
+        return cross(rel, w.force)
+
+    def wrench(self, mu: float, direction: Direction) -> ContactWrench:
+        """Force on the shoe per newton of normal force [N/N], acting at the
+        point of the drum surface whose resultant line passes through the
+        pin."""
+        mid = math.radians(self.shoe.arc.mid_deg)
+        n = CONTACT_SEARCH_SAMPLES
+        grid = [mid - math.pi / 2 + math.pi * k / n for k in range(n + 1)]
+        vals = [self._miss(a, mu, direction) for a in grid]
+        roots: list[float] = []
+        for k in range(n):
+            a0, a1, g0, g1 = grid[k], grid[k + 1], vals[k], vals[k + 1]
+            if g0 == 0.0:
+                roots.append(a0)
+                continue
+            if g0 * g1 > 0.0:
+                continue
+            while a1 - a0 > CONTACT_ANGLE_TOL:
+                am = 0.5 * (a0 + a1)
+                gm = self._miss(am, mu, direction)
+                if g0 * gm <= 0.0:
+                    a1 = am
+                else:
+                    a0, g0 = am, gm
+            roots.append(0.5 * (a0 + a1))
+        good: list[tuple[float, ContactWrench]] = []
+        for a in roots:
+            w = _wrench_at(self.name, self.shoe, self.drum, a, mu, direction)
+            rel = (self.pin_center[0] - w.point[0], self.pin_center[1] - w.point[1])
+            if rel[0] * w.force[0] + rel[1] * w.force[1] > 0.0:  # pin ahead along the force
+                good.append((abs(a - mid), w))
+        if not good:
+            w = _wrench_at(self.name, self.shoe, self.drum, mid, mu, direction)
+            miss = Finding(
+                Code.NO_CONTACT_LINE,
+                f"shoe {self.shoe.name}: no line through its pin meets the drum at the friction angle; "
+                "the pin lies inside the friction circle",
+                (self.shoe.arc.source.ref,),
+                (self.shoe.arc.source.layer,),
+                self.pin_center,
+            )
+            return ContactWrench(w.model, w.point, w.force, w.normal, w.tangent, 1.0, mu,
+                                 w.torque_per_unit_Nmm, (miss,))
+        return min(good, key=lambda g: g[0])[1]
+
+
+def short_shoe_model(shoe: Shoe, drum: Drum, pin_center: Point | None) -> ShortFixedShoe | ShortPivotedShoe:
+    """The short-shoe model that fits the shoe's mounting."""
+    if shoe.mounting is Mounting.PIVOTED and pin_center is not None:
+        return ShortPivotedShoe(shoe, drum, pin_center)
+    return ShortFixedShoe(shoe, drum)

@@ -1,0 +1,571 @@
+"""Read a layered DXF drawing into plane geometry in [mm].
+
+This is the first stage of the pipeline.  It keeps only the entities on the
+layers that carry the brake's skeleton (see :class:`dxfcheck.config.Role`),
+including entities placed through block references, and converts them to
+world coordinates in millimetres.
+
+Block references are resolved here with affine maps composed by hand,
+outermost first: ``M = M_parent @ OCS @ T(insert) @ R(rotation) @ S(sx, sy)
+@ T(-base)``.  Entities on layer ``0`` inside a block take the layer of the
+reference that placed them, as in every CAD program.
+
+Drawing units come from ``$INSUNITS``; where it is 0 or missing,
+``$MEASUREMENT`` (0 imperial -> inch, 1 metric -> mm); else millimetres.
+Both fallbacks are reported as finding ``D101``.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from collections.abc import Iterable, Iterator
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from dxfcheck.config import Config, Role
+from dxfcheck.errors import DrawingReadError
+from dxfcheck.findings import Code, Finding
+from dxfcheck.geometry import Affine, Point
+from dxfcheck.units import INSUNITS_MM, UnitError, length_unit_factor
+
+__all__ = [
+    "ArcGeom",
+    "CircleGeom",
+    "Drawing",
+    "PathGeom",
+    "Source",
+    "TextGeom",
+    "read_drawing",
+]
+
+#: Relative tolerance for "this block map keeps circles circular".
+SIMILARITY_RTOL = 1e-9
+#: Block references nested deeper than this are reported and not followed.
+MAX_BLOCK_DEPTH = 32
+#: |z| of an extrusion vector below which it counts as lying along the z axis.
+PLANAR_EXTRUSION_TOL = 1e-9
+#: Largest coordinate magnitude accepted [drawing units]; beyond it a value
+#: is treated as garbage rather than geometry.
+MAX_COORDINATE = 1e12
+
+_SKELETON_TYPES: dict[Role, set[str]] = {
+    Role.PIVOT: {"CIRCLE"},
+    Role.PIN: {"CIRCLE"},
+    Role.DRUM: {"CIRCLE"},
+    Role.SHOE: {"ARC"},
+    Role.LINK: {"LINE", "LWPOLYLINE", "POLYLINE"},
+    Role.LOAD: {"LINE", "LWPOLYLINE", "POLYLINE", "TEXT", "MTEXT"},
+    Role.LABEL: {"TEXT", "MTEXT"},
+}
+_IGNORED_ANYWHERE = {"ATTDEF", "ATTRIB", "DIMENSION", "HATCH", "VIEWPORT", "POINT"}
+
+
+@dataclass(frozen=True)
+class Source:
+    """Where a piece of geometry came from.
+
+    Attributes
+    ----------
+    handle : str
+        The DXF handle of the entity.
+    layer : str
+        Its effective layer (after layer-0 inheritance in blocks).
+    via : tuple of str
+        Handles of the INSERTs that placed it, outermost first.
+    """
+
+    handle: str
+    layer: str
+    via: tuple[str, ...] = ()
+
+    @property
+    def ref(self) -> str:
+        """``"H"`` or, inside blocks, ``"H@I1/I2"``."""
+        return self.handle if not self.via else f"{self.handle}@{'/'.join(self.via)}"
+
+
+@dataclass(frozen=True)
+class CircleGeom:
+    """A circle: ``center`` [mm], ``radius_mm`` [mm]."""
+
+    role: Role
+    center: Point
+    radius_mm: float
+    source: Source
+
+
+@dataclass(frozen=True)
+class ArcGeom:
+    """A circular arc running counter-clockwise from ``start_deg`` to
+    ``end_deg`` [degrees, world frame] about ``center`` [mm]."""
+
+    role: Role
+    center: Point
+    radius_mm: float
+    start_deg: float
+    end_deg: float
+    source: Source
+
+    @property
+    def span_deg(self) -> float:
+        """Angle the arc subtends [degrees]."""
+        span = (self.end_deg - self.start_deg) % 360.0
+        return 360.0 if span == 0.0 else span
+
+    @property
+    def mid_deg(self) -> float:
+        """Angle of the arc's midpoint [degrees]."""
+        return (self.start_deg + 0.5 * self.span_deg) % 360.0
+
+    def point_at(self, deg: float) -> Point:
+        t = math.radians(deg)
+        return (self.center[0] + self.radius_mm * math.cos(t), self.center[1] + self.radius_mm * math.sin(t))
+
+
+@dataclass(frozen=True)
+class PathGeom:
+    """A chain of straight segments through ``points`` [mm]."""
+
+    role: Role
+    points: tuple[Point, ...]
+    source: Source
+
+    def segments(self) -> Iterator[tuple[Point, Point]]:
+        for i in range(len(self.points) - 1):
+            yield self.points[i], self.points[i + 1]
+
+
+@dataclass(frozen=True)
+class TextGeom:
+    """A text string and its insertion point [mm]."""
+
+    role: Role
+    text: str
+    position: Point
+    source: Source
+
+
+@dataclass(frozen=True)
+class Drawing:
+    """The skeleton geometry of one drawing, in world [mm].
+
+    Attributes
+    ----------
+    path : str
+        The file read.
+    units : str
+        Name of the drawing unit (``mm``, ``inch``...).
+    mm_per_unit : float
+        Size of one drawing unit [mm].
+    units_source : str
+        Where the unit came from: ``$INSUNITS``, ``$MEASUREMENT``,
+        ``default`` or ``option``.
+    dxfversion : str
+        The file's DXF version (``AC1009`` for R12 ...).
+    circles, arcs, paths, texts : tuple
+        Skeleton geometry by kind; each item has a ``role``.
+    findings : tuple of Finding
+        Problems met while reading.
+    """
+
+    path: str
+    units: str
+    mm_per_unit: float
+    units_source: str
+    dxfversion: str
+    circles: tuple[CircleGeom, ...] = ()
+    arcs: tuple[ArcGeom, ...] = ()
+    paths: tuple[PathGeom, ...] = ()
+    texts: tuple[TextGeom, ...] = ()
+    findings: tuple[Finding, ...] = ()
+
+    def circles_of(self, role: Role) -> tuple[CircleGeom, ...]:
+        return tuple(c for c in self.circles if c.role is role)
+
+    def paths_of(self, role: Role) -> tuple[PathGeom, ...]:
+        return tuple(p for p in self.paths if p.role is role)
+
+    def texts_of(self, role: Role) -> tuple[TextGeom, ...]:
+        return tuple(t for t in self.texts if t.role is role)
+
+    def extent_mm(self) -> float:
+        """Diagonal of the skeleton's bounding box [mm] (at least 1 mm)."""
+        xs: list[float] = []
+        ys: list[float] = []
+        for c in self.circles:
+            xs += [c.center[0] - c.radius_mm, c.center[0] + c.radius_mm]
+            ys += [c.center[1] - c.radius_mm, c.center[1] + c.radius_mm]
+        for a in self.arcs:
+            xs.append(a.center[0])
+            ys.append(a.center[1])
+        for p in self.paths:
+            xs += [q[0] for q in p.points]
+            ys += [q[1] for q in p.points]
+        if not xs:
+            return 1.0
+        return max(1.0, math.hypot(max(xs) - min(xs), max(ys) - min(ys)))
+
+
+def _ocs_affine(extrusion: Any) -> Affine | None:
+    """Map from an entity's OCS to the world XY plane, or None if the
+    entity's plane is tilted."""
+    x, y, z = float(extrusion[0]), float(extrusion[1]), float(extrusion[2])
+    if abs(x) > PLANAR_EXTRUSION_TOL or abs(y) > PLANAR_EXTRUSION_TOL:
+        return None
+    # Arbitrary axis algorithm (DXF Reference): for Az = (0, 0, -1) the OCS
+    # x axis is world -X and the y axis world +Y.
+    return Affine() if z > 0 else Affine(-1.0, 0.0, 0.0, 0.0, 1.0, 0.0)
+
+
+@dataclass
+class _Collector:
+    path: str
+    roles: dict[str, Role]
+    circles: list[CircleGeom] = field(default_factory=list)
+    arcs: list[ArcGeom] = field(default_factory=list)
+    paths: list[PathGeom] = field(default_factory=list)
+    texts: list[TextGeom] = field(default_factory=list)
+    findings: list[Finding] = field(default_factory=list)
+    _seen: set[tuple[Any, ...]] = field(default_factory=set)
+
+    def finding(self, code: Code, message: str, src: Source, at: Point | None = None) -> None:
+        self.findings.append(Finding(code, message, (src.ref,), (src.layer,), at))
+
+    def duplicate(self, key: tuple[Any, ...], src: Source, at: Point) -> bool:
+        if key in self._seen:
+            self.finding(Code.DUPLICATE_ENTITY, "entity drawn twice; the copy is ignored", src, at)
+            return True
+        self._seen.add(key)
+        return False
+
+
+def _finite(*values: float) -> bool:
+    return all(math.isfinite(v) and abs(v) <= MAX_COORDINATE for v in values)
+
+
+def _key(*values: float) -> tuple[float, ...]:
+    return tuple(round(v, 6) for v in values)
+
+
+def _walk(
+    col: _Collector,
+    doc: Any,
+    entities: Iterable[Any],
+    m: Affine,
+    parent_layer: str | None,
+    via: tuple[str, ...],
+    depth: int,
+) -> None:
+    for e in entities:
+        dxftype = e.dxftype()
+        layer = e.dxf.get("layer", "0")
+        if parent_layer is not None and layer == "0":
+            layer = parent_layer
+        src = Source(handle=str(e.dxf.get("handle", "?")), layer=layer, via=via)
+        if dxftype == "INSERT":
+            _walk_insert(col, doc, e, m, layer, via, depth)
+            continue
+        role = col.roles.get(layer.upper())
+        if role is None or dxftype in _IGNORED_ANYWHERE:
+            continue
+        if dxftype not in _SKELETON_TYPES[role]:
+            col.finding(
+                Code.UNSUPPORTED_ENTITY,
+                f"{dxftype} is not used on a {role} layer and is ignored",
+                src,
+            )
+            continue
+        try:
+            _take(col, e, dxftype, role, m, src)
+        except (AttributeError, TypeError, ValueError) as exc:  # damaged entity data
+            col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({exc})", src)
+
+
+def _walk_insert(
+    col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: tuple[str, ...], depth: int
+) -> None:
+    src = Source(handle=str(e.dxf.get("handle", "?")), layer=layer, via=via)
+    name = e.dxf.get("name", "")
+    block = doc.blocks.get(name)
+    if block is None:
+        col.finding(Code.UNSUPPORTED_ENTITY, f"INSERT names a missing block {name!r}", src)
+        return
+    if depth >= MAX_BLOCK_DEPTH:
+        col.finding(
+            Code.UNSUPPORTED_ENTITY,
+            f"block references nested deeper than {MAX_BLOCK_DEPTH} (a block that inserts itself?)",
+            src,
+        )
+        return
+    ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
+    if ocs is None:
+        col.finding(Code.OUT_OF_PLANE, "INSERT is not in the XY plane; ignored", src)
+        return
+    ins = e.dxf.get("insert", (0.0, 0.0, 0.0))
+    base = block.block.dxf.get("base_point", (0.0, 0.0, 0.0)) if block.block else (0.0, 0.0, 0.0)
+    sx = float(e.dxf.get("xscale", 1.0))
+    sy = float(e.dxf.get("yscale", 1.0))
+    rot = float(e.dxf.get("rotation", 0.0))
+    if not _finite(float(ins[0]), float(ins[1]), sx, sy, rot, float(base[0]), float(base[1])):
+        col.finding(Code.BAD_COORDINATE, "INSERT has a non-finite or huge value", src)
+        return
+    if sx == 0.0 or sy == 0.0:
+        col.finding(Code.DEGENERATE_ENTITY, "INSERT has a zero scale factor; ignored", src)
+        return
+    rows = max(1, int(e.dxf.get("row_count", 1)))
+    cols = max(1, int(e.dxf.get("column_count", 1)))
+    row_sp = float(e.dxf.get("row_spacing", 0.0))
+    col_sp = float(e.dxf.get("column_spacing", 0.0))
+    inner = Affine.scaling(sx, sy) @ Affine.translation(-float(base[0]), -float(base[1]))
+    head = m @ ocs @ Affine.translation(float(ins[0]), float(ins[1])) @ Affine.rotation(rot)
+    handle = src.handle
+    for r in range(rows):
+        for c in range(cols):
+            cell = head @ Affine.translation(c * col_sp, r * row_sp) @ inner
+            _walk(col, doc, block, cell, layer, (*via, handle), depth + 1)
+
+
+def _take(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Source) -> None:
+    if dxftype in ("CIRCLE", "ARC"):
+        ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
+        if ocs is None:
+            col.finding(Code.OUT_OF_PLANE, f"{dxftype} is not in the XY plane; ignored", src)
+            return
+        mm = m @ ocs
+        c = e.dxf.center
+        r = float(e.dxf.radius)
+        if not _finite(float(c[0]), float(c[1]), r):
+            col.finding(Code.BAD_COORDINATE, f"{dxftype} has a non-finite or huge coordinate", src)
+            return
+        center = mm.apply((float(c[0]), float(c[1])))
+        if r <= 0.0:
+            col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} has zero radius; ignored", src, center)
+            return
+        scale = mm.similarity_scale(SIMILARITY_RTOL)
+        if scale is None:
+            scale = math.sqrt(abs(mm.det))
+            col.finding(
+                Code.DISTORTED_CIRCLE,
+                f"{dxftype} is stretched into an ellipse by a block's non-uniform scale; "
+                "its mean radius is used",
+                src,
+                center,
+            )
+        radius = r * scale
+        if dxftype == "CIRCLE":
+            if col.duplicate((role, *_key(*center, radius)), src, center):
+                return
+            col.circles.append(CircleGeom(role, center, radius, src))
+            return
+        a0 = math.radians(float(e.dxf.start_angle))
+        a1 = math.radians(float(e.dxf.end_angle))
+        span = (a1 - a0) % (2 * math.pi) or 2 * math.pi
+        pts = [
+            mm.apply((float(c[0]) + r * math.cos(t), float(c[1]) + r * math.sin(t)))
+            for t in (a0, a0 + span)
+        ]
+        s_deg = math.degrees(math.atan2(pts[0][1] - center[1], pts[0][0] - center[0])) % 360
+        e_deg = math.degrees(math.atan2(pts[1][1] - center[1], pts[1][0] - center[0])) % 360
+        if mm.mirrors:
+            s_deg, e_deg = e_deg, s_deg
+        if col.duplicate((role, *_key(*center, radius, s_deg, e_deg)), src, center):
+            return
+        col.arcs.append(ArcGeom(role, center, radius, s_deg, e_deg, src))
+        return
+    if dxftype in ("TEXT", "MTEXT"):
+        _take_text(col, e, dxftype, role, m, src)
+        return
+    _take_path(col, e, dxftype, role, m, src)
+
+
+def _take_text(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Source) -> None:
+    ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0))) or Affine()
+    if dxftype == "TEXT":
+        p = e.dxf.get("insert", (0.0, 0.0, 0.0))
+        if e.dxf.get("halign", 0) or e.dxf.get("valign", 0):
+            p = e.dxf.get("align_point", p)
+        text = e.plain_text()
+        where = m @ ocs
+    else:
+        p = e.dxf.get("insert", (0.0, 0.0, 0.0))
+        text = e.plain_text()
+        where = m  # MTEXT insert is in WCS
+    if not _finite(float(p[0]), float(p[1])):
+        col.finding(Code.BAD_COORDINATE, f"{dxftype} has a non-finite or huge position", src)
+        return
+    pos = where.apply((float(p[0]), float(p[1])))
+    text = " ".join(str(text).split())
+    if text:
+        col.texts.append(TextGeom(role, text, pos, src))
+
+
+def _take_path(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Source) -> None:
+    closed = False
+    bulged = False
+    if dxftype == "LINE":
+        s, t = e.dxf.start, e.dxf.end
+        raw: list[tuple[float, float]] = [(float(s[0]), float(s[1])), (float(t[0]), float(t[1]))]
+        mm = m
+    elif dxftype == "LWPOLYLINE":
+        ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
+        if ocs is None:
+            col.finding(Code.OUT_OF_PLANE, "LWPOLYLINE is not in the XY plane; ignored", src)
+            return
+        mm = m @ ocs
+        pts = list(e.get_points("xyb"))
+        raw = [(float(x), float(y)) for x, y, _ in pts]
+        bulged = any(abs(float(b)) > 0.0 for _, _, b in pts[: None if e.closed else -1])
+        closed = bool(e.closed)
+    else:  # POLYLINE
+        if e.get_mode() != "AcDb2dPolyline":
+            col.finding(Code.UNSUPPORTED_ENTITY, "only 2D POLYLINEs are used; ignored", src)
+            return
+        ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
+        if ocs is None:
+            col.finding(Code.OUT_OF_PLANE, "POLYLINE is not in the XY plane; ignored", src)
+            return
+        mm = m @ ocs
+        raw = [(float(v.dxf.location[0]), float(v.dxf.location[1])) for v in e.vertices]
+        bulged = any(abs(float(v.dxf.get("bulge", 0.0))) > 0.0 for v in e.vertices)
+        closed = bool(e.is_closed)
+    if not _finite(*(c for p in raw for c in p)):
+        col.finding(Code.BAD_COORDINATE, f"{dxftype} has a non-finite or huge coordinate", src)
+        return
+    pts_w = [mm.apply(p) for p in raw]
+    # drop repeated vertices
+    clean: list[Point] = []
+    for p in pts_w:
+        if not clean or p != clean[-1]:
+            clean.append(p)
+    if closed and len(clean) > 2 and clean[0] != clean[-1]:
+        clean.append(clean[0])
+    if len(clean) < 2:
+        col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} has zero length; ignored", src, pts_w[0] if pts_w else None)
+        return
+    if bulged:
+        col.finding(
+            Code.CURVED_LINK,
+            f"{dxftype} has arc segments; its straight chords are used as the centreline",
+            src,
+            clean[0],
+        )
+    if col.duplicate((role, *_key(*(c for p in clean for c in p))), src, clean[0]):
+        return
+    col.paths.append(PathGeom(role, tuple(clean), src))
+
+
+def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, list[Finding]]:
+    findings: list[Finding] = []
+    if override is not None:
+        try:
+            return override, length_unit_factor(override), "option", findings
+        except UnitError as exc:
+            from dxfcheck.errors import ConfigError
+
+            raise ConfigError(f"--units: {exc}") from exc
+    insunits = int(doc.header.get("$INSUNITS", 0) or 0)
+    if insunits in INSUNITS_MM:
+        name, factor = INSUNITS_MM[insunits]
+        return name, factor, "$INSUNITS", findings
+    measurement = doc.header.get("$MEASUREMENT", None)
+    if measurement is not None and int(measurement) in (0, 1):
+        name, factor = ("inch", 25.4) if int(measurement) == 0 else ("mm", 1.0)
+        findings.append(
+            Finding(
+                Code.UNITS_ASSUMED,
+                f"$INSUNITS is unset; {name} assumed from $MEASUREMENT={int(measurement)}. "
+                "Set $INSUNITS in the drawing or pass --units",
+            )
+        )
+        return name, factor, "$MEASUREMENT", findings
+    findings.append(
+        Finding(
+            Code.UNITS_ASSUMED,
+            "$INSUNITS and $MEASUREMENT are unset; millimetres assumed. "
+            "Set $INSUNITS in the drawing or pass --units",
+        )
+    )
+    return "mm", 1.0, "default", findings
+
+
+def _load_document(path: Path) -> tuple[Any, list[Finding]]:
+    import ezdxf
+    from ezdxf import recover
+
+    spath = str(path)
+    if not path.exists():
+        raise DrawingReadError("no such file; check the path", path=spath)
+    if path.is_dir():
+        raise DrawingReadError("is a folder, not a drawing; name a .dxf file", path=spath)
+    if not os.access(path, os.R_OK):
+        raise DrawingReadError("cannot be read (permission denied)", path=spath)
+    with open(path, "rb") as fh:
+        head = fh.read(32)
+    if not head.strip():
+        raise DrawingReadError("is empty; it is not a DXF drawing", path=spath)
+    if head.startswith(b"AC10") or head.startswith(b"AC1.") or head[:4] in (b"AC10", b"AC20"):
+        raise DrawingReadError(
+            "looks like a DWG file, not DXF; save it as DXF from the CAD program", path=spath
+        )
+    findings: list[Finding] = []
+    try:
+        doc = ezdxf.readfile(spath)
+    except ezdxf.DXFStructureError:
+        try:
+            doc, auditor = recover.readfile(spath)
+        except (ezdxf.DXFStructureError, OSError, UnicodeError, ValueError) as exc:
+            raise DrawingReadError(f"is not a readable DXF drawing ({exc})", path=spath) from exc
+        for err in auditor.errors:
+            findings.append(Finding(Code.UNSUPPORTED_ENTITY, f"repaired on reading: {err.message}"))
+    except (OSError, UnicodeError, ValueError) as exc:
+        raise DrawingReadError(f"is not a readable DXF drawing ({exc})", path=spath) from exc
+    return doc, findings
+
+
+def read_drawing(
+    path: str | os.PathLike[str],
+    config: Config | None = None,
+    *,
+    units: str | None = None,
+) -> Drawing:
+    """Read the skeleton geometry of a DXF drawing.
+
+    Parameters
+    ----------
+    path : path-like
+        The DXF file (ASCII or binary).  It is only read, never written.
+    config : Config, optional
+        Layer roles; defaults to the built-in layer names.
+    units : str, optional
+        Override the drawing unit (``"mm"``, ``"inch"``...).
+
+    Returns
+    -------
+    Drawing
+        Geometry in world [mm] with the findings met while reading.
+
+    Raises
+    ------
+    DrawingReadError
+        When the file is missing, unreadable or not DXF.
+    """
+    p = Path(path)
+    config = config or Config()
+    doc, findings = _load_document(p)
+    unit_name, factor, unit_src, unit_findings = _units(doc, units, str(p))
+    col = _Collector(path=str(p), roles=config.role_of_layer())
+    _walk(col, doc, doc.modelspace(), Affine.scaling(factor, factor), None, (), 0)
+    return Drawing(
+        path=str(p),
+        units=unit_name,
+        mm_per_unit=factor,
+        units_source=unit_src,
+        dxfversion=str(doc.dxfversion),
+        circles=tuple(col.circles),
+        arcs=tuple(col.arcs),
+        paths=tuple(col.paths),
+        texts=tuple(col.texts),
+        findings=tuple(findings + unit_findings + col.findings),
+    )

@@ -1,0 +1,586 @@
+"""Infer the mechanism (parts, pins, shoes, loads) from drawing geometry.
+
+The second stage of the pipeline.  It applies the topology rules stated in
+the README:
+
+* centreline pieces whose end lies on another piece (end to end, or on a
+  segment's interior) at a point that holds no pin form one rigid part;
+  pieces that merely cross do not join;
+* a pin or pivot attaches to every part whose centreline passes through its
+  centre; a pivot also attaches to the frame;
+* a shoe is the part whose centreline ends on a SHOE arc; it is *pivoted* when
+  that part touches the rest of the linkage only through one pin and carries
+  no load, otherwise it is *fixed* to its lever;
+* a load acts on the part whose centreline passes through the start of its
+  line, along the line, with the magnitude of the nearest text on the load
+  layer (or the one given by the caller);
+* a label names the nearest pin, part or shoe.
+
+Every problem the user can fix in the drawing becomes a :class:`Finding`.
+"""
+
+from __future__ import annotations
+
+import enum
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass, field
+
+from dxfcheck.config import Role
+from dxfcheck.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source, TextGeom
+from dxfcheck.findings import Code, Finding
+from dxfcheck.geometry import Point, angle_in_arc, dist, point_segment_distance, unit
+from dxfcheck.units import UnitError, parse_quantity
+
+__all__ = [
+    "FRAME",
+    "LIES_ON_RTOL",
+    "Drum",
+    "Load",
+    "Mechanism",
+    "Mounting",
+    "Part",
+    "Pin",
+    "Shoe",
+    "build_mechanism",
+    "default_tolerance",
+]
+
+#: Default "lies on" tolerance as a fraction of the skeleton's bounding-box
+#: diagonal (0.1 mm on a 1 m drawing).
+LIES_ON_RTOL = 1e-4
+#: Floor of the "lies on" tolerance [mm].
+LIES_ON_MIN_MM = 1e-6
+#: A label farther than this fraction of the drawing size from everything
+#: names nothing.
+LABEL_REACH_RTOL = 0.1
+#: Slack at each end of a shoe arc when deciding whether a point is on it
+#: [degrees].
+ARC_SLACK_DEG = 1e-6
+
+#: Name of the fixed body (the machine frame and the drum's bearings).
+FRAME = "frame"
+
+
+class Mounting(enum.StrEnum):
+    """How a shoe is carried by its lever."""
+
+    PIVOTED = "pivoted"
+    FIXED = "fixed"
+
+
+@dataclass(frozen=True)
+class Drum:
+    """The brake drum: ``center`` [mm] (the drum axis, on the frame) and
+    braking-surface radius ``radius_mm`` [mm]."""
+
+    center: Point
+    radius_mm: float
+    source: Source
+
+
+@dataclass(frozen=True)
+class Pin:
+    """A pin joint.
+
+    Attributes
+    ----------
+    name : str
+    center : Point
+        Pin axis [mm].
+    diameter_mm : float
+        Pin diameter [mm] (the drawn circle).
+    grounded : bool
+        True for a pivot: the pin is fixed to the frame.
+    parts : tuple of str
+        Names of the moving parts it joins (the frame not included).
+    source : Source
+    """
+
+    name: str
+    center: Point
+    diameter_mm: float
+    grounded: bool
+    parts: tuple[str, ...]
+    source: Source
+
+    @property
+    def bodies(self) -> tuple[str, ...]:
+        """Everything the pin joins, the frame included for a pivot."""
+        return (*self.parts, FRAME) if self.grounded else self.parts
+
+
+@dataclass(frozen=True)
+class Part:
+    """A rigid part: its centreline ``segments`` [mm] and the pins on it."""
+
+    name: str
+    segments: tuple[tuple[Point, Point], ...]
+    pins: tuple[str, ...]
+    sources: tuple[Source, ...]
+
+    def distance_to(self, p: Point) -> float:
+        """Distance from ``p`` to the centreline [mm]."""
+        return min(point_segment_distance(p, a, b) for a, b in self.segments)
+
+    @property
+    def points(self) -> tuple[Point, ...]:
+        return tuple(dict.fromkeys(q for s in self.segments for q in s))
+
+
+@dataclass(frozen=True)
+class Shoe:
+    """A brake shoe: the lining arc on the drum and the part that carries it.
+
+    Attributes
+    ----------
+    name : str
+    part : str
+        The part whose centreline ends on the arc.
+    arc : ArcGeom
+        The lining's contact arc [mm, degrees].
+    mounting : Mounting
+    pin : str or None
+        The pin a pivoted shoe turns on.
+    internal : bool
+        True for a shoe inside the drum pressing outward.
+    """
+
+    name: str
+    part: str
+    arc: ArcGeom
+    mounting: Mounting
+    pin: str | None
+    internal: bool
+
+    @property
+    def contact_angle_deg(self) -> float:
+        """Angle the lining subtends at the drum axis [degrees]."""
+        return self.arc.span_deg
+
+
+@dataclass(frozen=True)
+class Load:
+    """An applied force.
+
+    Attributes
+    ----------
+    name : str
+    part : str or None
+        The part it acts on (None when it lies on no part).
+    point : Point
+        Point of application [mm].
+    direction : Point
+        Unit vector along the force.
+    magnitude_N : float or None
+        Magnitude [N], None when neither the drawing nor the caller gives it.
+    text : str or None
+        The text the magnitude was read from.
+    source : Source
+    """
+
+    name: str
+    part: str | None
+    point: Point
+    direction: Point
+    magnitude_N: float | None
+    text: str | None
+    source: Source
+
+    @property
+    def force(self) -> Point:
+        """The force vector [N] (zero when the magnitude is unknown)."""
+        m = self.magnitude_N or 0.0
+        return (m * self.direction[0], m * self.direction[1])
+
+
+@dataclass(frozen=True)
+class Mechanism:
+    """Everything the statics needs, inferred from one drawing.
+
+    Attributes
+    ----------
+    drawing : Drawing
+    tolerance_mm : float
+        The "lies on" tolerance used [mm].
+    length_scale_mm : float
+        A representative size of the mechanism [mm] (skeleton diagonal).
+    drum : Drum or None
+    pins, parts, shoes, loads : tuple
+    findings : tuple of Finding
+        Reading and topology findings.
+    """
+
+    drawing: Drawing
+    tolerance_mm: float
+    length_scale_mm: float
+    drum: Drum | None
+    pins: tuple[Pin, ...]
+    parts: tuple[Part, ...]
+    shoes: tuple[Shoe, ...]
+    loads: tuple[Load, ...]
+    findings: tuple[Finding, ...] = field(default=())
+
+    def pin(self, name: str) -> Pin:
+        return next(p for p in self.pins if p.name == name)
+
+    def part(self, name: str) -> Part:
+        return next(p for p in self.parts if p.name == name)
+
+
+class _UnionFind:
+    def __init__(self, n: int) -> None:
+        self.parent = list(range(n))
+
+    def find(self, i: int) -> int:
+        while self.parent[i] != i:
+            self.parent[i] = self.parent[self.parent[i]]
+            i = self.parent[i]
+        return i
+
+    def union(self, i: int, j: int) -> None:
+        ri, rj = self.find(i), self.find(j)
+        if ri != rj:
+            self.parent[max(ri, rj)] = min(ri, rj)
+
+
+def default_tolerance(drawing: Drawing) -> float:
+    """The default "lies on" tolerance for a drawing [mm]."""
+    return max(LIES_ON_MIN_MM, LIES_ON_RTOL * drawing.extent_mm())
+
+
+def _on_path(p: Point, path: PathGeom, tol: float) -> bool:
+    return any(point_segment_distance(p, a, b) <= tol for a, b in path.segments())
+
+
+def _on_arc(p: Point, arc: ArcGeom, tol: float) -> bool:
+    r = dist(p, arc.center)
+    if abs(r - arc.radius_mm) > tol:
+        return False
+    ang = math.degrees(math.atan2(p[1] - arc.center[1], p[0] - arc.center[0])) % 360
+    slack = ARC_SLACK_DEG + math.degrees(tol / max(arc.radius_mm, tol))
+    return angle_in_arc(ang, arc.start_deg, arc.end_deg, slack)
+
+
+def _f(code: Code, msg: str, srcs: Sequence[Source], at: Point | None = None) -> Finding:
+    return Finding(code, msg, tuple(s.ref for s in srcs), tuple(s.layer for s in srcs), at)
+
+
+def _fmt(p: Point) -> str:
+    return f"({p[0]:.6g}, {p[1]:.6g})"
+
+
+def build_mechanism(
+    drawing: Drawing,
+    *,
+    tolerance_mm: float | None = None,
+    effort_N: float | None = None,
+) -> Mechanism:
+    """Build the mechanism a drawing shows.
+
+    Parameters
+    ----------
+    drawing : Drawing
+        Output of :func:`dxfcheck.drawing.read_drawing`.
+    tolerance_mm : float, optional
+        "Lies on" tolerance [mm]; default :func:`default_tolerance`.
+    effort_N : float, optional
+        Magnitude [N] for every load, overriding the texts on the load layer.
+
+    Returns
+    -------
+    Mechanism
+        With the findings; a mechanism with error findings cannot be solved.
+    """
+    tol = tolerance_mm if tolerance_mm is not None else default_tolerance(drawing)
+    findings: list[Finding] = list(drawing.findings)
+
+    # -- drum --------------------------------------------------------------
+    drums = drawing.circles_of(Role.DRUM)
+    drum: Drum | None = None
+    if not drums:
+        findings.append(Finding(Code.NO_DRUM, "no drum circle found on the drum layer; draw the drum's braking surface"))
+    else:
+        d0 = drums[0]
+        drum = Drum(d0.center, d0.radius_mm, d0.source)
+        if len(drums) > 1:
+            findings.append(
+                _f(Code.MANY_DRUMS, f"{len(drums)} drum circles; one drum per drawing", [d.source for d in drums], d0.center)
+            )
+
+    pin_geoms: list[CircleGeom] = [*drawing.circles_of(Role.PIVOT), *drawing.circles_of(Role.PIN)]
+    links = list(drawing.paths_of(Role.LINK))
+    arcs = [a for a in drawing.arcs if a.role is Role.SHOE]
+    load_paths = drawing.paths_of(Role.LOAD)
+    load_starts = [lp.points[0] for lp in load_paths]
+
+    # -- rigid parts ---------------------------------------------------------
+    uf = _UnionFind(len(links))
+    for i, path in enumerate(links):
+        closed = len(path.points) > 2 and path.points[0] == path.points[-1]
+        if closed:
+            continue
+        for end in (path.points[0], path.points[-1]):
+            if any(dist(end, g.center) <= tol for g in pin_geoms):
+                continue  # a pin joint, handled below
+            joined = False
+            for j, other in enumerate(links):
+                if j != i and _on_path(end, other, tol):
+                    uf.union(i, j)
+                    joined = True
+            if joined:
+                continue
+            if any(_on_arc(end, a, tol) for a in arcs):
+                continue
+            if any(dist(end, s) <= tol for s in load_starts):
+                continue
+            findings.append(
+                _f(
+                    Code.OPEN_END,
+                    f"centreline end at {_fmt(end)} meets no pin, part, shoe or load",
+                    [path.source],
+                    end,
+                )
+            )
+    groups: dict[int, list[int]] = {}
+    for i in range(len(links)):
+        groups.setdefault(uf.find(i), []).append(i)
+    group_list = [groups[k] for k in sorted(groups)]
+
+    # -- labels ----------------------------------------------------------------
+    labels = list(drawing.texts_of(Role.LABEL))
+    reach = LABEL_REACH_RTOL * drawing.extent_mm()
+
+    # objects a label may name: ("pin", idx), ("part", idx), ("shoe", idx)
+    def label_distance(t: TextGeom, kind: str, idx: int) -> float:
+        if kind == "pin":
+            g = pin_geoms[idx]
+            # negative inside the circle: a label written in a pin names the pin
+            return dist(t.position, g.center) - g.radius_mm
+        if kind == "part":
+            return min(
+                point_segment_distance(t.position, a, b) for i in group_list[idx] for a, b in links[i].segments()
+            )
+        a = arcs[idx]
+        return abs(dist(t.position, a.center) - a.radius_mm)
+
+    targets = (
+        [("pin", i) for i in range(len(pin_geoms))]
+        + [("part", i) for i in range(len(group_list))]
+        + [("shoe", i) for i in range(len(arcs))]
+    )
+    named: dict[tuple[str, int], tuple[float, TextGeom]] = {}
+    for t in labels:
+        if not targets:
+            break
+        best = min(targets, key=lambda k: label_distance(t, *k))
+        d = label_distance(t, *best)
+        if d > reach:
+            findings.append(_f(Code.LABEL_UNUSED, f"label {t.text!r} is near nothing it could name", [t.source], t.position))
+            continue
+        if best in named:
+            prev_d, prev = named[best]
+            loser = t if d >= prev_d else prev
+            findings.append(
+                _f(Code.LABEL_CLASH, f"labels {prev.text!r} and {t.text!r} name the same {best[0]}; "
+                   f"{loser.text!r} is ignored", [prev.source, t.source], t.position)
+            )
+            if d >= prev_d:
+                continue
+        named[best] = (d, t)
+    used_names = {t.text for _, t in named.values()}
+    counters: dict[str, int] = {}
+
+    def gen(prefix: str) -> str:
+        while True:
+            counters[prefix] = counters.get(prefix, 0) + 1
+            cand = f"{prefix}{counters[prefix]}"
+            if cand not in used_names:
+                used_names.add(cand)
+                return cand
+
+    def name_of(kind: str, idx: int, prefix: str) -> str:
+        hit = named.get((kind, idx))
+        return hit[1].text if hit else gen(prefix)
+
+    part_names = [name_of("part", i, "part") for i in range(len(group_list))]
+
+    # -- pins ------------------------------------------------------------------
+    pin_parts: list[list[int]] = []
+    for g in pin_geoms:
+        on = [
+            gi
+            for gi, members in enumerate(group_list)
+            if any(_on_path(g.center, links[i], tol) for i in members)
+        ]
+        pin_parts.append(on)
+    pins: list[Pin] = []
+    pin_name_of_geom: dict[int, str] = {}
+    for k, g in enumerate(pin_geoms):
+        grounded = g.role is Role.PIVOT
+        name = name_of("pin", k, "O" if grounded else "P")
+        pin_name_of_geom[k] = name
+        on = pin_parts[k]
+        if not on:
+            findings.append(
+                _f(Code.ORPHAN_PIN, f"{'pivot' if grounded else 'pin'} {name} lies on no part's centreline", [g.source], g.center)
+            )
+            continue
+        if len(on) == 1 and not grounded:
+            findings.append(
+                _f(
+                    Code.LONELY_PIN,
+                    f"pin {name} lies on one part only ({part_names[on[0]]}); it joins nothing and is left out",
+                    [g.source],
+                    g.center,
+                )
+            )
+            continue
+        pins.append(Pin(name, g.center, 2 * g.radius_mm, grounded, tuple(part_names[i] for i in on), g.source))
+
+    # -- loads -----------------------------------------------------------------
+    load_texts = list(drawing.texts_of(Role.LOAD))
+    text_for: dict[int, TextGeom] = {}
+    text_dist: dict[int, float] = {}
+    for t in load_texts:
+        if not load_paths:
+            break
+        dists = [min(point_segment_distance(t.position, a, b) for a, b in lp.segments()) for lp in load_paths]
+        j = min(range(len(load_paths)), key=lambda i: dists[i])
+        if j not in text_for or dists[j] < text_dist[j]:
+            text_for[j] = t
+            text_dist[j] = dists[j]
+    loads: list[Load] = []
+    part_pins: dict[str, list[str]] = {n: [] for n in part_names}
+    for p in pins:
+        for pn in p.parts:
+            part_pins[pn].append(p.name)
+    for j, lp in enumerate(load_paths):
+        start, end = lp.points[0], lp.points[-1]
+        name = f"F{j + 1}"
+        if dist(start, end) <= tol:
+            findings.append(_f(Code.LOAD_OFF_PART, f"load {name} has no length, so no direction", [lp.source], start))
+            continue
+        direction = unit((end[0] - start[0], end[1] - start[1]))
+        on = [
+            gi for gi, members in enumerate(group_list) if any(_on_path(start, links[i], tol) for i in members)
+        ]
+        part: str | None = part_names[on[0]] if on else None
+        if part is None:
+            findings.append(
+                _f(Code.LOAD_OFF_PART, f"load {name} starts at {_fmt(start)}, on no part's centreline", [lp.source], start)
+            )
+        else:
+            at_pivot = [p for p in pins if p.grounded and dist(p.center, start) <= tol]
+            if at_pivot:
+                findings.append(
+                    _f(Code.LOAD_AT_PIVOT, f"load {name} acts at pivot {at_pivot[0].name} and goes straight into the frame",
+                       [lp.source], start)
+                )
+        magnitude: float | None = None
+        text: str | None = None
+        if j in text_for:
+            t = text_for[j]
+            text = t.text
+            try:
+                magnitude = parse_quantity(t.text, "force").value
+            except UnitError as exc:
+                findings.append(_f(Code.TEXT_UNREAD, f"load text {t.text!r} is not a force: {exc}", [t.source], t.position))
+        if effort_N is not None:
+            magnitude = effort_N
+            text = None
+        if magnitude is None:
+            findings.append(
+                _f(
+                    Code.LOAD_NO_MAGNITUDE,
+                    f"load {name} has no magnitude; put a text such as '1.2 kN' beside it or pass --effort",
+                    [lp.source],
+                    start,
+                )
+            )
+        loads.append(Load(name, part, start, direction, magnitude, text, lp.source))
+    if not load_paths:
+        findings.append(Finding(Code.NO_LOAD, "no load line on the load layer; draw the effort as a line from its point of application"))
+
+    # -- shoes -----------------------------------------------------------------
+    shoes: list[Shoe] = []
+    loaded_parts = {ld.part for ld in loads}
+    for k, arc in enumerate(arcs):
+        labelled = named.get(("shoe", k))
+        sname = labelled[1].text if labelled else f"shoe{k + 1}"
+        mid = arc.point_at(arc.mid_deg)
+        if drum is None:
+            continue
+        off_c = dist(arc.center, drum.center)
+        off_r = abs(arc.radius_mm - drum.radius_mm)
+        if off_c > tol or off_r > tol:
+            findings.append(
+                _f(
+                    Code.SHOE_OFF_DRUM,
+                    f"shoe arc {sname} is not on the drum circle (centre off by {off_c:.4g} mm, "
+                    f"radius off by {off_r:.4g} mm; tolerance {tol:.3g} mm)",
+                    [arc.source],
+                    mid,
+                )
+            )
+            continue
+        on = sorted(
+            {
+                gi
+                for gi, members in enumerate(group_list)
+                for i in members
+                for end in (links[i].points[0], links[i].points[-1])
+                if _on_arc(end, arc, tol)
+            }
+        )
+        if not on:
+            findings.append(
+                _f(Code.SHOE_UNATTACHED, f"no part's centreline ends on shoe arc {sname}", [arc.source], mid)
+            )
+            continue
+        if len(on) > 1:
+            findings.append(
+                _f(Code.SHOE_MANY_PARTS, f"{len(on)} separate parts end on shoe arc {sname}; "
+                   "join them or give each shoe its own arc", [arc.source], mid)
+            )
+            continue
+        pname = part_names[on[0]]
+        mine = part_pins[pname]
+        mounting = Mounting.FIXED
+        pin: str | None = None
+        if len(mine) == 1 and pname not in loaded_parts:
+            mounting, pin = Mounting.PIVOTED, mine[0]
+        # internal shoe: the part carrying it lies inside the drum
+        members = group_list[on[0]]
+        pts = [q for i in members for q in links[i].points]
+        inside = sum(1 for q in pts if dist(q, drum.center) < drum.radius_mm - tol)
+        internal = inside > len(pts) / 2
+        if labelled is None:
+            # an unlabelled shoe is named after the part that carries it
+            sname = pname if mounting is Mounting.PIVOTED else f"{pname} shoe"
+            if any(s.name == sname for s in shoes):
+                sname = gen("shoe")
+        shoes.append(Shoe(sname, pname, arc, mounting, pin, internal))
+    if drum is not None and not arcs:
+        findings.append(Finding(Code.NO_SHOE, "no shoe arc on the shoe layer; draw each lining's contact arc on the drum"))
+
+    parts = tuple(
+        Part(
+            part_names[gi],
+            tuple(s for i in members for s in links[i].segments()),
+            tuple(part_pins[part_names[gi]]),
+            tuple(links[i].source for i in members),
+        )
+        for gi, members in enumerate(group_list)
+    )
+    return Mechanism(
+        drawing=drawing,
+        tolerance_mm=tol,
+        length_scale_mm=drawing.extent_mm(),
+        drum=drum,
+        pins=tuple(pins),
+        parts=parts,
+        shoes=tuple(shoes),
+        loads=tuple(loads),
+        findings=tuple(findings),
+    )

@@ -1,0 +1,222 @@
+"""Output: the terminal report, the JSON document and error lines.
+
+Every command prints through this module.  Rich is imported only when a
+terminal report is drawn, so that ``--json`` runs stay light.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+from typing import IO, Any
+
+from dxfcheck.errors import DxfcheckError
+from dxfcheck.findings import Finding, Severity
+from dxfcheck.statics import CaseSolution, Solution
+
+__all__ = ["CAUTION", "SOLVE_SCHEMA", "print_error", "print_solution", "solution_to_dict", "write_json"]
+
+#: Carried by every report.
+CAUTION = (
+    "Caution: dxfcheck is a design aid. Final design must follow the applicable codes and "
+    "standards and be checked by a qualified engineer."
+)
+
+#: Versioned name of the ``solve --json`` document.
+SOLVE_SCHEMA = "dxfcheck.solve/1"
+
+
+def _r(x: float, nd: int = 6) -> float:
+    return float(f"{x:.{nd}g}") if x == x else x
+
+
+def case_to_dict(c: CaseSolution) -> dict[str, Any]:
+    """The JSON form of one solved direction."""
+    return {
+        "direction": str(c.direction),
+        "mu": c.mu,
+        "torque_Nm": c.torque_Nm,
+        "critical_mu": c.critical_mu,
+        "residual": c.residual,
+        "condition": c.condition,
+        "shoes": [
+            {
+                "name": s.name,
+                "part": s.part,
+                "model": s.model,
+                "mounting": s.mounting,
+                "contact_angle_deg": s.contact_angle_deg,
+                "normal_N": s.normal_N,
+                "friction_N": s.friction_N,
+                "torque_Nm": s.torque_Nm,
+                "contact_mm": list(s.contact),
+                "force_N": list(s.force),
+            }
+            for s in c.shoes
+        ],
+        "pins": [
+            {
+                "name": p.name,
+                "x_mm": p.x_mm,
+                "y_mm": p.y_mm,
+                "diameter_mm": p.diameter_mm,
+                "pivot": p.grounded,
+                "fx_N": p.fx_N,
+                "fy_N": p.fy_N,
+                "force_N": p.force_N,
+                "max_force_N": p.max_force_N,
+                "parts": list(p.parts),
+                "on_parts": [{"part": a.body, "fx_N": a.fx_N, "fy_N": a.fy_N} for a in p.attachments],
+            }
+            for p in c.pins
+        ],
+        "members": [
+            {"name": m.name, "ends": list(m.ends), "axial_N": m.axial_N, "state": m.state, "length_mm": m.length_mm}
+            for m in c.members
+        ],
+        "loads": [
+            {"name": ld.name, "part": ld.part, "x_mm": ld.x_mm, "y_mm": ld.y_mm, "fx_N": ld.fx_N, "fy_N": ld.fy_N,
+             "force_N": ld.force_N}
+            for ld in c.loads
+        ],
+    }
+
+
+def solution_to_dict(sol: Solution) -> dict[str, Any]:
+    """The ``dxfcheck.solve/1`` JSON document (schema in the README)."""
+    from dxfcheck import __version__
+
+    mech = sol.mechanism
+    d = mech.drawing
+    return {
+        "schema": SOLVE_SCHEMA,
+        "tool": {"name": "dxfcheck", "version": __version__},
+        "drawing": d.path,
+        "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
+        "tolerance_mm": mech.tolerance_mm,
+        "mechanism": {
+            "drum": None
+            if mech.drum is None
+            else {"x_mm": mech.drum.center[0], "y_mm": mech.drum.center[1], "radius_mm": mech.drum.radius_mm},
+            "parts": [{"name": p.name, "pins": list(p.pins)} for p in mech.parts],
+            "pins": [
+                {"name": p.name, "x_mm": p.center[0], "y_mm": p.center[1], "diameter_mm": p.diameter_mm,
+                 "pivot": p.grounded, "parts": list(p.bodies)}
+                for p in mech.pins
+            ],
+            "shoes": [
+                {"name": s.name, "part": s.part, "mounting": str(s.mounting), "pin": s.pin, "internal": s.internal,
+                 "start_deg": s.arc.start_deg, "end_deg": s.arc.end_deg, "contact_angle_deg": s.contact_angle_deg}
+                for s in mech.shoes
+            ],
+            "loads": [
+                {"name": ld.name, "part": ld.part, "x_mm": ld.point[0], "y_mm": ld.point[1],
+                 "direction": list(ld.direction), "force_N": ld.magnitude_N, "text": ld.text}
+                for ld in mech.loads
+            ],
+        },
+        "cases": [case_to_dict(c) for c in sol.cases],
+        "findings": [f.as_dict() for f in sol.findings],
+        "caution": CAUTION,
+    }
+
+
+def write_json(doc: dict[str, Any], out: IO[str] | None = None) -> None:
+    """Write one JSON document followed by a newline."""
+    out = out or sys.stdout
+    json.dump(doc, out, indent=2, allow_nan=False, default=str)
+    out.write("\n")
+
+
+def _severity_style(sev: Severity) -> str:
+    return {"error": "bold red", "warning": "yellow", "info": "cyan"}[str(sev)]
+
+
+def print_findings(console: Any, findings: tuple[Finding, ...] | list[Finding]) -> None:
+    """The findings table (words carry the meaning; colour only helps)."""
+    from rich.table import Table
+
+    if not findings:
+        console.print("Findings: none")
+        return
+    t = Table(title="Findings", title_justify="left", show_lines=False)
+    for col in ("code", "severity", "message", "where"):
+        t.add_column(col)
+    for f in findings:
+        t.add_row(f.code.id, f"[{_severity_style(f.severity)}]{f.severity}[/]", f.message, f.where())
+    console.print(t)
+
+
+def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[str, ...] = ()) -> None:
+    """The terminal report of ``dxfcheck solve``."""
+    from rich.console import Console
+    from rich.table import Table
+
+    console = Console(file=out or sys.stdout, highlight=False, soft_wrap=False)
+    mech = sol.mechanism
+    d = mech.drawing
+    console.print(f"[bold]dxfcheck solve[/]  {d.path}")
+    console.print(
+        f"units: {d.units} (from {d.units_source}); tolerance {mech.tolerance_mm:.3g} mm; "
+        f"drum radius {mech.drum.radius_mm:.6g} mm" if mech.drum else f"units: {d.units}"
+    )
+    console.print(
+        f"inferred: {len(mech.parts)} parts, {len(mech.pins)} pins "
+        f"({sum(p.grounded for p in mech.pins)} pivots), {len(mech.shoes)} shoes, {len(mech.loads)} loads"
+    )
+    for s in mech.shoes:
+        console.print(
+            f"  shoe {s.name}: {s.mounting} on {s.pin or s.part}, lining {s.contact_angle_deg:.1f}°"
+            + (" (internal)" if s.internal else "")
+        )
+    for n in notes:
+        console.print(n)
+    for c in sol.cases:
+        console.print()
+        crit = f"{c.critical_mu:.4g}" if c.critical_mu is not None else "none below 1"
+        console.print(
+            f"[bold]drum {c.direction}[/]  μ = {c.mu:g}   braking torque [bold]{c.torque_Nm:.1f} N·m[/]   "
+            f"self-locking μ: {crit}   residual {c.residual:.1e}"
+        )
+        ts = Table(title="shoes", title_justify="left")
+        for col in ("shoe", "model", "normal N", "friction N", "torque N·m"):
+            ts.add_column(col, justify="right" if col != "shoe" and col != "model" else "left")
+        for s in c.shoes:
+            ts.add_row(s.name, s.model, f"{s.normal_N:.1f}", f"{s.friction_N:.1f}", f"{s.torque_Nm:.2f}")
+        console.print(ts)
+        tp = Table(title="pins (force on the first part listed)", title_justify="left")
+        for col in ("pin", "x mm", "y mm", "Fx N", "Fy N", "|F| N", "joins"):
+            tp.add_column(col, justify="left" if col in ("pin", "joins") else "right")
+        for p in c.pins:
+            tp.add_row(
+                p.name + (" (pivot)" if p.grounded else ""),
+                f"{p.x_mm:.1f}",
+                f"{p.y_mm:.1f}",
+                f"{p.fx_N:.1f}",
+                f"{p.fy_N:.1f}",
+                f"{p.max_force_N:.1f}",
+                ", ".join(p.parts),
+            )
+        console.print(tp)
+        if c.members:
+            tm = Table(title="two-force members", title_justify="left")
+            for col in ("member", "between", "axial N", "state"):
+                tm.add_column(col, justify="right" if col == "axial N" else "left")
+            for m in c.members:
+                tm.add_row(m.name, " - ".join(m.ends), f"{abs(m.axial_N):.1f}", m.state)
+            console.print(tm)
+    console.print()
+    print_findings(console, sol.findings)
+    console.print()
+    console.print(CAUTION)
+
+
+def print_error(exc: DxfcheckError, err: IO[str] | None = None) -> None:
+    """One line per problem on stderr, each naming file, entity, layer and
+    place."""
+    err = err or sys.stderr
+    path = exc.path or ""
+    prefix = f"dxfcheck: {path}: " if path else "dxfcheck: "
+    err.write(f"{prefix}error: {exc.message}\n")
+    for f in exc.findings:
+        err.write(f"{prefix}{f.line()}\n")

@@ -1,0 +1,689 @@
+"""Planar rigid-body statics of the whole brake linkage, with Coulomb
+friction at the shoes.
+
+The method is the general one of planar statics (the "method of members" for
+frames and machines): every moving part contributes three equilibrium
+equations (two force sums and one moment sum); every pin is a massless
+particle with two equations; the unknowns are the components of the force
+each pin exerts on each body it joins (the frame included for pivots) and
+one scalar per shoe, the shoe's normal force.  Two-force and three-force
+members are not special-cased: they come out of the one linear solve.
+
+Before solving, the equations are examined by singular-value decomposition:
+
+* a left null vector (an equation combination the unknowns cannot reach)
+  is a *free motion* of the linkage; if the loads do work on it, the drawing
+  shows a mechanism, not a brake, and the parts that move are named;
+* a right null vector is a *self-stress*: the linkage is statically
+  indeterminate (redundant) and its pin forces are not fixed by statics.
+
+The self-locking limit is the friction coefficient at which the equations
+become singular with every shoe pressing on the drum: there the drum holds
+the shoes on with no effort at all.
+
+References
+----------
+.. [1] F. P. Beer, E. R. Johnston et al., *Vector Mechanics for Engineers:
+   Statics*, 11th ed., McGraw-Hill, 2016, ch. 4 (equilibrium of rigid
+   bodies, statical indeterminacy) and ch. 6.3 (frames and machines).
+.. [2] G. Strang, *Linear Algebra and Its Applications*, 4th ed., 2006,
+   §6.3 (singular value decomposition: rank and the four subspaces).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.typing import NDArray
+
+from dxfcheck.contact import ContactModel, ContactWrench, Direction, short_shoe_model
+from dxfcheck.errors import SolveError
+from dxfcheck.findings import Code, Finding, Severity, has_errors
+from dxfcheck.geometry import Point, dist
+from dxfcheck.mechanism import FRAME, Mechanism, Mounting, Part
+
+__all__ = [
+    "Attachment",
+    "CaseSolution",
+    "LoadResult",
+    "MemberResult",
+    "PinResult",
+    "ShoeResult",
+    "Solution",
+    "critical_mu",
+    "solve",
+    "solve_case",
+]
+
+#: Singular values below this fraction of the largest count as zero.
+RANK_RTOL = 1e-10
+#: A load whose share on a free motion exceeds this fraction of the loads'
+#: size drives that motion.
+EXCITATION_RTOL = 1e-8
+#: A row whose coefficients are all below this fraction of the largest is an
+#: identity (0 = 0) and is dropped.
+ZERO_ROW_RTOL = 1e-12
+#: Condition number above which the solution is reported as ill-conditioned.
+CONDITION_WARN = 1e8
+#: Largest relative equilibrium residual accepted.
+RESIDUAL_LIMIT = 1e-8
+#: Share of a mode above which a body or pin is named as taking part in it.
+MODE_SHARE = 0.2
+#: A normal force below minus this fraction of the largest force means the
+#: shoe would have to pull on the drum.
+LIFT_RTOL = 1e-9
+#: Friction coefficients searched for the self-locking limit [-].
+MU_SCAN_MAX = 1.0
+MU_SCAN_STEPS = 100
+#: Bisection on the self-locking limit stops at this width [-].
+MU_TOL = 1e-12
+
+
+@dataclass(frozen=True)
+class Attachment:
+    """Force [N] a pin exerts on one body it joins."""
+
+    body: str
+    fx_N: float
+    fy_N: float
+
+    @property
+    def force_N(self) -> float:
+        return math.hypot(self.fx_N, self.fy_N)
+
+
+@dataclass(frozen=True)
+class PinResult:
+    """Force through one pin.
+
+    ``fx_N``, ``fy_N``, ``force_N`` [N] are the force the pin exerts on the
+    first body in ``parts``; ``attachments`` gives it for every body, and
+    ``max_force_N`` [N] is the largest of them.
+    """
+
+    name: str
+    x_mm: float
+    y_mm: float
+    diameter_mm: float
+    grounded: bool
+    parts: tuple[str, ...]
+    fx_N: float
+    fy_N: float
+    force_N: float
+    max_force_N: float
+    attachments: tuple[Attachment, ...]
+
+
+@dataclass(frozen=True)
+class ShoeResult:
+    """One shoe's forces.
+
+    Attributes
+    ----------
+    normal_N, friction_N : float
+        Normal and friction force between drum and lining [N].
+    torque_Nm : float
+        Braking torque the shoe puts on the drum [N·m], positive against the
+        drum's motion.
+    contact : Point
+        Where the resultant meets the drum surface [mm].
+    force : Point
+        Resultant force of the drum on the shoe [N].
+    """
+
+    name: str
+    part: str
+    model: str
+    mounting: str
+    contact_angle_deg: float
+    normal_N: float
+    friction_N: float
+    torque_Nm: float
+    contact: Point
+    force: Point
+
+
+@dataclass(frozen=True)
+class MemberResult:
+    """A two-force member's axial force ``axial_N`` [N], tension positive,
+    between pins ``ends``; ``length_mm`` [mm] between them."""
+
+    name: str
+    ends: tuple[str, str]
+    axial_N: float
+    length_mm: float
+
+    @property
+    def state(self) -> str:
+        return "tension" if self.axial_N >= 0 else "compression"
+
+
+@dataclass(frozen=True)
+class LoadResult:
+    """An applied load as used: point [mm] and components [N]."""
+
+    name: str
+    part: str
+    x_mm: float
+    y_mm: float
+    fx_N: float
+    fy_N: float
+
+    @property
+    def force_N(self) -> float:
+        return math.hypot(self.fx_N, self.fy_N)
+
+
+@dataclass(frozen=True)
+class CaseSolution:
+    """The statics of one drum direction at one friction coefficient.
+
+    Attributes
+    ----------
+    direction : Direction
+    mu : float
+        Friction coefficient used [-].
+    torque_Nm : float
+        Braking torque on the drum [N·m].
+    critical_mu : float or None
+        Friction coefficient at which the brake self-locks in this direction
+        [-], if one below 1 exists.
+    residual : float
+        Largest equilibrium residual relative to the largest force [-].
+    condition : float
+        Condition number of the equilibrium equations [-].
+    findings : tuple of Finding
+    """
+
+    direction: Direction
+    mu: float
+    torque_Nm: float
+    shoes: tuple[ShoeResult, ...]
+    pins: tuple[PinResult, ...]
+    members: tuple[MemberResult, ...]
+    loads: tuple[LoadResult, ...]
+    critical_mu: float | None
+    residual: float
+    condition: float
+    findings: tuple[Finding, ...] = ()
+
+    def shoe(self, name: str) -> ShoeResult:
+        return next(s for s in self.shoes if s.name == name)
+
+    def pin(self, name: str) -> PinResult:
+        return next(p for p in self.pins if p.name == name)
+
+    def member(self, name: str) -> MemberResult:
+        return next(m for m in self.members if m.name == name)
+
+
+@dataclass(frozen=True)
+class Solution:
+    """Every solved case of a mechanism and all findings so far."""
+
+    mechanism: Mechanism
+    cases: tuple[CaseSolution, ...]
+    findings: tuple[Finding, ...] = field(default=())
+
+    def case(self, direction: Direction | str) -> CaseSolution:
+        d = Direction(direction)
+        return next(c for c in self.cases if c.direction is d)
+
+
+@dataclass
+class _System:
+    a: NDArray[np.float64]
+    b: NDArray[np.float64]
+    row_owner: list[tuple[str, str]]  # ("body"|"pin", name)
+    col_owner: list[tuple[str, str, str]]  # ("pin", pin, body) | ("shoe", shoe, "")
+    wrenches: dict[str, ContactWrench]
+    dropped: list[int]
+    findings: list[Finding]
+
+
+def _ref_point(mech: Mechanism, part: Part) -> Point:
+    for s in mech.shoes:
+        if s.part == part.name and s.mounting is Mounting.PIVOTED and s.pin is not None:
+            return mech.pin(s.pin).center
+    pts = part.points
+    return (sum(p[0] for p in pts) / len(pts), sum(p[1] for p in pts) / len(pts))
+
+
+def contact_models(mech: Mechanism) -> dict[str, ContactModel]:
+    """The contact model of every shoe (short-shoe theory)."""
+    if mech.drum is None:
+        return {}
+    return {
+        s.name: short_shoe_model(s, mech.drum, mech.pin(s.pin).center if s.pin else None) for s in mech.shoes
+    }
+
+
+def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> _System:
+    L = mech.length_scale_mm
+    bodies = [p.name for p in mech.parts]
+    bidx = {n: i for i, n in enumerate(bodies)}
+    refs = {p.name: _ref_point(mech, p) for p in mech.parts}
+    pins = mech.pins
+    n_rows = 3 * len(bodies) + 2 * len(pins)
+    cols: list[tuple[str, str, str]] = []
+    for p in pins:
+        for body in p.bodies:
+            cols.append(("pin", p.name, body))
+    cols += [("shoe", s.name, "") for s in mech.shoes]
+    a = np.zeros((n_rows, 2 * (len(cols) - len(mech.shoes)) + len(mech.shoes)))
+    b = np.zeros(n_rows)
+    row_owner = [("body", n) for n in bodies for _ in range(3)] + [("pin", p.name) for p in pins for _ in range(2)]
+    col_owner: list[tuple[str, str, str]] = []
+    c = 0
+    for k, p in enumerate(pins):
+        prow = 3 * len(bodies) + 2 * k
+        px, py = p.center
+        for body in p.bodies:
+            col_owner += [("pin", p.name, body), ("pin", p.name, body)]
+            a[prow, c] = 1.0
+            a[prow + 1, c + 1] = 1.0
+            if body != FRAME:
+                r = 3 * bidx[body]
+                rx, ry = px - refs[body][0], py - refs[body][1]
+                a[r, c] = 1.0
+                a[r + 1, c + 1] = 1.0
+                a[r + 2, c] = -ry / L
+                a[r + 2, c + 1] = rx / L
+            c += 2
+    wrenches: dict[str, ContactWrench] = {}
+    findings: list[Finding] = []
+    for s in mech.shoes:
+        w = models[s.name].wrench(mu, direction)
+        wrenches[s.name] = w
+        findings += w.findings
+        r = 3 * bidx[s.part]
+        a[r, c] = w.force[0]
+        a[r + 1, c] = w.force[1]
+        a[r + 2, c] = w.moment_about(refs[s.part]) / L
+        col_owner.append(("shoe", s.name, ""))
+        c += 1
+    for ld in mech.loads:
+        if ld.part is None:
+            continue
+        r = 3 * bidx[ld.part]
+        fx, fy = ld.force
+        rx, ry = ld.point[0] - refs[ld.part][0], ld.point[1] - refs[ld.part][1]
+        b[r] -= fx
+        b[r + 1] -= fy
+        b[r + 2] -= (rx * fy - ry * fx) / L
+    # drop identities 0 = 0 (a pivoted shoe's moment about its own pin)
+    scale = float(np.abs(a).max()) if a.size else 1.0
+    dropped = [i for i in range(n_rows) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
+    return _System(a, b, row_owner, col_owner, wrenches, dropped, findings)
+
+
+def _names_in(weights: Iterable[tuple[str, float]]) -> list[str]:
+    acc: dict[str, float] = {}
+    for name, w in weights:
+        acc[name] = acc.get(name, 0.0) + w * w
+    if not acc:
+        return []
+    top = max(acc.values())
+    return [n for n, v in acc.items() if v > MODE_SHARE**2 * top]
+
+
+def _pin_srcs(mech: Mechanism, names: Sequence[str]) -> tuple[tuple[str, ...], tuple[str, ...], Point | None]:
+    pins = [mech.pin(n) for n in names if any(p.name == n for p in mech.pins)]
+    return (
+        tuple(p.source.ref for p in pins),
+        tuple(p.source.layer for p in pins),
+        pins[0].center if pins else None,
+    )
+
+
+def _part_srcs(mech: Mechanism, names: Sequence[str]) -> tuple[tuple[str, ...], tuple[str, ...], Point | None]:
+    parts = [mech.part(n) for n in names if any(p.name == n for p in mech.parts)]
+    srcs = [s for p in parts for s in p.sources]
+    return (
+        tuple(s.ref for s in srcs),
+        tuple(s.layer for s in srcs),
+        parts[0].segments[0][0] if parts else None,
+    )
+
+
+def _diagnose(mech: Mechanism, sys_: _System, direction: Direction) -> tuple[list[Finding], float]:
+    """Free motions and redundancy by SVD; returns findings and the
+    condition number."""
+    findings: list[Finding] = []
+    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
+    # rows dropped while the loads act on them: a part with nothing to hold it
+    bscale = max(float(np.abs(sys_.b).max(initial=0.0)), 1.0)
+    loose: list[str] = []
+    for i in sys_.dropped:
+        kind, name = sys_.row_owner[i]
+        pivoted_moment = (
+            kind == "body"
+            and i % 3 == 2
+            and any(s.part == name and s.mounting is Mounting.PIVOTED for s in mech.shoes)
+        )
+        if pivoted_moment and abs(sys_.b[i]) <= EXCITATION_RTOL * bscale:
+            continue
+        if name not in loose:
+            loose.append(name)
+    for name in loose:
+        h, lay, at = _part_srcs(mech, [name])
+        excited = any(abs(sys_.b[i]) > EXCITATION_RTOL * bscale for i in sys_.dropped if sys_.row_owner[i][1] == name)
+        findings.append(
+            Finding(
+                Code.FREE_MOTION,
+                f"{direction}: part {name} is held by nothing (no pin or shoe reaches it)"
+                + ("; its load cannot be carried" if excited else ""),
+                h,
+                lay,
+                at,
+                Severity.ERROR if excited else Severity.WARNING,
+            )
+        )
+    a = sys_.a[keep]
+    b = sys_.b[keep]
+    owners = [sys_.row_owner[i] for i in keep]
+    if a.size == 0:
+        return findings, 1.0
+    u, s, vt = np.linalg.svd(a)
+    smax = float(s[0]) if s.size else 0.0
+    rank = int(np.sum(s > RANK_RTOL * smax))
+    m, n = a.shape
+    cond = smax / float(s[rank - 1]) if rank > 0 else math.inf
+    if rank < m:
+        null = u[:, rank:]
+        proj = null.T @ b
+        bnorm = float(np.linalg.norm(b)) or 1.0
+        excited = float(np.linalg.norm(proj)) > EXCITATION_RTOL * bnorm
+        y = null @ proj if excited else null[:, 0]
+        body_names = _names_in((name, float(y[i])) for i, (kind, name) in enumerate(owners) if kind == "body")
+        pin_names = _names_in((name, float(y[i])) for i, (kind, name) in enumerate(owners) if kind == "pin")
+        moving = [nm for nm in body_names if nm not in loose]
+        if moving or not excited:
+            h, lay, at = _part_srcs(mech, moving)
+            verb = "can move under the loads" if excited else "can move freely (the loads do not drive it)"
+            around = f" (around pins {', '.join(pin_names)})" if pin_names else ""
+            findings.append(
+                Finding(
+                    Code.FREE_MOTION,
+                    f"{direction}: part{'s' if len(moving) != 1 else ''} {', '.join(moving) or '?'} {verb}{around}: "
+                    f"the linkage has {m - rank} free motion{'s' if m - rank > 1 else ''}; "
+                    "add the pin or link that holds it",
+                    h,
+                    lay,
+                    at,
+                    Severity.ERROR if excited else Severity.WARNING,
+                )
+            )
+    if rank < n:
+        v = vt[rank:].T
+        weights = np.sqrt(np.sum(v * v, axis=1))
+        pin_w = [(o[1], float(weights[j])) for j, o in enumerate(sys_.col_owner) if o[0] == "pin"]
+        names = _names_in(pin_w)
+        h, lay, at = _pin_srcs(mech, names)
+        findings.append(
+            Finding(
+                Code.REDUNDANT,
+                f"{direction}: the linkage is statically indeterminate ({n - rank} redundant "
+                f"constraint{'s' if n - rank > 1 else ''}): the forces at pins {', '.join(names)} are not fixed "
+                "by statics alone. A real brake needs a floating lever, an equaliser or a spring there",
+                h,
+                lay,
+                at,
+            )
+        )
+    elif rank == n and cond > CONDITION_WARN:
+        weak = vt[-1]
+        names = _names_in((o[1], float(weak[j])) for j, o in enumerate(sys_.col_owner))
+        findings.append(
+            Finding(
+                Code.ILL_CONDITIONED,
+                f"{direction}: the equations are nearly singular (condition number {cond:.3g}); "
+                f"results near {', '.join(names)} are very sensitive to the geometry",
+            )
+        )
+    return findings, cond
+
+
+def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> float:
+    sys_ = _assemble(mech, models, mu, direction)
+    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
+    a = sys_.a[keep]
+    if a.shape[0] != a.shape[1]:
+        return math.nan
+    sign, _ = np.linalg.slogdet(a)
+    return float(sign)
+
+
+def critical_mu(mech: Mechanism, direction: Direction, mu_max: float = MU_SCAN_MAX) -> float | None:
+    """The friction coefficient at which the brake self-locks in
+    ``direction`` [-], or None if there is none up to ``mu_max``.
+
+    The equilibrium equations are linear in the unknown forces for a given
+    μ; at the self-locking limit they become singular with a non-trivial
+    solution under zero load, in which every shoe presses on the drum
+    (normal forces of one sign).  The limit is found by scanning the sign
+    of the determinant and bisecting.
+    """
+    models = contact_models(mech)
+    grid = [mu_max * k / MU_SCAN_STEPS for k in range(MU_SCAN_STEPS + 1)]
+    signs = [_square_det_sign(mech, models, mu, direction) for mu in grid]
+    if any(math.isnan(s) for s in signs):
+        return None
+    for k in range(MU_SCAN_STEPS):
+        lo, hi, slo = grid[k], grid[k + 1], signs[k]
+        if slo == 0.0:
+            hi = lo
+        elif slo * signs[k + 1] > 0:
+            continue
+        while hi - lo > MU_TOL:
+            mid = 0.5 * (lo + hi)
+            sm = _square_det_sign(mech, models, mid, direction)
+            if sm * slo > 0:
+                lo = mid
+            else:
+                hi = mid
+        mu_c = 0.5 * (lo + hi)
+        if _all_shoes_press(mech, models, mu_c, direction):
+            return mu_c
+    return None
+
+
+def _all_shoes_press(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> bool:
+    sys_ = _assemble(mech, models, mu, direction)
+    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
+    _, _, vt = np.linalg.svd(sys_.a[keep])
+    v = vt[-1]
+    normals = [
+        float(v[j]) * sys_.wrenches[o[1]].normal_per_unit for j, o in enumerate(sys_.col_owner) if o[0] == "shoe"
+    ]
+    if not normals:
+        return False
+    if sum(normals) < 0:
+        normals = [-x for x in normals]
+    top = max(abs(x) for x in normals)
+    return top > 0 and all(x >= -1e-6 * top for x in normals) and max(normals) > MODE_SHARE * top
+
+
+def solve_case(mech: Mechanism, mu: float, direction: Direction | str) -> CaseSolution:
+    """Solve the statics of one drum direction.
+
+    Parameters
+    ----------
+    mech : Mechanism
+        A mechanism without error findings.
+    mu : float
+        Coefficient of friction between lining and drum [-].
+    direction : Direction or str
+        ``"cw"`` or ``"ccw"``, as seen in the drawing.
+
+    Returns
+    -------
+    CaseSolution
+
+    Raises
+    ------
+    SolveError
+        When the linkage has a free motion the loads drive, or is redundant;
+        the error carries the findings that name the parts and pins.
+    """
+    direction = Direction(direction)
+    if has_errors(list(mech.findings)):
+        raise SolveError("the mechanism has errors; fix the drawing first", path=mech.drawing.path,
+                         findings=[f for f in mech.findings if f.severity is Severity.ERROR])
+    if not math.isfinite(mu) or mu < 0:
+        raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
+    models = contact_models(mech)
+    sys_ = _assemble(mech, models, mu, direction)
+    findings, cond = _diagnose(mech, sys_, direction)
+    findings = list(dict.fromkeys([*sys_.findings, *findings]))
+    if has_errors(findings):
+        raise SolveError(
+            f"{direction}: the linkage cannot be solved", path=mech.drawing.path,
+            findings=[f for f in findings if f.severity is Severity.ERROR],
+        )
+    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
+    a, b = sys_.a[keep], sys_.b[keep]
+    if a.shape[0] == a.shape[1]:
+        x = np.linalg.solve(a, b)
+    else:
+        x = np.linalg.lstsq(a, b, rcond=None)[0]
+    fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(b).max(initial=0.0)), 1e-300)
+    residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale
+    if residual > RESIDUAL_LIMIT:
+        findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
+    return _results(mech, sys_, x, mu, direction, residual, cond, findings)
+
+
+def _results(
+    mech: Mechanism,
+    sys_: _System,
+    x: NDArray[np.float64],
+    mu: float,
+    direction: Direction,
+    residual: float,
+    cond: float,
+    findings: list[Finding],
+) -> CaseSolution:
+    att: dict[str, list[Attachment]] = {}
+    shoes: list[ShoeResult] = []
+    j = 0
+    while j < len(sys_.col_owner):
+        kind, name, body = sys_.col_owner[j]
+        if kind == "pin":
+            att.setdefault(name, []).append(Attachment(body, float(x[j]), float(x[j + 1])))
+            j += 2
+            continue
+        s = next(sh for sh in mech.shoes if sh.name == name)
+        w = sys_.wrenches[name]
+        q = float(x[j])
+        shoes.append(
+            ShoeResult(
+                name=name,
+                part=s.part,
+                model=w.model,
+                mounting=str(s.mounting),
+                contact_angle_deg=s.contact_angle_deg,
+                normal_N=q * w.normal_per_unit,
+                friction_N=q * w.friction_per_unit,
+                torque_Nm=q * w.torque_per_unit_Nmm / 1000.0,
+                contact=w.point,
+                force=(q * w.force[0], q * w.force[1]),
+            )
+        )
+        j += 1
+    pins: list[PinResult] = []
+    for p in mech.pins:
+        lst = att[p.name]
+        first = lst[0]
+        pins.append(
+            PinResult(
+                name=p.name,
+                x_mm=p.center[0],
+                y_mm=p.center[1],
+                diameter_mm=p.diameter_mm,
+                grounded=p.grounded,
+                parts=p.bodies,
+                fx_N=first.fx_N,
+                fy_N=first.fy_N,
+                force_N=first.force_N,
+                max_force_N=max(a.force_N for a in lst),
+                attachments=tuple(lst),
+            )
+        )
+    shoe_parts = {s.part for s in mech.shoes}
+    loaded = {ld.part for ld in mech.loads}
+    members: list[MemberResult] = []
+    for part in mech.parts:
+        if len(part.pins) != 2 or part.name in shoe_parts or part.name in loaded:
+            continue
+        pa, pb = mech.pin(part.pins[0]), mech.pin(part.pins[1])
+        length = dist(pa.center, pb.center)
+        if length <= mech.tolerance_mm:
+            continue
+        ux, uy = (pb.center[0] - pa.center[0]) / length, (pb.center[1] - pa.center[1]) / length
+        fb = next(a for a in att[pb.name] if a.body == part.name)
+        members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
+    loads = tuple(
+        LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part
+    )
+    torque = sum(s.torque_Nm for s in shoes)
+    mu_c = critical_mu(mech, direction)
+    fmax = max([abs(s.normal_N) for s in shoes] + [ld.force_N for ld in loads] + [1e-300])
+    locked = mu_c is not None and mu >= mu_c
+    if locked:
+        findings.append(
+            Finding(
+                Code.SELF_LOCKING,
+                f"{direction}: the brake self-locks at μ = {mu:g} (critical μ = {mu_c:.4g}): the drum drags "
+                "the shoes on with no effort, and the effort would have to pull them off",
+            )
+        )
+    else:
+        for s in shoes:
+            if s.normal_N < -LIFT_RTOL * fmax:
+                sh = next(x for x in mech.shoes if x.name == s.name)
+                findings.append(
+                    Finding(
+                        Code.SHOE_LIFTS,
+                        f"{direction}: shoe {s.name} would have to pull on the drum (normal force "
+                        f"{s.normal_N:.4g} N): under these loads it lifts off",
+                        (sh.arc.source.ref,),
+                        (sh.arc.source.layer,),
+                        s.contact,
+                    )
+                )
+    return CaseSolution(
+        direction=direction,
+        mu=mu,
+        torque_Nm=torque,
+        shoes=tuple(shoes),
+        pins=tuple(pins),
+        members=tuple(members),
+        loads=loads,
+        critical_mu=mu_c,
+        residual=residual,
+        condition=cond,
+        findings=tuple(findings),
+    )
+
+
+def solve(
+    mech: Mechanism,
+    mu: float,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+) -> Solution:
+    """Solve every requested drum direction.
+
+    Raises
+    ------
+    SolveError
+        As :func:`solve_case`.
+    """
+    cases = tuple(solve_case(mech, mu, d) for d in directions)
+    findings = list(mech.findings)
+    for c in cases:
+        findings += [f for f in c.findings if f not in findings]
+    return Solution(mechanism=mech, cases=cases, findings=tuple(findings))
