@@ -262,6 +262,14 @@ def _on_arc(p: Point, arc: ArcGeom, tol: float) -> bool:
     return angle_in_arc(ang, arc.start_deg, arc.end_deg, slack)
 
 
+def _arc_distance(p: Point, arc: ArcGeom) -> float:
+    """Distance from ``p`` to the arc (not the full circle) [mm]."""
+    ang = math.degrees(math.atan2(p[1] - arc.center[1], p[0] - arc.center[0])) % 360
+    if angle_in_arc(ang, arc.start_deg, arc.end_deg):
+        return abs(dist(p, arc.center) - arc.radius_mm)
+    return min(dist(p, arc.point_at(arc.start_deg)), dist(p, arc.point_at(arc.end_deg)))
+
+
 def _f(code: Code, msg: str, srcs: Sequence[Source], at: Point | None = None) -> Finding:
     return Finding(code, msg, tuple(s.ref for s in srcs), tuple(s.layer for s in srcs), at)
 
@@ -361,8 +369,7 @@ def build_mechanism(
             return min(
                 point_segment_distance(t.position, a, b) for i in group_list[idx] for a, b in links[i].segments()
             )
-        a = arcs[idx]
-        return abs(dist(t.position, a.center) - a.radius_mm)
+        return _arc_distance(t.position, arcs[idx])
 
     targets = (
         [("pin", i) for i in range(len(pin_geoms))]

@@ -106,8 +106,12 @@ class Sketch:
         ``end_deg``."""
         self.items.append(("arc", "shoe", (x, y), r, start_deg, end_deg))
         if label:
-            mid = math.radians(start_deg + ((end_deg - start_deg) % 360) / 2)
-            self.label(label, x + r * math.cos(mid), y + r * math.sin(mid))
+            # just inside the lining, a quarter of the way along it, so the
+            # label is nearer the arc than the part that ends at its middle
+            span = (end_deg - start_deg) % 360
+            at = math.radians(start_deg + span / 4)
+            rr = r - min(0.02 * r, 0.2 * r * math.radians(span))
+            self.label(label, x + rr * math.cos(at), y + rr * math.sin(at))
         return self
 
     def load(

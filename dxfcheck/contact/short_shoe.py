@@ -39,10 +39,6 @@ from dxfcheck.mechanism import Drum, Mounting, Shoe
 
 __all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
 
-#: Samples over the half-circle searched for a pivoted shoe's contact point.
-CONTACT_SEARCH_SAMPLES = 720
-#: Bisection stops when the bracket is narrower than this [rad].
-CONTACT_ANGLE_TOL = 1e-13
 #: Slack allowed at the lining's ends before a contact point is reported as
 #: outside the lining [degrees].
 LINING_SLACK_DEG = 1e-6
@@ -115,41 +111,40 @@ class ShortPivotedShoe:
     pin_center: Point
     name: str = "short-pivoted"
 
-    def _miss(self, alpha: float, mu: float, direction: Direction) -> float:
-        w = _wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction)
-        rel = (self.pin_center[0] - w.point[0], self.pin_center[1] - w.point[1])
-        return cross(rel, w.force)
-
     def wrench(self, mu: float, direction: Direction) -> ContactWrench:
         """Force on the shoe per newton of normal force [N/N], acting at the
         point of the drum surface whose resultant line passes through the
-        pin."""
+        pin.
+
+        With the pin at polar position ``(p, β)`` about the drum axis and
+        ``φs = ±atan μ`` (sign of the drum's direction), the contact point's
+        polar angle is ``α = β − δ`` where ``p·sin(φs − δ) = r·sin φs`` for an
+        external shoe and ``p·sin(φs + δ) = r·sin φs`` for an internal one
+        (the line through the pin tangent to the friction circle).  Of the two
+        roots, the one with the pin ahead of the contact point along the
+        force, nearest the lining's middle, is taken.
+        """
+        cx, cy = self.drum.center
+        px, py = self.pin_center[0] - cx, self.pin_center[1] - cy
+        p = math.hypot(px, py)
+        beta = math.atan2(py, px)
+        phi_s = direction.sign * math.atan(mu)
+        k = self.drum.radius_mm * math.sin(phi_s) / p if p > 0 else math.inf
         mid = math.radians(self.shoe.arc.mid_deg)
-        n = CONTACT_SEARCH_SAMPLES
-        grid = [mid - math.pi / 2 + math.pi * k / n for k in range(n + 1)]
-        vals = [self._miss(a, mu, direction) for a in grid]
-        roots: list[float] = []
-        for k in range(n):
-            a0, a1, g0, g1 = grid[k], grid[k + 1], vals[k], vals[k + 1]
-            if g0 == 0.0:
-                roots.append(a0)
-                continue
-            if g0 * g1 > 0.0:
-                continue
-            while a1 - a0 > CONTACT_ANGLE_TOL:
-                am = 0.5 * (a0 + a1)
-                gm = self._miss(am, mu, direction)
-                if g0 * gm <= 0.0:
-                    a1 = am
-                else:
-                    a0, g0 = am, gm
-            roots.append(0.5 * (a0 + a1))
         good: list[tuple[float, ContactWrench]] = []
-        for a in roots:
-            w = _wrench_at(self.name, self.shoe, self.drum, a, mu, direction)
-            rel = (self.pin_center[0] - w.point[0], self.pin_center[1] - w.point[1])
-            if rel[0] * w.force[0] + rel[1] * w.force[1] > 0.0:  # pin ahead along the force
-                good.append((abs(a - mid), w))
+        if abs(k) <= 1.0:
+            asn = math.asin(k)
+            if self.shoe.internal:
+                deltas = (asn - phi_s, math.pi - asn - phi_s)
+            else:
+                deltas = (phi_s - asn, phi_s - math.pi + asn)
+            for delta in deltas:
+                alpha = beta - delta
+                w = _wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction)
+                rel = (self.pin_center[0] - w.point[0], self.pin_center[1] - w.point[1])
+                if rel[0] * w.force[0] + rel[1] * w.force[1] > 0.0:  # pin ahead along the force
+                    off = abs(math.remainder(alpha - mid, 2 * math.pi))
+                    good.append((off, w))
         if not good:
             w = _wrench_at(self.name, self.shoe, self.drum, mid, mu, direction)
             miss = Finding(
@@ -160,8 +155,9 @@ class ShortPivotedShoe:
                 (self.shoe.arc.source.layer,),
                 self.pin_center,
             )
-            return ContactWrench(w.model, w.point, w.force, w.normal, w.tangent, 1.0, mu,
-                                 w.torque_per_unit_Nmm, (miss,))
+            return ContactWrench(
+                w.model, w.point, w.force, w.normal, w.tangent, 1.0, mu, w.torque_per_unit_Nmm, (miss,)
+            )
         return min(good, key=lambda g: g[0])[1]
 
 

@@ -1,0 +1,111 @@
+"""Test geometries, defined once and shared by the test modules.
+
+Each builder returns a :class:`dxfcheck.sketch.Sketch` in the project's layer
+convention.  Geometry that comes from a published example says so.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT / "drawings"))
+
+from build import conveyor_block, winch_two_shoe  # noqa: E402
+
+from dxfcheck.sketch import Sketch  # noqa: E402
+
+__all__ = [
+    "ROOT",
+    "block_brake",
+    "conveyor_block",
+    "double_block_spring_pair",
+    "frame_bellcrank_two_shoe",
+    "winch_two_shoe",
+]
+
+
+def block_brake(
+    *,
+    r: float,
+    l: float,
+    x: float,
+    a: float,
+    effort: str | None,
+    contact_deg: float = 20.0,
+    units: str | None = "mm",
+) -> Sketch:
+    """Single-lever block brake as in the lever equation P·l = N(x ∓ μa).
+
+    The drum axis is at the origin and the block touches the drum at the top,
+    (0, r).  The pivot O is at (-x, r + a): ``x`` is the arm of the normal
+    force about O and ``a`` the offset of the friction line (the tangent at
+    the contact point) from O.  The effort P acts downward at arm ``l`` from
+    O, at the far end of the lever; the block is joined rigidly to the lever
+    by a centreline from the lever down to the contact point.  For ``a = 0``
+    the lever itself runs through the contact point, drawn as two pieces that
+    meet there.
+    """
+    sk = Sketch(units=units)
+    sk.drum(0, 0, r)
+    y = r + a
+    sk.pivot(-x, y, 20, label="O")
+    end = -x + l
+    if a == 0:
+        sk.link((-x, y), (0.0, y), label="lever", label_at=(-x / 2, y + 15))
+        sk.link((0.0, y), (end, y))
+    else:
+        sk.link((-x, y), (end, y), label="lever", label_at=(-x / 2, y + 15))
+        sk.link((0.0, y), (0.0, r))
+    sk.shoe(0, 0, r, 90 - contact_deg / 2, 90 + contact_deg / 2, label="block")
+    sk.load(end, y, 0, -1, effort, length=60)
+    return sk
+
+
+def double_block_spring_pair(*, r: float, l: float, x: float, a: float, spring: str) -> Sketch:
+    """Two levers with fixed blocks, pulled together at their tops.
+
+    Geometry of B. K. Sarkar, *Theory of Machines*, ch. 10, Illustration 3:
+    each lever is pivoted at O, carries a block at arm ``x`` from O whose
+    friction line is offset ``a`` from O, and is pulled toward the drum by
+    the spring force at arm ``l``.  The spring's equal and opposite pull on
+    the two levers is drawn as two loads.
+    """
+    sk = Sketch()
+    sk.drum(0, 0, r)
+    for side, name in ((-1, "left"), (1, "right")):
+        ox, oy = side * (r + a), -x
+        sk.pivot(ox, oy, 20, label=f"O {name}")
+        sk.link((ox, oy), (ox, oy + l), label=f"{name} lever", label_at=(ox + side * 15, oy + l / 2))
+        sk.link((ox, 0.0), (side * r, 0.0))
+        c = 180.0 if side < 0 else 0.0
+        sk.shoe(0, 0, r, c - 20, c + 20, label=f"{name} block")
+        sk.load(ox, oy + l, -side, 0, spring, length=50)
+    return sk
+
+
+def frame_bellcrank_two_shoe() -> Sketch:
+    """The winch brake with its bell crank pivoted to the frame instead of
+    floating on the right lever: with two shoes on a one-degree-of-freedom
+    linkage, the linkage is statically indeterminate."""
+    sk = Sketch()
+    sk.drum(0, 0, 200)
+    for side, tag in ((-1, "1"), (1, "2")):
+        x = side * 250
+        sk.pivot(x, -320, 30, label=f"O{tag}")
+        sk.pin(x, 0, 24, label=f"S{tag}")
+        top = 560 if side < 0 else 300
+        sk.pin(x, top, 20, label=f"T{tag}")
+        sk.link((x, -320), (x, 0), (x, top))
+        sk.link((x, 0), (side * 200, 0))
+        c = 180.0 if side < 0 else 0.0
+        sk.shoe(0, 0, 200, c - 35, c + 35)
+    sk.pivot(380, 420, 24, label="K")
+    sk.pin(380, 560, 20, label="C")
+    sk.pin(480, 420, 20, label="D")
+    sk.link((380, 560), (380, 420), (680, 420), label="bell crank", label_at=(560, 435))
+    sk.link((-250, 560), (380, 560), label="upper rod", label_at=(60, 575))
+    sk.link((250, 300), (480, 420), label="lower rod", label_at=(365, 345))
+    sk.load(680, 420, 0, -1, "1.5 kN")
+    return sk
