@@ -43,7 +43,9 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
     s.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
     s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS (mm, cm, m, inch, ft)")
-    s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled to the drawing)")
+    s.add_argument(
+        "--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled to the drawing)"
+    )
     s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     return p
 
@@ -65,7 +67,12 @@ def _solve(args: argparse.Namespace) -> int:
     mu = DEFAULT_MU if args.mu is None else args.mu
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
     sol = analyse(
-        args.drawing, mu=mu, effort_N=effort, directions=directions, config=args.config, units=args.units,
+        args.drawing,
+        mu=mu,
+        effort_N=effort,
+        directions=directions,
+        config=args.config,
+        units=args.units,
         tolerance_mm=tol,
     )
     if args.json:

@@ -87,9 +87,7 @@ def _parse_layers(raw: Any, path: str) -> dict[Role, tuple[str, ...]]:
     seen: dict[str, Role] = {}
     for key, value in raw.items():
         if key not in roles:
-            raise ConfigError(
-                f"[layers] has an unknown role {key!r} (roles: {', '.join(roles)})", path=path
-            )
+            raise ConfigError(f"[layers] has an unknown role {key!r} (roles: {', '.join(roles)})", path=path)
         if isinstance(value, str):
             value = [value]
         if not isinstance(value, list) or not all(isinstance(v, str) and v for v in value):
@@ -97,9 +95,7 @@ def _parse_layers(raw: Any, path: str) -> dict[Role, tuple[str, ...]]:
         names = tuple(v.upper() for v in value)
         for n in names:
             if n in seen and seen[n] is not roles[key]:
-                raise ConfigError(
-                    f"[layers] layer {n!r} is given two roles ({seen[n]}, {key})", path=path
-                )
+                raise ConfigError(f"[layers] layer {n!r} is given two roles ({seen[n]}, {key})", path=path)
             seen[n] = roles[key]
         layers[roles[key]] = names
     return layers

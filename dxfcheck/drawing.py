@@ -283,9 +283,7 @@ def _walk(
             col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({exc})", src)
 
 
-def _walk_insert(
-    col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: tuple[str, ...], depth: int
-) -> None:
+def _walk_insert(col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: tuple[str, ...], depth: int) -> None:
     src = Source(handle=str(e.dxf.get("handle", "?")), layer=layer, via=via)
     name = e.dxf.get("name", "")
     block = doc.blocks.get(name)
@@ -348,8 +346,7 @@ def _take(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Sou
             scale = math.sqrt(abs(mm.det))
             col.finding(
                 Code.DISTORTED_CIRCLE,
-                f"{dxftype} is stretched into an ellipse by a block's non-uniform scale; "
-                "its mean radius is used",
+                f"{dxftype} is stretched into an ellipse by a block's non-uniform scale; its mean radius is used",
                 src,
                 center,
             )
@@ -362,10 +359,7 @@ def _take(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Sou
         a0 = math.radians(float(e.dxf.start_angle))
         a1 = math.radians(float(e.dxf.end_angle))
         span = (a1 - a0) % (2 * math.pi) or 2 * math.pi
-        pts = [
-            mm.apply((float(c[0]) + r * math.cos(t), float(c[1]) + r * math.sin(t)))
-            for t in (a0, a0 + span)
-        ]
+        pts = [mm.apply((float(c[0]) + r * math.cos(t), float(c[1]) + r * math.sin(t))) for t in (a0, a0 + span)]
         s_deg = math.degrees(math.atan2(pts[0][1] - center[1], pts[0][0] - center[0])) % 360
         e_deg = math.degrees(math.atan2(pts[1][1] - center[1], pts[1][0] - center[0])) % 360
         if mm.mirrors:
@@ -483,16 +477,16 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
     findings.append(
         Finding(
             Code.UNITS_ASSUMED,
-            "$INSUNITS and $MEASUREMENT are unset; millimetres assumed. "
-            "Set $INSUNITS in the drawing or pass --units",
+            "$INSUNITS and $MEASUREMENT are unset; millimetres assumed. Set $INSUNITS in the drawing or pass --units",
         )
     )
     return "mm", 1.0, "default", findings
 
 
 def _load_document(path: Path) -> tuple[Any, list[Finding]]:
-    import ezdxf
     from ezdxf import recover
+    from ezdxf.filemanagement import readfile
+    from ezdxf.lldxf.const import DXFStructureError
 
     spath = str(path)
     if not path.exists():
@@ -506,16 +500,14 @@ def _load_document(path: Path) -> tuple[Any, list[Finding]]:
     if not head.strip():
         raise DrawingReadError("is empty; it is not a DXF drawing", path=spath)
     if head.startswith(b"AC10") or head.startswith(b"AC1.") or head[:4] in (b"AC10", b"AC20"):
-        raise DrawingReadError(
-            "looks like a DWG file, not DXF; save it as DXF from the CAD program", path=spath
-        )
+        raise DrawingReadError("looks like a DWG file, not DXF; save it as DXF from the CAD program", path=spath)
     findings: list[Finding] = []
     try:
-        doc = ezdxf.readfile(spath)
-    except ezdxf.DXFStructureError:
+        doc = readfile(spath)
+    except DXFStructureError:
         try:
             doc, auditor = recover.readfile(spath)
-        except (ezdxf.DXFStructureError, OSError, UnicodeError, ValueError) as exc:
+        except (DXFStructureError, OSError, UnicodeError, ValueError) as exc:
             raise DrawingReadError(f"is not a readable DXF drawing ({exc})", path=spath) from exc
         for err in auditor.errors:
             findings.append(Finding(Code.UNSUPPORTED_ENTITY, f"repaired on reading: {err.message}"))

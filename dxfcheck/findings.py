@@ -65,10 +65,10 @@ class Code(enum.Enum):
     REDUNDANT = ("S302", Severity.ERROR, "redundant")
     SHOE_LIFTS = ("S303", Severity.ERROR, "shoe-lifts")
     SELF_LOCKING = ("S304", Severity.ERROR, "self-locking")
-    CONTACT_OFF_LINING = ("S306", Severity.WARNING, "contact-off-lining")
-    ILL_CONDITIONED = ("S307", Severity.WARNING, "ill-conditioned")
-    RESIDUAL = ("S308", Severity.ERROR, "residual")
-    NO_CONTACT_LINE = ("S309", Severity.ERROR, "no-contact-line")
+    CONTACT_OFF_LINING = ("S305", Severity.WARNING, "contact-off-lining")
+    ILL_CONDITIONED = ("S306", Severity.WARNING, "ill-conditioned")
+    RESIDUAL = ("S307", Severity.ERROR, "residual")
+    NO_CONTACT_LINE = ("S308", Severity.ERROR, "no-contact-line")
 
     @property
     def id(self) -> str:

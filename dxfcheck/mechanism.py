@@ -307,13 +307,20 @@ def build_mechanism(
     drums = drawing.circles_of(Role.DRUM)
     drum: Drum | None = None
     if not drums:
-        findings.append(Finding(Code.NO_DRUM, "no drum circle found on the drum layer; draw the drum's braking surface"))
+        findings.append(
+            Finding(Code.NO_DRUM, "no drum circle found on the drum layer; draw the drum's braking surface")
+        )
     else:
         d0 = drums[0]
         drum = Drum(d0.center, d0.radius_mm, d0.source)
         if len(drums) > 1:
             findings.append(
-                _f(Code.MANY_DRUMS, f"{len(drums)} drum circles; one drum per drawing", [d.source for d in drums], d0.center)
+                _f(
+                    Code.MANY_DRUMS,
+                    f"{len(drums)} drum circles; one drum per drawing",
+                    [d.source for d in drums],
+                    d0.center,
+                )
             )
 
     pin_geoms: list[CircleGeom] = [*drawing.circles_of(Role.PIVOT), *drawing.circles_of(Role.PIN)]
@@ -383,14 +390,20 @@ def build_mechanism(
         best = min(targets, key=lambda k: label_distance(t, *k))
         d = label_distance(t, *best)
         if d > reach:
-            findings.append(_f(Code.LABEL_UNUSED, f"label {t.text!r} is near nothing it could name", [t.source], t.position))
+            findings.append(
+                _f(Code.LABEL_UNUSED, f"label {t.text!r} is near nothing it could name", [t.source], t.position)
+            )
             continue
         if best in named:
             prev_d, prev = named[best]
             loser = t if d >= prev_d else prev
             findings.append(
-                _f(Code.LABEL_CLASH, f"labels {prev.text!r} and {t.text!r} name the same {best[0]}; "
-                   f"{loser.text!r} is ignored", [prev.source, t.source], t.position)
+                _f(
+                    Code.LABEL_CLASH,
+                    f"labels {prev.text!r} and {t.text!r} name the same {best[0]}; {loser.text!r} is ignored",
+                    [prev.source, t.source],
+                    t.position,
+                )
             )
             if d >= prev_d:
                 continue
@@ -415,11 +428,7 @@ def build_mechanism(
     # -- pins ------------------------------------------------------------------
     pin_parts: list[list[int]] = []
     for g in pin_geoms:
-        on = [
-            gi
-            for gi, members in enumerate(group_list)
-            if any(_on_path(g.center, links[i], tol) for i in members)
-        ]
+        on = [gi for gi, members in enumerate(group_list) if any(_on_path(g.center, links[i], tol) for i in members)]
         pin_parts.append(on)
     pins: list[Pin] = []
     pin_name_of_geom: dict[int, str] = {}
@@ -430,7 +439,12 @@ def build_mechanism(
         on = pin_parts[k]
         if not on:
             findings.append(
-                _f(Code.ORPHAN_PIN, f"{'pivot' if grounded else 'pin'} {name} lies on no part's centreline", [g.source], g.center)
+                _f(
+                    Code.ORPHAN_PIN,
+                    f"{'pivot' if grounded else 'pin'} {name} lies on no part's centreline",
+                    [g.source],
+                    g.center,
+                )
             )
             continue
         if len(on) == 1 and not grounded:
@@ -469,20 +483,27 @@ def build_mechanism(
             findings.append(_f(Code.LOAD_OFF_PART, f"load {name} has no length, so no direction", [lp.source], start))
             continue
         direction = unit((end[0] - start[0], end[1] - start[1]))
-        on = [
-            gi for gi, members in enumerate(group_list) if any(_on_path(start, links[i], tol) for i in members)
-        ]
+        on = [gi for gi, members in enumerate(group_list) if any(_on_path(start, links[i], tol) for i in members)]
         part: str | None = part_names[on[0]] if on else None
         if part is None:
             findings.append(
-                _f(Code.LOAD_OFF_PART, f"load {name} starts at {_fmt(start)}, on no part's centreline", [lp.source], start)
+                _f(
+                    Code.LOAD_OFF_PART,
+                    f"load {name} starts at {_fmt(start)}, on no part's centreline",
+                    [lp.source],
+                    start,
+                )
             )
         else:
             at_pivot = [p for p in pins if p.grounded and dist(p.center, start) <= tol]
             if at_pivot:
                 findings.append(
-                    _f(Code.LOAD_AT_PIVOT, f"load {name} acts at pivot {at_pivot[0].name} and goes straight into the frame",
-                       [lp.source], start)
+                    _f(
+                        Code.LOAD_AT_PIVOT,
+                        f"load {name} acts at pivot {at_pivot[0].name} and goes straight into the frame",
+                        [lp.source],
+                        start,
+                    )
                 )
         magnitude: float | None = None
         text: str | None = None
@@ -492,7 +513,9 @@ def build_mechanism(
             try:
                 magnitude = parse_quantity(t.text, "force").value
             except UnitError as exc:
-                findings.append(_f(Code.TEXT_UNREAD, f"load text {t.text!r} is not a force: {exc}", [t.source], t.position))
+                findings.append(
+                    _f(Code.TEXT_UNREAD, f"load text {t.text!r} is not a force: {exc}", [t.source], t.position)
+                )
         if effort_N is not None:
             magnitude = effort_N
             text = None
@@ -507,7 +530,11 @@ def build_mechanism(
             )
         loads.append(Load(name, part, start, direction, magnitude, text, lp.source))
     if not load_paths:
-        findings.append(Finding(Code.NO_LOAD, "no load line on the load layer; draw the effort as a line from its point of application"))
+        findings.append(
+            Finding(
+                Code.NO_LOAD, "no load line on the load layer; draw the effort as a line from its point of application"
+            )
+        )
 
     # -- shoes -----------------------------------------------------------------
     shoes: list[Shoe] = []
@@ -547,8 +574,12 @@ def build_mechanism(
             continue
         if len(on) > 1:
             findings.append(
-                _f(Code.SHOE_MANY_PARTS, f"{len(on)} separate parts end on shoe arc {sname}; "
-                   "join them or give each shoe its own arc", [arc.source], mid)
+                _f(
+                    Code.SHOE_MANY_PARTS,
+                    f"{len(on)} separate parts end on shoe arc {sname}; join them or give each shoe its own arc",
+                    [arc.source],
+                    mid,
+                )
             )
             continue
         pname = part_names[on[0]]
@@ -569,7 +600,9 @@ def build_mechanism(
                 sname = gen("shoe")
         shoes.append(Shoe(sname, pname, arc, mounting, pin, internal))
     if drum is not None and not arcs:
-        findings.append(Finding(Code.NO_SHOE, "no shoe arc on the shoe layer; draw each lining's contact arc on the drum"))
+        findings.append(
+            Finding(Code.NO_SHOE, "no shoe arc on the shoe layer; draw each lining's contact arc on the drum")
+        )
 
     parts = tuple(
         Part(

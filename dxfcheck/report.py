@@ -75,8 +75,15 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
             for m in c.members
         ],
         "loads": [
-            {"name": ld.name, "part": ld.part, "x_mm": ld.x_mm, "y_mm": ld.y_mm, "fx_N": ld.fx_N, "fy_N": ld.fy_N,
-             "force_N": ld.force_N}
+            {
+                "name": ld.name,
+                "part": ld.part,
+                "x_mm": ld.x_mm,
+                "y_mm": ld.y_mm,
+                "fx_N": ld.fx_N,
+                "fy_N": ld.fy_N,
+                "force_N": ld.force_N,
+            }
             for ld in c.loads
         ],
     }
@@ -100,18 +107,39 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
             else {"x_mm": mech.drum.center[0], "y_mm": mech.drum.center[1], "radius_mm": mech.drum.radius_mm},
             "parts": [{"name": p.name, "pins": list(p.pins)} for p in mech.parts],
             "pins": [
-                {"name": p.name, "x_mm": p.center[0], "y_mm": p.center[1], "diameter_mm": p.diameter_mm,
-                 "pivot": p.grounded, "parts": list(p.bodies)}
+                {
+                    "name": p.name,
+                    "x_mm": p.center[0],
+                    "y_mm": p.center[1],
+                    "diameter_mm": p.diameter_mm,
+                    "pivot": p.grounded,
+                    "parts": list(p.bodies),
+                }
                 for p in mech.pins
             ],
             "shoes": [
-                {"name": s.name, "part": s.part, "mounting": str(s.mounting), "pin": s.pin, "internal": s.internal,
-                 "start_deg": s.arc.start_deg, "end_deg": s.arc.end_deg, "contact_angle_deg": s.contact_angle_deg}
+                {
+                    "name": s.name,
+                    "part": s.part,
+                    "mounting": str(s.mounting),
+                    "pin": s.pin,
+                    "internal": s.internal,
+                    "start_deg": s.arc.start_deg,
+                    "end_deg": s.arc.end_deg,
+                    "contact_angle_deg": s.contact_angle_deg,
+                }
                 for s in mech.shoes
             ],
             "loads": [
-                {"name": ld.name, "part": ld.part, "x_mm": ld.point[0], "y_mm": ld.point[1],
-                 "direction": list(ld.direction), "force_N": ld.magnitude_N, "text": ld.text}
+                {
+                    "name": ld.name,
+                    "part": ld.part,
+                    "x_mm": ld.point[0],
+                    "y_mm": ld.point[1],
+                    "direction": list(ld.direction),
+                    "force_N": ld.magnitude_N,
+                    "text": ld.text,
+                }
                 for ld in mech.loads
             ],
         },
@@ -158,7 +186,9 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
     console.print(f"[bold]dxfcheck solve[/]  {d.path}")
     console.print(
         f"units: {d.units} (from {d.units_source}); tolerance {mech.tolerance_mm:.3g} mm; "
-        f"drum radius {mech.drum.radius_mm:.6g} mm" if mech.drum else f"units: {d.units}"
+        f"drum radius {mech.drum.radius_mm:.6g} mm"
+        if mech.drum
+        else f"units: {d.units}"
     )
     console.print(
         f"inferred: {len(mech.parts)} parts, {len(mech.pins)} pins "
@@ -181,8 +211,8 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
         ts = Table(title="shoes", title_justify="left")
         for col in ("shoe", "model", "normal N", "friction N", "torque N·m"):
             ts.add_column(col, justify="right" if col != "shoe" and col != "model" else "left")
-        for s in c.shoes:
-            ts.add_row(s.name, s.model, f"{s.normal_N:.1f}", f"{s.friction_N:.1f}", f"{s.torque_Nm:.2f}")
+        for sr in c.shoes:
+            ts.add_row(sr.name, sr.model, f"{sr.normal_N:.1f}", f"{sr.friction_N:.1f}", f"{sr.torque_Nm:.2f}")
         console.print(ts)
         tp = Table(title="pins (force on the first part listed)", title_justify="left")
         for col in ("pin", "x mm", "y mm", "Fx N", "Fy N", "|F| N", "joins"):

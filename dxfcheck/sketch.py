@@ -99,9 +99,7 @@ class Sketch:
             self.label(label, *label_at)
         return self
 
-    def shoe(
-        self, x: float, y: float, r: float, start_deg: float, end_deg: float, label: str | None = None
-    ) -> Sketch:
+    def shoe(self, x: float, y: float, r: float, start_deg: float, end_deg: float, label: str | None = None) -> Sketch:
         """A lining contact arc, counter-clockwise from ``start_deg`` to
         ``end_deg``."""
         self.items.append(("arc", "shoe", (x, y), r, start_deg, end_deg))
@@ -114,9 +112,7 @@ class Sketch:
             self.label(label, x + rr * math.cos(at), y + rr * math.sin(at))
         return self
 
-    def load(
-        self, x: float, y: float, dx: float, dy: float, text: str | None = None, length: float = 60.0
-    ) -> Sketch:
+    def load(self, x: float, y: float, dx: float, dy: float, text: str | None = None, length: float = 60.0) -> Sketch:
         """A load applied at ``(x, y)`` along ``(dx, dy)``, drawn ``length``
         long, with its magnitude ``text`` beside the arrow's tail."""
         n = math.hypot(dx, dy)
@@ -146,9 +142,10 @@ class Sketch:
         being written in the block's own coordinates so that the drawing looks
         the same as without wraps.
         """
-        import ezdxf
+        from ezdxf.enums import TextEntityAlignment
+        from ezdxf.filemanagement import new
 
-        doc = ezdxf.new(dxfversion, units=_INSUNITS.get(self.units, 0))
+        doc = new(dxfversion, units=_INSUNITS.get(self.units, 0))
         if self.units is None:
             doc.header["$INSUNITS"] = 0
             if "$MEASUREMENT" in doc.header:
@@ -163,7 +160,7 @@ class Sketch:
             inner = inner @ w.affine()
         # geometry is written in the innermost block's frame
         to_local = _inverse(inner) @ m
-        target = doc.modelspace()
+        target: Any = doc.modelspace()
         for depth, w in enumerate(wraps):
             blk = doc.blocks.new(f"SKEL{depth}")
             target.add_blockref(
@@ -176,7 +173,8 @@ class Sketch:
                     "layer": "0",
                 },
             )
-            blk.block.dxf.base_point = (w.base[0], w.base[1], 0.0)
+            if blk.block is not None:
+                blk.block.dxf.base_point = (w.base[0], w.base[1], 0.0)
             target = blk
         mirrored = to_local.mirrors
         scale = math.sqrt(abs(to_local.det))
@@ -189,8 +187,10 @@ class Sketch:
             elif kind == "arc":
                 (cx, cy), r, a0, a1 = it[2], it[3], it[4], it[5]
                 c = to_local.apply((cx, cy))
-                pts = [to_local.apply((cx + r * math.cos(math.radians(a)), cy + r * math.sin(math.radians(a))))
-                       for a in (a0, a1)]
+                pts = [
+                    to_local.apply((cx + r * math.cos(math.radians(a)), cy + r * math.sin(math.radians(a))))
+                    for a in (a0, a1)
+                ]
                 s0 = math.degrees(math.atan2(pts[0][1] - c[1], pts[0][0] - c[0]))
                 s1 = math.degrees(math.atan2(pts[1][1] - c[1], pts[1][0] - c[0]))
                 if mirrored:
@@ -207,7 +207,7 @@ class Sketch:
             elif kind == "text":
                 p = to_local.apply(it[3])
                 t = target.add_text(it[2], height=6.0 * scale, dxfattribs=attribs)
-                t.set_placement(p, align=ezdxf.enums.TextEntityAlignment.MIDDLE_CENTER)
+                t.set_placement(p, align=TextEntityAlignment.MIDDLE_CENTER)
         return doc
 
     def save(

@@ -256,9 +256,7 @@ def contact_models(mech: Mechanism) -> dict[str, ContactModel]:
     """The contact model of every shoe (short-shoe theory)."""
     if mech.drum is None:
         return {}
-    return {
-        s.name: short_shoe_model(s, mech.drum, mech.pin(s.pin).center if s.pin else None) for s in mech.shoes
-    }
+    return {s.name: short_shoe_model(s, mech.drum, mech.pin(s.pin).center if s.pin else None) for s in mech.shoes}
 
 
 def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> _System:
@@ -360,9 +358,7 @@ def _diagnose(mech: Mechanism, sys_: _System, direction: Direction) -> tuple[lis
     for i in sys_.dropped:
         kind, name = sys_.row_owner[i]
         pivoted_moment = (
-            kind == "body"
-            and i % 3 == 2
-            and any(s.part == name and s.mounting is Mounting.PIVOTED for s in mech.shoes)
+            kind == "body" and i % 3 == 2 and any(s.part == name and s.mounting is Mounting.PIVOTED for s in mech.shoes)
         )
         if pivoted_moment and abs(sys_.b[i]) <= EXCITATION_RTOL * bscale:
             continue
@@ -531,8 +527,11 @@ def solve_case(mech: Mechanism, mu: float, direction: Direction | str) -> CaseSo
     """
     direction = Direction(direction)
     if has_errors(list(mech.findings)):
-        raise SolveError("the mechanism has errors; fix the drawing first", path=mech.drawing.path,
-                         findings=[f for f in mech.findings if f.severity is Severity.ERROR])
+        raise SolveError(
+            "the mechanism has errors; fix the drawing first",
+            path=mech.drawing.path,
+            findings=[f for f in mech.findings if f.severity is Severity.ERROR],
+        )
     if not math.isfinite(mu) or mu < 0:
         raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
     models = contact_models(mech)
@@ -541,15 +540,16 @@ def solve_case(mech: Mechanism, mu: float, direction: Direction | str) -> CaseSo
     findings = list(dict.fromkeys([*sys_.findings, *findings]))
     if has_errors(findings):
         raise SolveError(
-            f"{direction}: the linkage cannot be solved", path=mech.drawing.path,
+            f"{direction}: the linkage cannot be solved",
+            path=mech.drawing.path,
             findings=[f for f in findings if f.severity is Severity.ERROR],
         )
     keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
     a, b = sys_.a[keep], sys_.b[keep]
-    if a.shape[0] == a.shape[1]:
-        x = np.linalg.solve(a, b)
-    else:
-        x = np.linalg.lstsq(a, b, rcond=None)[0]
+    x: NDArray[np.float64] = np.asarray(
+        np.linalg.solve(a, b) if a.shape[0] == a.shape[1] else np.linalg.lstsq(a, b, rcond=None)[0],
+        dtype=np.float64,
+    )
     fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(b).max(initial=0.0)), 1e-300)
     residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale
     if residual > RESIDUAL_LIMIT:
@@ -626,9 +626,7 @@ def _results(
         ux, uy = (pb.center[0] - pa.center[0]) / length, (pb.center[1] - pa.center[1]) / length
         fb = next(a for a in att[pb.name] if a.body == part.name)
         members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
-    loads = tuple(
-        LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part
-    )
+    loads = tuple(LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part)
     torque = sum(s.torque_Nm for s in shoes)
     mu_c = critical_mu(mech, direction)
     fmax = max([abs(s.normal_N) for s in shoes] + [ld.force_N for ld in loads] + [1e-300])
@@ -642,17 +640,17 @@ def _results(
             )
         )
     else:
-        for s in shoes:
-            if s.normal_N < -LIFT_RTOL * fmax:
-                sh = next(x for x in mech.shoes if x.name == s.name)
+        for sr in shoes:
+            if sr.normal_N < -LIFT_RTOL * fmax:
+                sh = next(x for x in mech.shoes if x.name == sr.name)
                 findings.append(
                     Finding(
                         Code.SHOE_LIFTS,
-                        f"{direction}: shoe {s.name} would have to pull on the drum (normal force "
-                        f"{s.normal_N:.4g} N): under these loads it lifts off",
+                        f"{direction}: shoe {sr.name} would have to pull on the drum (normal force "
+                        f"{sr.normal_N:.4g} N): under these loads it lifts off",
                         (sh.arc.source.ref,),
                         (sh.arc.source.layer,),
-                        s.contact,
+                        sr.contact,
                     )
                 )
     return CaseSolution(

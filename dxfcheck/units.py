@@ -131,7 +131,14 @@ SPEED_RPM: dict[str, float] = {"rpm": 1.0, "1/min": 1.0, "rps": 60.0, "rad/s": 6
 POWER_W: dict[str, float] = {"w": 1.0, "kw": 1.0e3, "mw": 1.0e6, "hp": 745.69987158227022}
 
 #: Area -> [mm²].
-AREA_MM2: dict[str, float] = {"mm2": 1.0, "mm^2": 1.0, "cm2": 100.0, "cm^2": 100.0, "in2": INCH_MM**2, "in^2": INCH_MM**2}
+AREA_MM2: dict[str, float] = {
+    "mm2": 1.0,
+    "mm^2": 1.0,
+    "cm2": 100.0,
+    "cm^2": 100.0,
+    "in2": INCH_MM**2,
+    "in^2": INCH_MM**2,
+}
 
 #: pV (pressure × rubbing speed) -> [MPa·m/s].
 PV_MPA_M_S: dict[str, float] = {"mpa*m/s": 1.0, "n/mm2*m/s": 1.0, "psi*ft/min": LBF_N / INCH_MM**2 * 0.3048 / 60}

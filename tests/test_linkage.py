@@ -128,12 +128,16 @@ def _sympy_winch(direction: str):
     (d1x, d1y), (d2x, d2y) = dirs["1"], dirs["2"]
     eqs = [
         # bell crank about T2: rod pulls C towards T1 (-x), P down at W
-        -T + Bx, By - P, 100 * T - 330 * P,
+        -T + Bx,
+        By - P,
+        100 * T - 330 * P,
         # left lever: shoe pushes on S1 along the resultant, rod pulls T1 +x
-        O1x + R1 * d1x + T, O1y + R1 * d1y,
+        O1x + R1 * d1x + T,
+        O1y + R1 * d1y,
         -320 * R1 * d1x - 840 * T,  # moments about O1: S1 is 320 above, T1 840
         # right lever: bell crank's reaction on T2 is (-Bx, -By)
-        O2x + R2 * d2x - Bx, O2y + R2 * d2y - By,
+        O2x + R2 * d2x - Bx,
+        O2y + R2 * d2y - By,
         -320 * R2 * d2x + 740 * Bx,  # moments about O2: S2 320 above, T2 740
     ]
     (sol,) = sp.linsolve(eqs, unknowns)

@@ -84,7 +84,10 @@ class ContactWrench:
 class ContactModel(Protocol):
     """What the statics asks of a contact model."""
 
-    name: str
+    @property
+    def name(self) -> str:
+        """Name of the model, e.g. ``"short-fixed"``."""
+        ...
 
     def wrench(self, mu: float, direction: Direction) -> ContactWrench:
         """The drum's action per unit unknown at friction coefficient ``mu``

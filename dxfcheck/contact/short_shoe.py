@@ -44,9 +44,7 @@ __all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
 LINING_SLACK_DEG = 1e-6
 
 
-def _wrench_at(
-    model: str, shoe: Shoe, drum: Drum, alpha: float, mu: float, direction: Direction
-) -> ContactWrench:
+def _wrench_at(model: str, shoe: Shoe, drum: Drum, alpha: float, mu: float, direction: Direction) -> ContactWrench:
     radial = (math.cos(alpha), math.sin(alpha))
     # the drum pushes an external shoe outward and an internal shoe inward
     n = (-radial[0], -radial[1]) if shoe.internal else radial

@@ -1,0 +1,120 @@
+"""The real ``dxfcheck`` command on real drawings (subprocesses)."""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+
+import pytest
+from common import ROOT, conveyor_block, frame_bellcrank_two_shoe
+
+DEMO = ROOT / "drawings" / "winch_two_shoe.dxf"
+
+
+def run(*args, cwd=None):
+    return subprocess.run(
+        [sys.executable, "-m", "dxfcheck", *map(str, args)], capture_output=True, text=True, cwd=cwd, timeout=120
+    )
+
+
+def test_solve_demo_terminal():
+    r = run("solve", DEMO, "--mu", "0.35")
+    assert r.returncode == 0, r.stderr
+    assert "winch_two_shoe.dxf" in r.stdout
+    assert "drum cw" in r.stdout and "drum ccw" in r.stdout
+    assert "tie rod" in r.stdout and "tension" in r.stdout
+    assert "qualified engineer" in r.stdout
+
+
+def test_solve_json_schema():
+    r = run("solve", DEMO, "--mu", "0.35", "--json")
+    assert r.returncode == 0, r.stderr
+    doc = json.loads(r.stdout)
+    assert doc["schema"] == "dxfcheck.solve/1"
+    assert doc["units"]["name"] == "mm"
+    assert [c["direction"] for c in doc["cases"]] == ["cw", "ccw"]
+    case = doc["cases"][0]
+    assert case["mu"] == 0.35
+    for key in ("name", "normal_N", "friction_N", "torque_Nm"):
+        assert all(key in s for s in case["shoes"])
+    for key in ("name", "x_mm", "y_mm", "fx_N", "fy_N", "force_N", "parts"):
+        assert all(key in p for p in case["pins"])
+    assert case["members"][0]["name"] == "tie rod" and case["members"][0]["axial_N"] > 0
+    assert sum(s["torque_Nm"] for s in case["shoes"]) == pytest.approx(case["torque_Nm"])
+    assert doc["findings"] == []
+    assert "qualified engineer" in doc["caution"]
+
+
+def test_direction_and_effort_options():
+    r = run("solve", DEMO, "--mu", "0.3", "--direction", "ccw", "--effort", "3.6kN", "--json")
+    base = run("solve", DEMO, "--mu", "0.3", "--direction", "ccw", "--json")
+    a, b = json.loads(r.stdout), json.loads(base.stdout)
+    assert [c["direction"] for c in a["cases"]] == ["ccw"]
+    assert a["cases"][0]["torque_Nm"] == pytest.approx(2 * b["cases"][0]["torque_Nm"], rel=1e-9)
+
+
+def test_fault_drawing_exit_2_names_entity(tmp_path):
+    sk = conveyor_block()
+    sk.pin(900, 900, 16)
+    path = tmp_path / "orphan.dxf"
+    sk.save(path)
+    r = run("solve", path)
+    assert r.returncode == 2
+    assert r.stdout == ""
+    line = next(x for x in r.stderr.splitlines() if "M205" in x)
+    assert str(path) in line and "layer PIN" in line and "(900, 900)" in line and "entity" in line
+
+
+def test_redundant_linkage_exit_2(tmp_path):
+    path = tmp_path / "bc.dxf"
+    frame_bellcrank_two_shoe().save(path)
+    r = run("solve", path)
+    assert r.returncode == 2
+    assert "S302" in r.stderr and "statically indeterminate" in r.stderr
+    assert "Traceback" not in r.stderr
+
+
+@pytest.mark.parametrize(
+    "args",
+    [
+        ("solve", "no/such/file.dxf"),
+        ("solve", DEMO, "--effort", "12 parsecs"),
+        ("solve", DEMO, "--units", "furlong"),
+        ("solve", DEMO, "--direction", "up"),
+        ("solve", DEMO, "--mu", "-1"),
+    ],
+)
+def test_bad_input_exit_2_one_message(args):
+    r = run(*args)
+    assert r.returncode == 2
+    assert "Traceback" not in r.stderr
+    assert r.stderr.strip()
+
+
+def test_config_file_maps_layers(tmp_path):
+    sk = conveyor_block()
+    sk.layers = {"pivot": "BRK-FIXED", "link": "BRK-CL", "drum": "BRK-DRUM"}
+    sk.save(tmp_path / "mapped.dxf")
+    r = run("solve", tmp_path / "mapped.dxf", "--json")
+    assert r.returncode == 2  # the default names find no drum
+    (tmp_path / "dxfcheck.toml").write_text('[layers]\npivot = ["brk-fixed"]\nlink = ["BRK-CL"]\ndrum = ["BRK-DRUM"]\n')
+    r = run("solve", tmp_path / "mapped.dxf", "--json")
+    assert r.returncode == 0, r.stderr
+    assert json.loads(r.stdout)["mechanism"]["pins"][0]["pivot"] is True
+
+
+def test_config_unknown_key_rejected(tmp_path):
+    conveyor_block().save(tmp_path / "c.dxf")
+    (tmp_path / "dxfcheck.toml").write_text('[layers]\npivots = ["X"]\n')
+    r = run("solve", tmp_path / "c.dxf")
+    assert r.returncode == 2
+    assert "pivots" in r.stderr and "dxfcheck.toml" in r.stderr
+
+
+def test_explicit_config_option(tmp_path):
+    conveyor_block().save(tmp_path / "c.dxf")
+    cfg = tmp_path / "other.toml"
+    cfg.write_text("[paths]\n")
+    r = run("solve", tmp_path / "c.dxf", "--config", cfg)
+    assert r.returncode == 2 and "paths" in r.stderr and "other.toml" in r.stderr
