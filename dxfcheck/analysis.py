@@ -5,6 +5,7 @@ from __future__ import annotations
 import os
 from collections.abc import Sequence
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from dxfcheck.config import Config, find_config, load_config
 from dxfcheck.contact import Direction
@@ -14,7 +15,10 @@ from dxfcheck.findings import Severity, has_errors
 from dxfcheck.mechanism import build_mechanism
 from dxfcheck.statics import Solution, solve
 
-__all__ = ["DEFAULT_MU", "analyse", "resolve_config"]
+if TYPE_CHECKING:
+    from dxfcheck.rules import Judgement
+
+__all__ = ["DEFAULT_MU", "analyse", "check", "resolve_config"]
 
 #: Friction coefficient used when none is given [-]: the dry value for a
 #: rigid non-asbestos lining in Neale (ed.), *Tribology Handbook*, section
@@ -81,3 +85,57 @@ def analyse(
             findings=errors,
         )
     return solve(mech, mu, directions)
+
+
+def check(
+    path: str | os.PathLike[str],
+    *,
+    config: str | os.PathLike[str] | Config | None = None,
+    overrides: Sequence[tuple[str, str]] = (),
+    units: str | None = None,
+    tolerance_mm: float | None = None,
+) -> Judgement:
+    """Solve a drawing and judge it against its spec (the release gate).
+
+    Parameters
+    ----------
+    path : path-like
+        The DXF drawing (only read).
+    config : path-like or Config, optional
+        Project file; default: the nearest ``dxfcheck.toml``.
+    overrides : sequence of (str, str)
+        Spec values from the command line, ``(KEY, VALUE)``, highest
+        precedence.
+    units, tolerance_mm
+        As for :func:`analyse`.
+
+    Returns
+    -------
+    Judgement
+
+    Raises
+    ------
+    DrawingReadError, ConfigError, MechanismError, SolveError
+    """
+    from dxfcheck.rules import judge
+    from dxfcheck.spec import load_spec
+
+    cfg = resolve_config(path, config)
+    drawing = read_drawing(path, cfg, units=units)
+    spec = load_spec(
+        path,
+        project=cfg.spec,
+        project_path=cfg.path,
+        custom_properties=drawing.custom_properties,
+        overrides=overrides,
+    )
+    effort = spec.num("effort")
+    mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort)
+    if has_errors(list(mech.findings)):
+        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
+        raise MechanismError(
+            f"no mechanism can be built ({len(errors)} error{'s' if len(errors) > 1 else ''} in the drawing)",
+            path=str(path),
+            findings=errors,
+        )
+    return judge(mech, spec)

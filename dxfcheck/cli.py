@@ -1,11 +1,13 @@
 """The ``dxfcheck`` command: a thin layer over the library.
 
-Exit codes:
+Each sub-command checks its options, calls one library function and prints
+through :mod:`dxfcheck.report`.  Exit codes:
 
-* 0 -- solved (and, for checks, every rule passed);
-* 1 -- solved, but a check failed (reserved for ``dxfcheck check``);
-* 2 -- the drawing, the project file or an option cannot be used, or the
-  mechanism cannot be built or solved.  One line per problem goes to stderr.
+* 0 -- solved (and, for ``check``, no rule failed);
+* 1 -- solved, but a rule of ``check`` failed (or warned, with ``--strict``);
+* 2 -- the drawing, the project file, the spec or an option cannot be used,
+  or the mechanism cannot be built or solved.  One line per problem goes to
+  stderr, naming the file, the entity, the layer and the place.
 """
 
 from __future__ import annotations
@@ -30,24 +32,58 @@ class _Parser(argparse.ArgumentParser):
         raise SystemExit(EXIT_UNUSABLE)
 
 
+def _common(s: argparse.ArgumentParser) -> None:
+    s.add_argument("drawing", help="the DXF drawing (it is only read)")
+    s.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
+    s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS (mm, cm, m, inch, ft)")
+    s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
+    s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
+
+
 def _parser() -> argparse.ArgumentParser:
     from dxfcheck import __version__
 
     p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF.")
     p.add_argument("--version", action="version", version=f"dxfcheck {__version__}")
     sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
+
     s = sub.add_parser("solve", help="solve the pin forces, shoe forces and braking torque of a drawing")
-    s.add_argument("drawing", help="the DXF drawing (it is only read)")
+    _common(s)
     s.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
-    s.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
-    s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS (mm, cm, m, inch, ft)")
-    s.add_argument(
-        "--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled to the drawing)"
+
+    c = sub.add_parser("check", help="solve a drawing and judge it against the brake's spec (release gate)")
+    _common(c)
+    c.add_argument("--mu", default=None, help="nominal friction coefficient (spec key mu)")
+    c.add_argument("--mu-min", default=None, help="lowest friction coefficient (spec key mu_min)")
+    c.add_argument("--mu-max", default=None, help="highest friction coefficient (spec key mu_max)")
+    c.add_argument("--required-torque", default=None, help="duty torque, e.g. '450 N*m' (spec key required_torque)")
+    c.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (spec key effort)")
+    c.add_argument(
+        "--set",
+        action="append",
+        default=[],
+        metavar="KEY=VALUE",
+        help="any spec value, e.g. --set pin_shear_allow=50MPa --set pins.S1.pin_length=40mm (repeatable)",
     )
-    s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
+    c.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
+    c.add_argument("--strict", action="store_true", help="warnings fail the gate too")
     return p
+
+
+def _tolerance(args: argparse.Namespace) -> float | None:
+    from dxfcheck.units import UnitError, parse_quantity
+
+    if not args.tolerance:
+        return None
+    try:
+        tol = parse_quantity(args.tolerance, "length", default_unit="mm").value
+    except UnitError as exc:
+        raise ConfigError(f"--tolerance: {exc}") from exc
+    if tol <= 0:
+        raise ConfigError("--tolerance must be positive")
+    return tol
 
 
 def _solve(args: argparse.Namespace) -> int:
@@ -57,13 +93,10 @@ def _solve(args: argparse.Namespace) -> int:
 
     try:
         effort = parse_quantity(args.effort, "force").value if args.effort else None
-        tol = parse_quantity(args.tolerance, "length", default_unit="mm").value if args.tolerance else None
     except UnitError as exc:
-        raise ConfigError(str(exc)) from exc
+        raise ConfigError(f"--effort: {exc}") from exc
     if args.mu is not None and not (0.0 <= args.mu < 10.0):
         raise ConfigError(f"--mu must be between 0 and 10, got {args.mu}")
-    if tol is not None and tol <= 0:
-        raise ConfigError("--tolerance must be positive")
     mu = DEFAULT_MU if args.mu is None else args.mu
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
     sol = analyse(
@@ -73,7 +106,7 @@ def _solve(args: argparse.Namespace) -> int:
         directions=directions,
         config=args.config,
         units=args.units,
-        tolerance_mm=tol,
+        tolerance_mm=_tolerance(args),
     )
     if args.json:
         write_json(solution_to_dict(sol))
@@ -83,18 +116,45 @@ def _solve(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _check(args: argparse.Namespace) -> int:
+    from dxfcheck.analysis import check
+    from dxfcheck.files import write_atomic
+    from dxfcheck.report import judgement_to_dict, junit_xml, print_judgement, write_json
+    from dxfcheck.rules import Verdict
+    from dxfcheck.spec import parse_assignment
+
+    overrides = [parse_assignment(s) for s in args.set]
+    for key, value in (
+        ("mu", args.mu),
+        ("mu_min", args.mu_min),
+        ("mu_max", args.mu_max),
+        ("required_torque", args.required_torque),
+        ("effort", args.effort),
+    ):
+        if value is not None:
+            overrides.append((key, value))
+    j = check(args.drawing, config=args.config, overrides=overrides, units=args.units, tolerance_mm=_tolerance(args))
+    if args.junit:
+        write_atomic(args.junit, junit_xml(j, strict=args.strict), protect=(args.drawing,))
+    if args.json:
+        write_json(judgement_to_dict(j))
+    else:
+        print_judgement(j, strict=args.strict)
+    failed = j.verdict is Verdict.FAIL or (args.strict and j.verdict is Verdict.WARN)
+    return EXIT_CHECK_FAILED if failed else EXIT_OK
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     from dxfcheck.report import print_error
 
     args = _parser().parse_args(argv)
+    commands = {"solve": _solve, "check": _check}
     try:
-        if args.command == "solve":
-            return _solve(args)
+        return commands[args.command](args)
     except DxfcheckError as exc:
         print_error(exc)
         return EXIT_UNUSABLE
     except KeyboardInterrupt:
         sys.stderr.write("dxfcheck: interrupted\n")
         return 130
-    return EXIT_UNUSABLE

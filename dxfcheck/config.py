@@ -42,7 +42,7 @@ class Role(enum.StrEnum):
 #: Default layer name of each role.
 DEFAULT_LAYERS: dict[Role, tuple[str, ...]] = {role: (role.value.upper(),) for role in Role}
 
-_TOP_LEVEL = {"layers"}
+_TOP_LEVEL = {"layers", "spec"}
 
 
 @dataclass(frozen=True)
@@ -55,10 +55,13 @@ class Config:
         Role -> layer names (upper case).
     path : str or None
         The file the settings came from, or None for the defaults.
+    spec : dict
+        The raw ``[spec]`` table, checked by :mod:`dxfcheck.spec`.
     """
 
     layers: dict[Role, tuple[str, ...]] = field(default_factory=lambda: dict(DEFAULT_LAYERS))
     path: str | None = None
+    spec: dict[str, Any] = field(default_factory=dict)
 
     def role_of_layer(self) -> dict[str, Role]:
         """Upper-case layer name -> role."""
@@ -126,4 +129,7 @@ def load_config(path: Path | None) -> Config:
             path=spath,
         )
     layers = _parse_layers(data.get("layers", {}), spath)
-    return Config(layers=layers, path=spath)
+    spec = data.get("spec", {})
+    if not isinstance(spec, dict):
+        raise ConfigError("[spec] must be a table", path=spath)
+    return Config(layers=layers, path=spath, spec=spec)

@@ -168,6 +168,9 @@ class Drawing:
         Skeleton geometry by kind; each item has a ``role``.
     findings : tuple of Finding
         Problems met while reading.
+    custom_properties : tuple of (str, str)
+        The header's custom properties (``$CUSTOMPROPERTYTAG`` /
+        ``$CUSTOMPROPERTY`` pairs, R2004 and later).
     """
 
     path: str
@@ -180,6 +183,7 @@ class Drawing:
     paths: tuple[PathGeom, ...] = ()
     texts: tuple[TextGeom, ...] = ()
     findings: tuple[Finding, ...] = ()
+    custom_properties: tuple[tuple[str, str], ...] = ()
 
     def circles_of(self, role: Role) -> tuple[CircleGeom, ...]:
         return tuple(c for c in self.circles if c.role is role)
@@ -560,4 +564,12 @@ def read_drawing(
         paths=tuple(col.paths),
         texts=tuple(col.texts),
         findings=tuple(findings + unit_findings + col.findings),
+        custom_properties=_custom_properties(doc),
     )
+
+
+def _custom_properties(doc: Any) -> tuple[tuple[str, str], ...]:
+    try:
+        return tuple((str(k), str(v)) for k, v in doc.header.custom_vars)
+    except (AttributeError, TypeError, ValueError):
+        return ()

@@ -12,9 +12,21 @@ from typing import IO, Any
 
 from dxfcheck.errors import DxfcheckError
 from dxfcheck.findings import Finding, Severity
+from dxfcheck.rules import Judgement, RuleResult, Verdict
 from dxfcheck.statics import CaseSolution, Solution
 
-__all__ = ["CAUTION", "SOLVE_SCHEMA", "print_error", "print_solution", "solution_to_dict", "write_json"]
+__all__ = [
+    "CAUTION",
+    "CHECK_SCHEMA",
+    "SOLVE_SCHEMA",
+    "judgement_to_dict",
+    "junit_xml",
+    "print_error",
+    "print_judgement",
+    "print_solution",
+    "solution_to_dict",
+    "write_json",
+]
 
 #: Carried by every report.
 CAUTION = (
@@ -26,8 +38,16 @@ CAUTION = (
 SOLVE_SCHEMA = "dxfcheck.solve/1"
 
 
-def _r(x: float, nd: int = 6) -> float:
-    return float(f"{x:.{nd}g}") if x == x else x
+#: Width of the report when the output is not a terminal [characters].
+REPORT_WIDTH = 120
+
+
+def _console(out: IO[str] | None) -> Any:
+    from rich.console import Console
+
+    stream = out or sys.stdout
+    width = None if stream.isatty() else REPORT_WIDTH
+    return Console(file=stream, highlight=False, soft_wrap=False, width=width)
 
 
 def case_to_dict(c: CaseSolution) -> dict[str, Any]:
@@ -177,10 +197,9 @@ def print_findings(console: Any, findings: tuple[Finding, ...] | list[Finding]) 
 
 def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[str, ...] = ()) -> None:
     """The terminal report of ``dxfcheck solve``."""
-    from rich.console import Console
     from rich.table import Table
 
-    console = Console(file=out or sys.stdout, highlight=False, soft_wrap=False)
+    console = _console(out)
     mech = sol.mechanism
     d = mech.drawing
     console.print(f"[bold]dxfcheck solve[/]  {d.path}")
@@ -250,3 +269,137 @@ def print_error(exc: DxfcheckError, err: IO[str] | None = None) -> None:
     err.write(f"{prefix}error: {exc.message}\n")
     for f in exc.findings:
         err.write(f"{prefix}{f.line()}\n")
+
+
+#: Versioned name of the ``check --json`` document.
+CHECK_SCHEMA = "dxfcheck.check/1"
+
+
+def _num(x: float | None) -> float | None:
+    if x is None or x != x:
+        return None
+    if x in (float("inf"), float("-inf")):
+        return None
+    return x
+
+
+def rule_to_dict(r: RuleResult) -> dict[str, Any]:
+    return {
+        "rule": r.rule,
+        "title": r.title,
+        "verdict": str(r.verdict),
+        "value": _num(r.value),
+        "limit": _num(r.limit),
+        "unit": r.unit,
+        "margin": _num(r.margin),
+        "inputs": {k: (_num(v) if isinstance(v, float) else v) for k, v in r.inputs.items()},
+        "source": r.source,
+        "message": r.message,
+    }
+
+
+def judgement_to_dict(j: Judgement) -> dict[str, Any]:
+    """The ``dxfcheck.check/1`` JSON document: the solve document at the
+    nominal μ plus the verdict, the rules and the spec with its sources."""
+    doc = solution_to_dict(j.nominal)
+    doc["schema"] = CHECK_SCHEMA
+    doc["verdict"] = str(j.verdict)
+    doc["counts"] = j.counts()
+    doc["friction"] = {"mu": j.mu, "mu_min": j.mu_min, "mu_max": j.mu_max}
+    doc["rules"] = [rule_to_dict(r) for r in j.rules]
+    doc["spec"] = [
+        {
+            "key": v.key,
+            "value": list(v.value) if isinstance(v.value, tuple) else v.value,
+            "unit": v.unit,
+            "text": v.text,
+            "source": v.source,
+        }
+        for v in j.spec.all_values()
+    ]
+    doc["caution"] = CAUTION
+    return doc
+
+
+def _fmt(x: float | None, unit: str = "") -> str:
+    if x is None:
+        return "-"
+    if x == float("inf"):
+        return "∞"
+    return f"{x:.4g}" + (f" {unit}" if unit else "")
+
+
+def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = False) -> None:
+    """The terminal report of ``dxfcheck check``: verdict line, rules,
+    findings, spec sources, caution."""
+    from rich.table import Table
+
+    console = _console(out)
+    counts = j.counts()
+    verdict = j.verdict
+    if strict and verdict is Verdict.WARN:
+        verdict = Verdict.FAIL
+    style = {"pass": "bold green", "warn": "bold yellow", "fail": "bold red"}[str(verdict)]
+    console.print(
+        f"[{style}]{str(verdict).upper()}[/]  {j.mechanism.drawing.path}: "
+        f"{counts['pass']} passed, {counts['fail']} failed, {counts['warn']} warnings, {counts['skip']} skipped"
+        + (" (strict: warnings fail)" if strict else "")
+    )
+    console.print(f"μ = {j.mu:g} (range {j.mu_min:g} to {j.mu_max:g})")
+    t = Table(title="rules", title_justify="left")
+    for col in ("verdict", "rule", "value", "limit", "margin", "note"):
+        t.add_column(col, justify="right" if col in ("value", "limit", "margin") else "left")
+    for r in j.rules:
+        vs = {"pass": "green", "warn": "yellow", "fail": "red", "skip": "dim"}[str(r.verdict)]
+        t.add_row(
+            f"[{vs}]{r.verdict}[/]",
+            r.title,
+            _fmt(r.value, r.unit),
+            _fmt(r.limit, r.unit),
+            _fmt(r.margin),
+            r.message or str(r.inputs.get("case", "")),
+        )
+    console.print(t)
+    print_findings(console, j.nominal.findings)
+    ts = Table(title="spec values and where they came from", title_justify="left")
+    for col in ("key", "value", "source"):
+        ts.add_column(col)
+    for v in j.spec.all_values():
+        ts.add_row(v.key, v.text, v.source)
+    console.print(ts)
+    console.print()
+    console.print(CAUTION)
+
+
+def junit_xml(j: Judgement, *, strict: bool = False) -> str:
+    """JUnit XML with one test case per rule (fail -> failure, skip ->
+    skipped; warnings are failures under ``strict``)."""
+    import xml.etree.ElementTree as ET
+    from pathlib import Path
+
+    name = Path(j.mechanism.drawing.path).name
+    failing = {Verdict.FAIL, Verdict.WARN} if strict else {Verdict.FAIL}
+    suites = ET.Element("testsuites", name="dxfcheck check")
+    suite = ET.SubElement(
+        suites,
+        "testsuite",
+        name=f"dxfcheck check {name}",
+        tests=str(len(j.rules)),
+        failures=str(sum(r.verdict in failing for r in j.rules)),
+        skipped=str(sum(r.verdict is Verdict.SKIP for r in j.rules)),
+        errors="0",
+    )
+    for r in j.rules:
+        case = ET.SubElement(suite, "testcase", classname=f"dxfcheck.{name}", name=f"{r.rule}: {r.title}")
+        text = (
+            f"value {_fmt(r.value, r.unit)}, limit {_fmt(r.limit, r.unit)}, margin {_fmt(r.margin)}; "
+            f"{r.message} [{r.source}]"
+        )
+        if r.verdict in failing:
+            ET.SubElement(case, "failure", message=f"{r.verdict}: {r.title}").text = text
+        elif r.verdict is Verdict.SKIP:
+            ET.SubElement(case, "skipped", message=r.message)
+        else:
+            ET.SubElement(case, "system-out").text = f"{r.verdict}: {text}"
+    ET.SubElement(suite, "system-out").text = CAUTION
+    return '<?xml version="1.0" encoding="UTF-8"?>\n' + ET.tostring(suites, encoding="unicode") + "\n"

@@ -32,6 +32,7 @@ References
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
@@ -453,6 +454,7 @@ def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float
     return float(sign)
 
 
+@functools.lru_cache(maxsize=64)
 def critical_mu(mech: Mechanism, direction: Direction, mu_max: float = MU_SCAN_MAX) -> float | None:
     """The friction coefficient at which the brake self-locks in
     ``direction`` [-], or None if there is none up to ``mu_max``.
@@ -461,7 +463,8 @@ def critical_mu(mech: Mechanism, direction: Direction, mu_max: float = MU_SCAN_M
     μ; at the self-locking limit they become singular with a non-trivial
     solution under zero load, in which every shoe presses on the drum
     (normal forces of one sign).  The limit is found by scanning the sign
-    of the determinant and bisecting.
+    of the determinant and bisecting.  It does not depend on the loads, so
+    it is computed once per mechanism and direction (cached).
     """
     models = contact_models(mech)
     grid = [mu_max * k / MU_SCAN_STEPS for k in range(MU_SCAN_STEPS + 1)]

@@ -22,6 +22,7 @@ __all__ = [
     "conveyor_block",
     "double_block_spring_pair",
     "frame_bellcrank_two_shoe",
+    "push_rod_block",
     "winch_two_shoe",
 ]
 
@@ -108,4 +109,27 @@ def frame_bellcrank_two_shoe() -> Sketch:
     sk.link((-250, 560), (380, 560), label="upper rod", label_at=(60, 575))
     sk.link((250, 300), (480, 420), label="lower rod", label_at=(365, 345))
     sk.load(680, 420, 0, -1, "1.5 kN")
+    return sk
+
+
+def push_rod_block(*, rod_d: float = 16.0) -> Sketch:
+    """A block brake set through a push rod in compression.
+
+    The conveyor lever (pivot O at (-260, 210), block on a 150 mm drum) is
+    pushed down at its end E(520, 210) by a vertical rod from F(520, 400), the
+    left arm of a bell crank pivoted to the frame at K(620, 400) whose right
+    arm W(820, 400) takes an upward effort: rod force = P·200/100.
+    """
+    sk = Sketch()
+    sk.drum(0, 0, 150)
+    sk.pivot(-260, 210, 24, label="O")
+    sk.pin(520, 210, rod_d, label="E")
+    sk.link((-260, 210), (520, 210), label="lever", label_at=(300, 225))
+    sk.link((0, 210), (0, 150))
+    sk.shoe(0, 0, 150, 75, 105, label="block")
+    sk.pin(520, 400, rod_d, label="F")
+    sk.link((520, 210), (520, 400), label="push rod", label_at=(535, 300))
+    sk.pivot(620, 400, 24, label="K")
+    sk.link((520, 400), (620, 400), (820, 400), label="crank", label_at=(720, 415))
+    sk.load(820, 400, 0, 1, "500 N")
     return sk

@@ -1,0 +1,574 @@
+"""The release gate: judge solved cases against the brake's spec.
+
+Each rule turns the statics and the spec into a :class:`RuleResult` with a
+verdict (pass, warn, fail, or skip when its inputs are missing), the computed
+value, the limit, the margin as a ratio (capacity over demand: 1 or more
+passes) and the published method it uses.
+
+Friction is taken over its range: the torque rules at ``mu_min`` (the least
+torque), the self-locking rule at ``mu_max``, and the strength rules (lining,
+pins, members) over the envelope of ``mu_min``, ``mu`` and ``mu_max`` in both
+drum directions.
+
+References
+----------
+.. [1] R. G. Budynas and J. K. Nisbett, *Shigley's Mechanical Engineering
+   Design*, 10th ed., McGraw-Hill, 2015: ch. 3 (direct shear τ = F/A,
+   bearing stress), ch. 4.11 (Euler columns P_cr = π²EI/l_e²), ch. 16
+   (brakes: lining pressure, pV, self-energising shoes).
+.. [2] OSHA 29 CFR 1910.179(f)(2): holding brakes of hoist motors, 125 % of
+   the full-load hoisting torque with non-mechanical control braking, 100 %
+   with mechanical control braking, 100 % each with two holding brakes
+   (sub-item numbering from memory).
+.. [3] M. J. Neale (ed.), *Tribology Handbook*, section B8: lining pressures
+   and the pV limits of drum brakes.
+"""
+
+from __future__ import annotations
+
+import enum
+import math
+from collections.abc import Iterable
+from dataclasses import dataclass, field
+from typing import Any
+
+from dxfcheck.analysis import DEFAULT_MU
+from dxfcheck.contact import Direction
+from dxfcheck.errors import ConfigError
+from dxfcheck.findings import Code, Severity
+from dxfcheck.mechanism import Mechanism
+from dxfcheck.spec import Spec
+from dxfcheck.statics import CaseSolution, Solution, critical_mu, solve
+
+__all__ = ["Judgement", "RuleResult", "Verdict", "hoist_factor", "judge"]
+
+
+class Verdict(enum.StrEnum):
+    PASS = "pass"
+    WARN = "warn"
+    FAIL = "fail"
+    SKIP = "skip"
+
+
+@dataclass(frozen=True)
+class RuleResult:
+    """One rule's verdict.
+
+    Attributes
+    ----------
+    rule : str
+        Stable id, e.g. ``torque.cw`` or ``pin.shear.S1``.
+    title : str
+    verdict : Verdict
+    value, limit : float or None
+        Computed value and its limit, in ``unit``.
+    unit : str
+    margin : float or None
+        Capacity over demand [-]; 1 or more passes.
+    inputs : dict
+        The inputs used, with units in their names.
+    source : str
+        The published method.
+    message : str
+        A sentence for the report (for skips: why).
+    """
+
+    rule: str
+    title: str
+    verdict: Verdict
+    value: float | None
+    limit: float | None
+    unit: str
+    margin: float | None
+    inputs: dict[str, Any] = field(default_factory=dict)
+    source: str = ""
+    message: str = ""
+
+
+@dataclass(frozen=True)
+class Judgement:
+    """The release gate's result for one drawing."""
+
+    mechanism: Mechanism
+    spec: Spec
+    nominal: Solution
+    solutions: dict[float, Solution]
+    rules: tuple[RuleResult, ...]
+    mu: float
+    mu_min: float
+    mu_max: float
+
+    @property
+    def verdict(self) -> Verdict:
+        verdicts = {r.verdict for r in self.rules}
+        if Verdict.FAIL in verdicts:
+            return Verdict.FAIL
+        if Verdict.WARN in verdicts:
+            return Verdict.WARN
+        return Verdict.PASS
+
+    def counts(self) -> dict[str, int]:
+        out = {v.value: 0 for v in Verdict}
+        for r in self.rules:
+            out[r.verdict.value] += 1
+        return out
+
+
+#: Relative torque difference treated as none (round-off) [-].
+ASYMMETRY_ZERO = 1e-12
+
+SRC_SHEAR = "direct shear τ = F/(n·πd²/4) (Shigley's MED 10th ed., §3.x direct shear; from memory)"
+SRC_BEARING = "projected-area bearing pressure p = F/(d·L) (Shigley's MED 10th ed., ch. 3; from memory)"
+SRC_EULER = "Euler column P_cr = π²EI/(KL)², I = πd⁴/64 (Shigley's MED 10th ed., §4.11)"
+SRC_STRESS = "axial stress σ = F/A"
+SRC_LINING = "short shoe, uniform pressure on the projected area p = N/(b·2r·sin(θ/2)) (Shigley's MED 10th ed., ch. 16)"
+SRC_PV = "pV = p·πDn/60 (drum-brake pV limits: Tribology Handbook B8; 1-3 MPa·m/s common practice)"
+SRC_TORQUE = "braking torque T = Σ μN·r at mu_min against the duty"
+SRC_MOTOR = "duty from the motor: T = factor·P/ω, ω = 2πn/60"
+SRC_HOIST = "OSHA 29 CFR 1910.179(f)(2): holding brake ≥ 125 % / 100 % of full-load hoisting torque"
+SRC_SELF_LOCK = "critical μ where the equilibrium equations turn singular (self-locking limit) vs mu_max × margin"
+SRC_ASYM = "torque difference between drum directions (the weaker direction sets the holding duty)"
+
+
+def hoist_factor(control_braking: str | None, holding_brakes: float | None) -> tuple[float, str]:
+    """Holding-brake torque as a multiple of the full-load hoisting torque,
+    after OSHA 29 CFR 1910.179(f)(2) (sub-item numbers from memory)."""
+    if holding_brakes is not None and holding_brakes >= 2:
+        return 1.0, "100 % each: two holding brakes"
+    if control_braking == "mechanical":
+        return 1.0, "100 %: mechanical control braking"
+    if control_braking is None:
+        return 1.25, "125 %: control braking not stated, taken as non-mechanical"
+    return 1.25, "125 %: control braking other than mechanical"
+
+
+def _ratio_rule(
+    rule: str,
+    title: str,
+    value: float,
+    limit: float,
+    unit: str,
+    source: str,
+    inputs: dict[str, Any],
+    *,
+    at_most: bool,
+    message: str = "",
+) -> RuleResult:
+    capacity, demand = (limit, value) if at_most else (value, limit)
+    margin = capacity / demand if demand > 0 else math.inf
+    verdict = Verdict.PASS if margin >= 1.0 else Verdict.FAIL
+    return RuleResult(rule, title, verdict, value, limit, unit, margin, inputs, source, message)
+
+
+def _skip(rule: str, title: str, why: str, source: str = "") -> RuleResult:
+    return RuleResult(rule, title, Verdict.SKIP, None, None, "", None, {}, source, why)
+
+
+def _missing(spec: Spec, keys: Iterable[str], subject: str | None = None) -> list[str]:
+    return [k for k in keys if spec.get(k, subject) is None]
+
+
+def _valid_cases(solutions: dict[float, Solution]) -> list[CaseSolution]:
+    """Cases whose forces mean something: no self-locking, no lift-off."""
+    out = []
+    for sol in solutions.values():
+        for c in sol.cases:
+            if not any(f.code in (Code.SELF_LOCKING, Code.SHOE_LIFTS) for f in c.findings):
+                out.append(c)
+    return out
+
+
+def _where(c: CaseSolution) -> str:
+    return f"{c.direction} at μ = {c.mu:g}"
+
+
+def judge(mech: Mechanism, spec: Spec) -> Judgement:
+    """Run every rule whose inputs are present.
+
+    Raises
+    ------
+    ConfigError
+        When the friction range is inconsistent.
+    SolveError
+        As :func:`dxfcheck.statics.solve`.
+    """
+    mu_v = spec.num("mu")
+    mu = DEFAULT_MU if mu_v is None else mu_v
+    mu_min = spec.num("mu_min")
+    mu_max = spec.num("mu_max")
+    mu_min = mu if mu_min is None else mu_min
+    mu_max = mu if mu_max is None else mu_max
+    if not mu_min <= mu <= mu_max:
+        raise ConfigError(f"friction range must satisfy mu_min ≤ mu ≤ mu_max, got {mu_min:g}, {mu:g}, {mu_max:g}")
+    both = (Direction.CW, Direction.CCW)
+    solutions = {m: solve(mech, m, both) for m in sorted({mu_min, mu, mu_max})}
+    nominal = solutions[mu]
+    dirs_v = spec.get("directions")
+    required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
+    rules: list[RuleResult] = []
+    rules += _hygiene(mech)
+    rules += _duty(spec, solutions[mu_min], required, mu_min)
+    rules += _self_lock(spec, mech, mu_max)
+    rules += _asymmetry(spec, nominal)
+    valid = _valid_cases(solutions)
+    rules += _shoe_contact(mech, solutions)
+    rules += _lining(spec, mech, valid)
+    rules += _pins(spec, mech, valid)
+    rules += _members(spec, mech, valid)
+    return Judgement(mech, spec, nominal, solutions, tuple(rules), mu, mu_min, mu_max)
+
+
+def _hygiene(mech: Mechanism) -> list[RuleResult]:
+    warnings = [f for f in mech.findings if f.severity is Severity.WARNING]
+    codes = sorted({f.code.id for f in warnings})
+    verdict = Verdict.WARN if warnings else Verdict.PASS
+    msg = f"{len(warnings)} warning finding(s): {', '.join(codes)}" if warnings else "no warnings in the drawing"
+    return [
+        RuleResult(
+            "drawing.hygiene",
+            "drawing hygiene",
+            verdict,
+            float(len(warnings)),
+            0.0,
+            "findings",
+            None,
+            {"codes": codes},
+            "the drawing's own findings (README, finding codes)",
+            msg,
+        )
+    ]
+
+
+def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min: float) -> list[RuleResult]:
+    out: list[RuleResult] = []
+    req = spec.get("required_torque")
+    need: float | None = None
+    source = SRC_TORQUE
+    inputs: dict[str, Any] = {"mu_min": mu_min}
+    if req is not None:
+        need = float(req.value)
+        inputs["required_torque_Nm"] = need
+    else:
+        miss = _missing(spec, ("motor_power", "motor_speed", "torque_factor"))
+        if len(miss) < 3 and miss:
+            for d in required:
+                out.append(_skip(f"torque.{d}", f"braking torque, {d}", f"motor duty needs {', '.join(miss)}"))
+        elif not miss:
+            p_w = spec.num("motor_power") or 0.0
+            n_rpm = spec.num("motor_speed") or 0.0
+            factor = spec.num("torque_factor") or 0.0
+            omega = 2 * math.pi * n_rpm / 60.0
+            need = factor * p_w / omega if omega > 0 else math.inf
+            source = SRC_MOTOR
+            inputs.update(motor_power_W=p_w, motor_speed_rpm=n_rpm, torque_factor=factor, required_torque_Nm=need)
+        elif not out:
+            for d in required:
+                out.append(_skip(f"torque.{d}", f"braking torque, {d}", "no required_torque or motor duty in the spec"))
+    if need is not None:
+        for d in required:
+            c = sol_min.case(d)
+            out.append(
+                _ratio_rule(
+                    f"torque.{d}",
+                    f"braking torque, {d}",
+                    c.torque_Nm,
+                    need,
+                    "N*m",
+                    source,
+                    dict(inputs, direction=str(d)),
+                    at_most=False,
+                )
+            )
+    hoist = spec.num("hoist_torque")
+    if hoist is not None:
+        cb = spec.get("control_braking")
+        factor, why = hoist_factor(None if cb is None else str(cb.value), spec.num("holding_brakes"))
+        for d in required:
+            c = sol_min.case(d)
+            out.append(
+                _ratio_rule(
+                    f"hoist.{d}",
+                    f"hoist holding torque, {d}",
+                    c.torque_Nm,
+                    factor * hoist,
+                    "N*m",
+                    SRC_HOIST,
+                    {"hoist_torque_Nm": hoist, "factor": factor, "basis": why, "mu_min": mu_min, "direction": str(d)},
+                    at_most=False,
+                )
+            )
+    return out
+
+
+def _self_lock(spec: Spec, mech: Mechanism, mu_max: float) -> list[RuleResult]:
+    margin_req = spec.num("self_lock_margin") or 1.0
+    out = []
+    for d in (Direction.CW, Direction.CCW):
+        mu_c = critical_mu(mech, d)
+        limit = mu_max * margin_req
+        inputs = {"mu_max": mu_max, "self_lock_margin": margin_req, "direction": str(d)}
+        if mu_c is None:
+            out.append(
+                RuleResult(
+                    f"self_lock.{d}",
+                    f"self-locking, {d}",
+                    Verdict.PASS,
+                    None,
+                    limit,
+                    "",
+                    None,
+                    inputs,
+                    SRC_SELF_LOCK,
+                    "does not self-lock for μ below 1",
+                )
+            )
+            continue
+        out.append(
+            _ratio_rule(
+                f"self_lock.{d}",
+                f"self-locking, {d}",
+                mu_c,
+                limit,
+                "",
+                SRC_SELF_LOCK,
+                inputs,
+                at_most=False,
+                message=f"self-locks at μ = {mu_c:.4g}",
+            )
+        )
+    return out
+
+
+def _asymmetry(spec: Spec, nominal: Solution) -> list[RuleResult]:
+    t = [c.torque_Nm for c in nominal.cases]
+    hi = max(t)
+    limit = spec.num("torque_asymmetry_max") or 0.30
+    if hi <= 0:
+        return [_skip("torque.asymmetry", "torque asymmetry", "no positive braking torque", SRC_ASYM)]
+    value = (max(t) - min(t)) / hi
+    if value <= ASYMMETRY_ZERO:
+        value = 0.0  # symmetric up to round-off
+    margin = limit / value if value > 0 else math.inf
+    verdict = Verdict.PASS if value <= limit else Verdict.WARN
+    return [
+        RuleResult(
+            "torque.asymmetry",
+            "torque asymmetry",
+            verdict,
+            value,
+            limit,
+            "",
+            margin,
+            {
+                "torque_cw_Nm": nominal.case("cw").torque_Nm,
+                "torque_ccw_Nm": nominal.case("ccw").torque_Nm,
+                "mu": nominal.cases[0].mu,
+            },
+            SRC_ASYM,
+        )
+    ]
+
+
+def _shoe_contact(mech: Mechanism, solutions: dict[float, Solution]) -> list[RuleResult]:
+    out = []
+    for s in mech.shoes:
+        cases = [c for sol in solutions.values() for c in sol.cases]
+        worst = min(cases, key=lambda c: c.shoe(s.name).normal_N)
+        n = worst.shoe(s.name).normal_N
+        verdict = Verdict.PASS if n > 0 else Verdict.FAIL
+        out.append(
+            RuleResult(
+                f"shoe.contact.{s.name}",
+                f"shoe {s.name} presses on the drum",
+                verdict,
+                n,
+                0.0,
+                "N",
+                None,
+                {"case": _where(worst)},
+                "normal force must be positive (a shoe cannot pull on the drum)",
+                "" if n > 0 else "the shoe lifts off or the brake self-locks in this case",
+            )
+        )
+    return out
+
+
+def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleResult]:
+    out: list[RuleResult] = []
+    drum = mech.drum
+    if drum is None:
+        return out
+    b = spec.num("lining_width")
+    for s in mech.shoes:
+        theta = math.radians(s.contact_angle_deg)
+        chord = 2 * drum.radius_mm * math.sin(theta / 2)
+        rule = f"lining.pressure.{s.name}"
+        title = f"lining pressure, {s.name}"
+        if not cases:
+            out.append(_skip(rule, title, "no case with every shoe pressing on the drum", SRC_LINING))
+            continue
+        worst = max(cases, key=lambda c: c.shoe(s.name).normal_N)
+        n = worst.shoe(s.name).normal_N
+        miss = _missing(spec, ("lining_width", "lining_pressure_max"))
+        p = n / (b * chord) if b else None
+        if miss:
+            out.append(_skip(rule, title, f"needs {', '.join(miss)}", SRC_LINING))
+        else:
+            assert p is not None
+            out.append(
+                _ratio_rule(
+                    rule,
+                    title,
+                    p,
+                    spec.num("lining_pressure_max") or 0.0,
+                    "MPa",
+                    SRC_LINING,
+                    {"normal_N": n, "lining_width_mm": b, "chord_mm": chord, "case": _where(worst)},
+                    at_most=True,
+                )
+            )
+        rule = f"lining.pv.{s.name}"
+        title = f"pV, {s.name}"
+        miss = _missing(spec, ("lining_width", "drum_speed", "pv_max"))
+        if miss:
+            out.append(_skip(rule, title, f"needs {', '.join(miss)}", SRC_PV))
+            continue
+        assert p is not None
+        n_rpm = spec.num("drum_speed") or 0.0
+        v = math.pi * 2 * drum.radius_mm * n_rpm / 60.0 / 1000.0
+        out.append(
+            _ratio_rule(
+                rule,
+                title,
+                p * v,
+                spec.num("pv_max") or 0.0,
+                "MPa*m/s",
+                SRC_PV,
+                {"pressure_MPa": p, "rubbing_speed_m_s": v, "drum_speed_rpm": n_rpm, "case": _where(worst)},
+                at_most=True,
+            )
+        )
+    return out
+
+
+def _pins(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleResult]:
+    out: list[RuleResult] = []
+    for pin in mech.pins:
+        if not cases:
+            break
+        worst = max(cases, key=lambda c: c.pin(pin.name).max_force_N)
+        f = worst.pin(pin.name).max_force_N
+        d = pin.diameter_mm
+        planes = spec.num("pin_shear_planes", pin.name) or 1.0
+        rule, title = f"pin.shear.{pin.name}", f"pin shear, {pin.name}"
+        allow = spec.num("pin_shear_allow", pin.name)
+        if allow is None:
+            out.append(_skip(rule, title, "needs pin_shear_allow", SRC_SHEAR))
+        else:
+            tau = f / (planes * math.pi * d * d / 4)
+            out.append(
+                _ratio_rule(
+                    rule,
+                    title,
+                    tau,
+                    allow,
+                    "MPa",
+                    SRC_SHEAR,
+                    {"force_N": f, "diameter_mm": d, "shear_planes": planes, "case": _where(worst)},
+                    at_most=True,
+                )
+            )
+        rule, title = f"pin.bearing.{pin.name}", f"pin bearing, {pin.name}"
+        miss = _missing(spec, ("pin_length", "pin_bearing_allow"), pin.name)
+        if miss:
+            out.append(_skip(rule, title, f"needs {', '.join(miss)}", SRC_BEARING))
+            continue
+        length = spec.num("pin_length", pin.name) or 0.0
+        p = f / (d * length)
+        out.append(
+            _ratio_rule(
+                rule,
+                title,
+                p,
+                spec.num("pin_bearing_allow", pin.name) or 0.0,
+                "MPa",
+                SRC_BEARING,
+                {"force_N": f, "diameter_mm": d, "pin_length_mm": length, "case": _where(worst)},
+                at_most=True,
+            )
+        )
+    return out
+
+
+def _members(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleResult]:
+    out: list[RuleResult] = []
+    if not cases:
+        return out
+    for m in cases[0].members:
+        name = m.name
+        area = spec.num("rod_area", name)
+        dia = spec.num("rod_diameter", name)
+        if area is None and dia is not None:
+            area = math.pi * dia * dia / 4
+        worst = max(cases, key=lambda c: abs(c.member(name).axial_N))
+        f = abs(worst.member(name).axial_N)
+        rule, title = f"member.stress.{name}", f"rod stress, {name}"
+        allow = spec.num("rod_stress_allow", name)
+        if area is None or allow is None:
+            need = [k for k, v in (("rod_area or rod_diameter", area), ("rod_stress_allow", allow)) if v is None]
+            out.append(_skip(rule, title, f"needs {', '.join(need)}", SRC_STRESS))
+        else:
+            out.append(
+                _ratio_rule(
+                    rule,
+                    title,
+                    f / area,
+                    allow,
+                    "MPa",
+                    SRC_STRESS,
+                    {"axial_N": f, "area_mm2": area, "case": _where(worst)},
+                    at_most=True,
+                )
+            )
+        rule, title = f"member.buckling.{name}", f"rod buckling, {name}"
+        comp = [c for c in cases if c.member(name).axial_N < 0]
+        if not comp:
+            out.append(_skip(rule, title, "always in tension", SRC_EULER))
+            continue
+        e_mod = spec.num("rod_modulus", name)
+        if e_mod is None or (dia is None and area is None):
+            out.append(_skip(rule, title, "needs rod_modulus and rod_diameter (or rod_area)", SRC_EULER))
+            continue
+        d_eff = dia if dia is not None else math.sqrt(4 * (area or 0.0) / math.pi)
+        inertia = math.pi * d_eff**4 / 64
+        k = spec.num("rod_end_factor", name) or 1.0
+        sf = spec.num("buckling_safety", name) or 1.0
+        worst_c = max(comp, key=lambda c: -c.member(name).axial_N)
+        fc = -worst_c.member(name).axial_N
+        length = worst_c.member(name).length_mm
+        p_cr = math.pi**2 * e_mod * inertia / (k * length) ** 2
+        margin = p_cr / (sf * fc)
+        out.append(
+            RuleResult(
+                rule,
+                title,
+                Verdict.PASS if margin >= 1 else Verdict.FAIL,
+                fc,
+                p_cr / sf,
+                "N",
+                margin,
+                {
+                    "compression_N": fc,
+                    "euler_load_N": p_cr,
+                    "length_mm": length,
+                    "diameter_mm": d_eff,
+                    "modulus_MPa": e_mod,
+                    "end_factor": k,
+                    "safety": sf,
+                    "case": _where(worst_c),
+                    "solid_round": dia is None,
+                },
+                SRC_EULER,
+            )
+        )
+    return out

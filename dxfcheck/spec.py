@@ -1,0 +1,338 @@
+"""The brake's spec: the duty and the limits a drawing is judged against.
+
+Values come from five places, lowest to highest precedence:
+
+1. built-in defaults (:data:`DEFAULTS`);
+2. the project file ``dxfcheck.toml``: its ``[spec]`` table, then a
+   ``[spec."NAME.dxf"]`` table for the one drawing;
+3. the drawing's own header custom properties (R2004 and later) whose names
+   start with ``dxfcheck.``, e.g. ``dxfcheck.required_torque = 450 N*m``;
+4. a sidecar file ``NAME.toml`` beside the drawing, with a ``[spec]`` table;
+5. the command line (``--set KEY=VALUE`` and the named options).
+
+Every value with a dimension carries its unit in the text (``"450 N*m"``,
+``"0.3 MPa"``, ``"1450 rpm"``, ``"7.5 kW"``, ``"40 mm"``); a bare number is
+rejected with a message naming the key and the file.  Per-pin and per-member
+values go in ``pins.NAME`` and ``members.NAME`` sub-tables
+(``[spec.pins.S1]``, ``dxfcheck.pins.S1.pin_length``,
+``--set pins.S1.pin_length=40mm``).
+"""
+
+from __future__ import annotations
+
+import enum
+import os
+import tomllib
+from collections.abc import Iterable, Mapping
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from dxfcheck.errors import ConfigError
+from dxfcheck.units import UnitError, parse_quantity
+
+__all__ = [
+    "DEFAULTS",
+    "KEYS",
+    "Key",
+    "Kind",
+    "Spec",
+    "SpecValue",
+    "load_spec",
+    "parse_assignment",
+]
+
+#: Prefix of the drawing header's custom properties read as spec values.
+PROPERTY_PREFIX = "dxfcheck."
+
+
+class Kind(enum.Enum):
+    """How a spec value is written."""
+
+    QUANTITY = "quantity"  # a number with a unit of a dimension
+    NUMBER = "number"  # a dimensionless number
+    DIRECTIONS = "directions"  # a list of "cw"/"ccw"
+    CHOICE = "choice"  # one word from a list
+
+
+@dataclass(frozen=True)
+class Key:
+    """A spec key: how it is written and what it means."""
+
+    kind: Kind
+    doc: str
+    dimension: str | None = None
+    choices: tuple[str, ...] = ()
+    per: str | None = None  # "pins" or "members" when it may be overridden per subject
+    minimum: float | None = None
+
+
+#: Every key the spec knows.
+KEYS: dict[str, Key] = {
+    # duty
+    "required_torque": Key(Kind.QUANTITY, "braking torque the brake must hold", "torque"),
+    "motor_power": Key(Kind.QUANTITY, "motor rated power", "power"),
+    "motor_speed": Key(Kind.QUANTITY, "motor rated speed (at the brake drum)", "speed"),
+    "torque_factor": Key(Kind.NUMBER, "brake torque / motor rated torque (set by the hoist code)", minimum=0.0),
+    "hoist_torque": Key(Kind.QUANTITY, "full-load hoisting torque at the brake", "torque"),
+    "control_braking": Key(
+        Kind.CHOICE, "hoist control braking: mechanical or other", choices=("mechanical", "non-mechanical")
+    ),
+    "holding_brakes": Key(Kind.NUMBER, "number of holding brakes on the hoist", minimum=1.0),
+    "directions": Key(Kind.DIRECTIONS, "drum directions that must hold"),
+    # friction
+    "mu": Key(Kind.NUMBER, "nominal lining-drum friction coefficient", minimum=0.0),
+    "mu_min": Key(Kind.NUMBER, "lowest friction coefficient in service", minimum=0.0),
+    "mu_max": Key(Kind.NUMBER, "highest friction coefficient in service", minimum=0.0),
+    "self_lock_margin": Key(Kind.NUMBER, "critical μ must exceed mu_max by this factor", minimum=1.0),
+    # lining
+    "lining_width": Key(Kind.QUANTITY, "shoe face width", "length"),
+    "lining_pressure_max": Key(Kind.QUANTITY, "allowed lining pressure", "pressure"),
+    "drum_speed": Key(Kind.QUANTITY, "drum speed while braking", "speed"),
+    "pv_max": Key(Kind.QUANTITY, "allowed pressure × rubbing speed", "pv"),
+    # pins
+    "pin_length": Key(Kind.QUANTITY, "pin bearing length", "length", per="pins"),
+    "pin_shear_allow": Key(Kind.QUANTITY, "allowed pin shear stress", "pressure", per="pins"),
+    "pin_bearing_allow": Key(Kind.QUANTITY, "allowed pin bearing pressure", "pressure", per="pins"),
+    "pin_shear_planes": Key(Kind.NUMBER, "1 single shear, 2 double shear", per="pins", minimum=1.0),
+    # two-force members
+    "rod_area": Key(Kind.QUANTITY, "rod cross-section area", "area", per="members"),
+    "rod_diameter": Key(Kind.QUANTITY, "solid round rod diameter", "length", per="members"),
+    "rod_stress_allow": Key(Kind.QUANTITY, "allowed axial stress", "pressure", per="members"),
+    "rod_modulus": Key(Kind.QUANTITY, "Young's modulus of the rod", "pressure", per="members"),
+    "rod_end_factor": Key(Kind.NUMBER, "effective-length factor K (1 pinned-pinned)", per="members", minimum=0.0),
+    "buckling_safety": Key(Kind.NUMBER, "required Euler load / axial load", per="members", minimum=1.0),
+    # effort
+    "effort": Key(Kind.QUANTITY, "magnitude of every load", "force"),
+    # report
+    "torque_asymmetry_max": Key(Kind.NUMBER, "warn above this relative torque difference between directions"),
+}
+
+#: Built-in defaults: (value, note on where it comes from).
+DEFAULTS: dict[str, tuple[Any, str]] = {
+    "directions": (("cw", "ccw"), "both directions"),
+    "self_lock_margin": (1.0, "no margin beyond mu_max"),
+    "pin_shear_planes": (1.0, "single shear, the conservative case"),
+    "rod_end_factor": (1.0, "pinned-pinned (Euler's fundamental case)"),
+    "buckling_safety": (3.0, "common practice for machine links, no single source"),
+    "torque_asymmetry_max": (0.30, "the weaker direction usually sets the holding duty"),
+}
+
+_SUBTABLES = ("pins", "members")
+
+
+@dataclass(frozen=True)
+class SpecValue:
+    """One spec value in dxfcheck's internal unit of its dimension.
+
+    Attributes
+    ----------
+    key : str
+    value : Any
+        float for quantities [internal unit] and numbers, tuple of str for
+        directions, str for choices.
+    unit : str
+        Internal unit (``N*m``, ``MPa``, ``mm``...) or ``""``.
+    text : str
+        As written.
+    source : str
+        Where it came from (``default``, a file and table, ``drawing
+        header``, ``command line``).
+    """
+
+    key: str
+    value: Any
+    unit: str
+    text: str
+    source: str
+
+
+@dataclass(frozen=True)
+class Spec:
+    """The merged spec of one drawing."""
+
+    values: dict[str, SpecValue] = field(default_factory=dict)
+    pins: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+    members: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+
+    def get(self, key: str, subject: str | None = None) -> SpecValue | None:
+        """The value for ``key``, a per-pin or per-member one first."""
+        per = KEYS[key].per
+        if subject is not None and per is not None:
+            table = self.pins if per == "pins" else self.members
+            hit = table.get(subject, {}).get(key)
+            if hit is not None:
+                return hit
+        return self.values.get(key)
+
+    def num(self, key: str, subject: str | None = None) -> float | None:
+        v = self.get(key, subject)
+        return None if v is None else float(v.value)
+
+    def all_values(self) -> list[SpecValue]:
+        """Every value, the per-subject ones named ``pins.NAME.key``."""
+        out = list(self.values.values())
+        for tname, table in (("pins", self.pins), ("members", self.members)):
+            for subject, vals in table.items():
+                out += [
+                    SpecValue(f"{tname}.{subject}.{v.key}", v.value, v.unit, v.text, v.source) for v in vals.values()
+                ]
+        return out
+
+
+def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
+    spec = KEYS[key]
+    where = f"{source}: {key}"
+    if spec.kind is Kind.QUANTITY:
+        assert spec.dimension is not None
+        if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
+            raise ConfigError(f"{where} must be a number with a unit, e.g. '450 N*m'")
+        if not isinstance(raw, str):
+            raise ConfigError(f'{where} = {raw!r} has no unit; write it as a text with its unit, e.g. "{raw} ..."')
+        try:
+            q = parse_quantity(raw, spec.dimension)
+        except UnitError as exc:
+            raise ConfigError(f"{where}: {exc}") from exc
+        if q.value < 0:
+            raise ConfigError(f"{where} must not be negative")
+        return SpecValue(key, q.value, q.unit, raw, source)
+    if spec.kind is Kind.NUMBER:
+        try:
+            value = float(raw) if not isinstance(raw, bool) else None
+        except (TypeError, ValueError):
+            value = None
+        if value is None or value != value:
+            raise ConfigError(f"{where} must be a plain number, got {raw!r}")
+        if spec.minimum is not None and value < spec.minimum:
+            raise ConfigError(f"{where} must be at least {spec.minimum:g}, got {value:g}")
+        return SpecValue(key, value, "", str(raw), source)
+    if spec.kind is Kind.DIRECTIONS:
+        items = [s.strip() for s in raw.split(",")] if isinstance(raw, str) else raw
+        if not isinstance(items, list | tuple) or not items or not all(i in ("cw", "ccw") for i in items):
+            raise ConfigError(f"{where} must be a list of 'cw' and 'ccw', got {raw!r}")
+        return SpecValue(key, tuple(dict.fromkeys(items)), "", str(raw), source)
+    if not isinstance(raw, str) or raw not in spec.choices:
+        raise ConfigError(f"{where} must be one of {', '.join(spec.choices)}, got {raw!r}")
+    return SpecValue(key, raw, "", raw, source)
+
+
+@dataclass
+class _Builder:
+    values: dict[str, SpecValue] = field(default_factory=dict)
+    pins: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+    members: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+
+    def put(self, key: str, raw: Any, source: str, subject: tuple[str, str] | None = None) -> None:
+        if key not in KEYS:
+            close = [k for k in KEYS if k.split("_")[0] == key.split("_")[0]]
+            hint = f" (did you mean {', '.join(close)}?)" if close else ""
+            raise ConfigError(f"{source}: unknown spec key {key!r}{hint}")
+        v = _parse_value(key, raw, source)
+        if subject is None:
+            self.values[key] = v
+            return
+        table_name, name = subject
+        if KEYS[key].per != table_name:
+            raise ConfigError(f"{source}: {key!r} cannot be set per {table_name[:-1]}")
+        table = self.pins if table_name == "pins" else self.members
+        table.setdefault(name, {})[key] = v
+
+    def table(self, data: Mapping[str, Any], source: str, *, skip: Iterable[str] = ()) -> None:
+        skipped = set(skip)
+        for key, raw in data.items():
+            if key in skipped:
+                continue
+            if key in _SUBTABLES:
+                if not isinstance(raw, dict):
+                    raise ConfigError(f"{source}: {key} must be a table of names")
+                for name, sub in raw.items():
+                    if not isinstance(sub, dict):
+                        raise ConfigError(f"{source}: {key}.{name} must be a table")
+                    for k, r in sub.items():
+                        self.put(k, r, source, (key, name))
+                continue
+            self.put(key, raw, source)
+
+    def build(self) -> Spec:
+        return Spec(dict(self.values), dict(self.pins), dict(self.members))
+
+
+def parse_assignment(text: str) -> tuple[str, str]:
+    """``"KEY=VALUE"`` -> ``(KEY, VALUE)``."""
+    key, sep, value = text.partition("=")
+    if not sep or not key.strip():
+        raise ConfigError(f"--set {text!r}: write KEY=VALUE, e.g. required_torque=450N*m")
+    return key.strip(), value.strip()
+
+
+def _put_dotted(b: _Builder, dotted: str, raw: str, source: str) -> None:
+    parts = dotted.split(".")
+    if len(parts) == 3 and parts[0] in _SUBTABLES:
+        b.put(parts[2], raw, source, (parts[0], parts[1]))
+    elif len(parts) == 1:
+        b.put(parts[0], raw, source)
+    else:
+        raise ConfigError(f"{source}: {dotted!r} is not a spec key (use KEY or pins.NAME.KEY)")
+
+
+def load_spec(
+    drawing: str | os.PathLike[str],
+    *,
+    project: Mapping[str, Any] | None = None,
+    project_path: str | None = None,
+    custom_properties: Iterable[tuple[str, str]] = (),
+    overrides: Iterable[tuple[str, str]] = (),
+) -> Spec:
+    """Merge the spec of one drawing from all its sources.
+
+    Parameters
+    ----------
+    drawing : path-like
+        The drawing; its name selects ``[spec."NAME.dxf"]`` and its sidecar
+        ``NAME.toml``.
+    project : mapping, optional
+        The project file's raw ``[spec]`` table.
+    project_path : str, optional
+        The project file, for messages.
+    custom_properties : iterable of (str, str)
+        The drawing header's custom properties.
+    overrides : iterable of (str, str)
+        Command-line ``KEY=VALUE`` pairs (``pins.NAME.KEY`` allowed).
+
+    Raises
+    ------
+    ConfigError
+        On an unknown key, a value without its unit, or an unreadable file;
+        the message names the key and the file.
+    """
+    p = Path(drawing)
+    b = _Builder()
+    for key, (value, note) in DEFAULTS.items():
+        b.values[key] = SpecValue(key, value, "", str(value), f"default ({note})")
+    if project:
+        src = f"{project_path or 'dxfcheck.toml'} [spec]"
+        drawing_tables = [k for k, v in project.items() if k.lower().endswith(".dxf") and isinstance(v, dict)]
+        b.table(project, src, skip=drawing_tables)
+        for k in drawing_tables:
+            if k.lower() == p.name.lower():
+                b.table(project[k], f'{project_path or "dxfcheck.toml"} [spec."{k}"]')
+    for name, raw in custom_properties:
+        if name.lower().startswith(PROPERTY_PREFIX):
+            _put_dotted(b, name[len(PROPERTY_PREFIX) :], raw, f"{p} header property {name}")
+    sidecar = p.with_suffix(".toml")
+    if sidecar.is_file():
+        try:
+            with open(sidecar, "rb") as fh:
+                data = tomllib.load(fh)
+        except (OSError, tomllib.TOMLDecodeError) as exc:
+            raise ConfigError(f"cannot read the sidecar spec: {exc}", path=str(sidecar)) from exc
+        unknown = set(data) - {"spec"}
+        if unknown:
+            raise ConfigError(f"unknown table {sorted(unknown)[0]!r} (a sidecar holds [spec])", path=str(sidecar))
+        spec_table = data.get("spec", {})
+        if not isinstance(spec_table, dict):
+            raise ConfigError("[spec] must be a table", path=str(sidecar))
+        b.table(spec_table, f"{sidecar} [spec]")
+    for key, raw in overrides:
+        _put_dotted(b, key, raw, "command line")
+    return b.build()
