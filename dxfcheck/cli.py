@@ -52,6 +52,7 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
+    _annotate_shortcut(s)
 
     c = sub.add_parser("check", help="solve a drawing and judge it against the brake's spec (release gate)")
     _common(c)
@@ -69,7 +70,25 @@ def _parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
     c.add_argument("--strict", action="store_true", help="warnings fail the gate too")
+    _annotate_shortcut(c)
+
+    a = sub.add_parser("annotate", help="write a copy of the drawing with the force vectors on a new layer")
+    _common(a)
+    a.add_argument(
+        "-o", "--output", default=None, metavar="OUT.dxf", help="marked-up copy (default DRAWING-forces.dxf)"
+    )
+    a.add_argument("--svg", default=None, metavar="OUT.svg", help="also write a picture as SVG")
+    a.add_argument("--png", default=None, metavar="OUT.png", help="also write a picture as PNG (extra 'png')")
+    a.add_argument("--direction", choices=("cw", "ccw"), default=None, help="drum direction (default: the weaker)")
+    a.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
+    a.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
+    a.add_argument("--force", action="store_true", help="replace existing output files")
     return p
+
+
+def _annotate_shortcut(s: argparse.ArgumentParser) -> None:
+    s.add_argument("--annotate", default=None, metavar="OUT.dxf", help="also write the marked-up copy")
+    s.add_argument("--force", action="store_true", help="replace an existing --annotate output")
 
 
 def _tolerance(args: argparse.Namespace) -> float | None:
@@ -86,9 +105,8 @@ def _tolerance(args: argparse.Namespace) -> float | None:
     return tol
 
 
-def _solve(args: argparse.Namespace) -> int:
-    from dxfcheck.analysis import DEFAULT_MU, analyse
-    from dxfcheck.report import print_solution, solution_to_dict, write_json
+def _effort_mu(args: argparse.Namespace) -> tuple[float | None, float]:
+    from dxfcheck.analysis import DEFAULT_MU
     from dxfcheck.units import UnitError, parse_quantity
 
     try:
@@ -97,17 +115,29 @@ def _solve(args: argparse.Namespace) -> int:
         raise ConfigError(f"--effort: {exc}") from exc
     if args.mu is not None and not (0.0 <= args.mu < 10.0):
         raise ConfigError(f"--mu must be between 0 and 10, got {args.mu}")
-    mu = DEFAULT_MU if args.mu is None else args.mu
+    return effort, DEFAULT_MU if args.mu is None else args.mu
+
+
+def _solve(args: argparse.Namespace) -> int:
+    from dxfcheck.analysis import DEFAULT_MU, analyse, resolve_config
+    from dxfcheck.report import print_solution, solution_to_dict, write_json
+
+    effort, mu = _effort_mu(args)
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
+    cfg = resolve_config(args.drawing, args.config)
     sol = analyse(
         args.drawing,
         mu=mu,
         effort_N=effort,
         directions=directions,
-        config=args.config,
+        config=cfg,
         units=args.units,
         tolerance_mm=_tolerance(args),
     )
+    if args.annotate:
+        from dxfcheck.markup import annotate
+
+        annotate(sol, out=args.annotate, config=cfg, force=args.force)
     if args.json:
         write_json(solution_to_dict(sol))
     else:
@@ -117,7 +147,7 @@ def _solve(args: argparse.Namespace) -> int:
 
 
 def _check(args: argparse.Namespace) -> int:
-    from dxfcheck.analysis import check
+    from dxfcheck.analysis import check, resolve_config
     from dxfcheck.files import write_atomic
     from dxfcheck.report import judgement_to_dict, junit_xml, print_judgement, write_json
     from dxfcheck.rules import Verdict
@@ -133,7 +163,12 @@ def _check(args: argparse.Namespace) -> int:
     ):
         if value is not None:
             overrides.append((key, value))
-    j = check(args.drawing, config=args.config, overrides=overrides, units=args.units, tolerance_mm=_tolerance(args))
+    cfg = resolve_config(args.drawing, args.config)
+    j = check(args.drawing, config=cfg, overrides=overrides, units=args.units, tolerance_mm=_tolerance(args))
+    if args.annotate:
+        from dxfcheck.markup import annotate
+
+        annotate(j.nominal, out=args.annotate, judgement=j, config=cfg, force=args.force)
     if args.junit:
         write_atomic(args.junit, junit_xml(j, strict=args.strict), protect=(args.drawing,))
     if args.json:
@@ -144,12 +179,31 @@ def _check(args: argparse.Namespace) -> int:
     return EXIT_CHECK_FAILED if failed else EXIT_OK
 
 
+def _annotate(args: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    from dxfcheck.analysis import analyse, resolve_config
+    from dxfcheck.markup import annotate
+
+    effort, mu = _effort_mu(args)
+    cfg = resolve_config(args.drawing, args.config)
+    out = args.output
+    if out is None:
+        p = Path(args.drawing)
+        out = str(p.with_name(f"{p.stem}-forces{p.suffix or '.dxf'}"))
+    sol = analyse(args.drawing, mu=mu, effort_N=effort, config=cfg, units=args.units, tolerance_mm=_tolerance(args))
+    written = annotate(sol, out=out, svg=args.svg, png=args.png, direction=args.direction, config=cfg, force=args.force)
+    for w in written:
+        sys.stdout.write(f"wrote {w}\n")
+    return EXIT_OK
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     from dxfcheck.report import print_error
 
     args = _parser().parse_args(argv)
-    commands = {"solve": _solve, "check": _check}
+    commands = {"solve": _solve, "check": _check, "annotate": _annotate}
     try:
         return commands[args.command](args)
     except DxfcheckError as exc:

@@ -42,7 +42,12 @@ class Role(enum.StrEnum):
 #: Default layer name of each role.
 DEFAULT_LAYERS: dict[Role, tuple[str, ...]] = {role: (role.value.upper(),) for role in Role}
 
-_TOP_LEVEL = {"layers", "spec"}
+_TOP_LEVEL = {"layers", "spec", "markup"}
+
+#: Default names of the layers dxfcheck writes in a marked-up copy.
+DEFAULT_FORCE_LAYER = "DXFCHECK_FORCES"
+DEFAULT_NOTE_LAYER = "DXFCHECK_NOTES"
+_MARKUP_KEYS = {"force_layer", "note_layer"}
 
 
 @dataclass(frozen=True)
@@ -57,11 +62,15 @@ class Config:
         The file the settings came from, or None for the defaults.
     spec : dict
         The raw ``[spec]`` table, checked by :mod:`dxfcheck.spec`.
+    force_layer, note_layer : str
+        Layers of a marked-up copy (``[markup]`` table).
     """
 
     layers: dict[Role, tuple[str, ...]] = field(default_factory=lambda: dict(DEFAULT_LAYERS))
     path: str | None = None
     spec: dict[str, Any] = field(default_factory=dict)
+    force_layer: str = DEFAULT_FORCE_LAYER
+    note_layer: str = DEFAULT_NOTE_LAYER
 
     def role_of_layer(self) -> dict[str, Role]:
         """Upper-case layer name -> role."""
@@ -132,4 +141,20 @@ def load_config(path: Path | None) -> Config:
     spec = data.get("spec", {})
     if not isinstance(spec, dict):
         raise ConfigError("[spec] must be a table", path=spath)
-    return Config(layers=layers, path=spath, spec=spec)
+    markup = data.get("markup", {})
+    if not isinstance(markup, dict):
+        raise ConfigError("[markup] must be a table", path=spath)
+    for key, value in markup.items():
+        if key not in _MARKUP_KEYS:
+            raise ConfigError(
+                f"[markup] has an unknown key {key!r} (known: {', '.join(sorted(_MARKUP_KEYS))})", path=spath
+            )
+        if not isinstance(value, str) or not value.strip():
+            raise ConfigError(f"[markup] {key} must be a layer name", path=spath)
+    skeleton = {n for names in layers.values() for n in names}
+    force_layer = markup.get("force_layer", DEFAULT_FORCE_LAYER)
+    note_layer = markup.get("note_layer", DEFAULT_NOTE_LAYER)
+    for name in (force_layer, note_layer):
+        if name.upper() in skeleton:
+            raise ConfigError(f"[markup] layer {name!r} is also a skeleton layer", path=spath)
+    return Config(layers=layers, path=spath, spec=spec, force_layer=force_layer, note_layer=note_layer)

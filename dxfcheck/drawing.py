@@ -37,6 +37,8 @@ __all__ = [
     "PathGeom",
     "Source",
     "TextGeom",
+    "load_document",
+    "raw_header_values",
     "read_drawing",
 ]
 
@@ -487,7 +489,15 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
     return "mm", 1.0, "default", findings
 
 
-def _load_document(path: Path) -> tuple[Any, list[Finding]]:
+def load_document(path: Path) -> tuple[Any, list[Finding]]:
+    """Open a DXF file with ezdxf, falling back to its recover mode for a
+    damaged file; returns the document and what the recovery repaired.
+
+    Raises
+    ------
+    DrawingReadError
+        When the file is missing, a folder, unreadable, empty, DWG or not DXF.
+    """
     from ezdxf import recover
     from ezdxf.filemanagement import readfile
     from ezdxf.lldxf.const import DXFStructureError
@@ -549,7 +559,7 @@ def read_drawing(
     """
     p = Path(path)
     config = config or Config()
-    doc, findings = _load_document(p)
+    doc, findings = load_document(p)
     unit_name, factor, unit_src, unit_findings = _units(doc, units, str(p))
     col = _Collector(path=str(p), roles=config.role_of_layer())
     _walk(col, doc, doc.modelspace(), Affine.scaling(factor, factor), None, (), 0)
@@ -566,6 +576,40 @@ def read_drawing(
         findings=tuple(findings + unit_findings + col.findings),
         custom_properties=_custom_properties(doc),
     )
+
+
+#: Header variables ezdxf resets on loading that a faithful copy restores.
+CREATION_STAMPS = ("$TDCREATE", "$TDUCREATE")
+
+
+def raw_header_values(path: Path, names: tuple[str, ...] = CREATION_STAMPS) -> dict[str, float]:
+    """Numeric header variables read straight from an ASCII DXF file's
+    HEADER section (binary files give an empty dict)."""
+    out: dict[str, float] = {}
+    try:
+        with open(path, "rb") as fh:
+            if fh.read(22).startswith(b"AutoCAD Binary DXF"):
+                return out
+            fh.seek(0)
+            want: str | None = None
+            code: str | None = None
+            for raw in fh:
+                line = raw.decode("latin-1").strip()
+                if code is None:
+                    code = line
+                    continue
+                value, code_now = line, code
+                code = None
+                if code_now == "0" and value == "ENDSEC":
+                    break
+                if code_now == "9":
+                    want = value if value in names else None
+                elif want is not None and code_now == "40":
+                    out[want] = float(value)
+                    want = None
+    except (OSError, ValueError):
+        return {}
+    return out
 
 
 def _custom_properties(doc: Any) -> tuple[tuple[str, str], ...]:

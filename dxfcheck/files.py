@@ -7,13 +7,15 @@ so an interrupted run leaves either the old file or the new one.
 
 from __future__ import annotations
 
+import contextlib
 import os
 import tempfile
+from collections.abc import Iterator
 from pathlib import Path
 
 from dxfcheck.errors import ConfigError
 
-__all__ = ["write_atomic"]
+__all__ = ["atomic_target", "check_target", "write_atomic"]
 
 
 def write_atomic(
@@ -42,26 +44,50 @@ def write_atomic(
         When the destination exists and ``force`` is False, is a protected
         file, or cannot be written.
     """
+    payload = data.encode("utf-8") if isinstance(data, str) else data
+    with atomic_target(path, force=force, protect=protect) as tmp, open(tmp, "wb") as fh:
+        fh.write(payload)
+        fh.flush()
+        os.fsync(fh.fileno())
+    return Path(path)
+
+
+def check_target(
+    path: str | os.PathLike[str], *, force: bool, protect: tuple[str | os.PathLike[str], ...] = ()
+) -> None:
+    """Raise :class:`ConfigError` when ``path`` may not be written: it is a
+    protected file (the input), a folder, or exists and ``force`` is False."""
     dest = Path(path)
     for p in protect:
         if dest.exists() and Path(p).exists() and dest.resolve() == Path(p).resolve():
             raise ConfigError("refusing to overwrite the input drawing; choose another output name", path=str(dest))
+    if dest.is_dir():
+        raise ConfigError("is a folder; name an output file", path=str(dest))
     if dest.exists() and not force:
         raise ConfigError("exists; pass --force to replace it", path=str(dest))
-    payload = data.encode("utf-8") if isinstance(data, str) else data
+
+
+@contextlib.contextmanager
+def atomic_target(
+    path: str | os.PathLike[str],
+    *,
+    force: bool = True,
+    protect: tuple[str | os.PathLike[str], ...] = (),
+) -> Iterator[str]:
+    """Yield a temporary file name beside ``path``; when the block ends
+    without an exception the file is moved onto ``path``, otherwise it is
+    deleted.  Same checks as :func:`write_atomic`."""
+    dest = Path(path)
+    check_target(dest, force=force, protect=protect)
     folder = dest.parent if str(dest.parent) else Path(".")
     try:
         fd, tmp = tempfile.mkstemp(prefix=f".{dest.name}.", suffix=".tmp", dir=folder)
     except OSError as exc:
         raise ConfigError(f"cannot write here: {exc.strerror}", path=str(dest)) from exc
+    os.close(fd)
     try:
-        with os.fdopen(fd, "wb") as fh:
-            fh.write(payload)
-            fh.flush()
-            os.fsync(fh.fileno())
+        yield tmp
         os.replace(tmp, dest)
-    except BaseException:
+    finally:
         if os.path.exists(tmp):
             os.unlink(tmp)
-        raise
-    return dest

@@ -118,3 +118,17 @@ def test_explicit_config_option(tmp_path):
     cfg.write_text("[paths]\n")
     r = run("solve", tmp_path / "c.dxf", "--config", cfg)
     assert r.returncode == 2 and "paths" in r.stderr and "other.toml" in r.stderr
+
+
+def test_check_demo_fails_on_the_shoe_pins(tmp_path):
+    """The demo spec (drawings/dxfcheck.toml) is set so that the shoe pins
+    are over their bearing limit: the gate must say so and exit 1."""
+    junit = tmp_path / "gate.xml"
+    r = run("check", DEMO, "--junit", junit, "--json")
+    assert r.returncode == 1, r.stderr
+    doc = json.loads(r.stdout)
+    failed = sorted(x["rule"] for x in doc["rules"] if x["verdict"] == "fail")
+    assert failed == ["pin.bearing.S1", "pin.bearing.S2"]
+    sources = {s["key"]: s["source"] for s in doc["spec"]}
+    assert 'dxfcheck.toml [spec."winch_two_shoe.dxf"]' in sources["required_torque"]
+    assert junit.read_text().count("<testcase") == len(doc["rules"])
