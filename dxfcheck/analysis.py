@@ -8,9 +8,9 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from dxfcheck.config import Config, find_config, load_config
-from dxfcheck.contact import Direction
+from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction, ShoeModelChoice
 from dxfcheck.drawing import read_drawing
-from dxfcheck.errors import MechanismError
+from dxfcheck.errors import ConfigError, MechanismError
 from dxfcheck.findings import Severity, has_errors
 from dxfcheck.mechanism import build_mechanism
 from dxfcheck.statics import Solution, solve
@@ -18,7 +18,7 @@ from dxfcheck.statics import Solution, solve
 if TYPE_CHECKING:
     from dxfcheck.rules import Judgement
 
-__all__ = ["DEFAULT_MU", "analyse", "check", "resolve_config"]
+__all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config"]
 
 #: Friction coefficient used when none is given [-]: the dry value for a
 #: rigid non-asbestos lining in Neale (ed.), *Tribology Handbook*, section
@@ -45,6 +45,8 @@ def analyse(
     config: str | os.PathLike[str] | Config | None = None,
     units: str | None = None,
     tolerance_mm: float | None = None,
+    shoe_model: ShoeModelChoice | str = ShoeModelChoice.AUTO,
+    long_threshold_deg: float = LONG_SHOE_THRESHOLD_DEG,
 ) -> Solution:
     """Read a brake drawing, infer its mechanism and solve its statics.
 
@@ -64,6 +66,11 @@ def analyse(
         Override the drawing unit.
     tolerance_mm : float, optional
         "Lies on" tolerance [mm].
+    shoe_model : str
+        ``short``, ``long`` or ``auto`` (long-shoe theory above
+        ``long_threshold_deg`` of contact).
+    long_threshold_deg : float
+        [degrees].
 
     Returns
     -------
@@ -84,7 +91,25 @@ def analyse(
             path=str(path),
             findings=errors,
         )
-    return solve(mech, mu, directions)
+    options = contact_options(shoe_model, long_threshold_deg)
+    return solve(mech, mu, directions, options)
+
+
+def contact_options(shoe_model: ShoeModelChoice | str, long_threshold_deg: float) -> ContactOptions:
+    """Checked :class:`ContactOptions`.
+
+    Raises
+    ------
+    ConfigError
+        On an unknown model name or a threshold outside 0°..360°.
+    """
+    try:
+        choice = ShoeModelChoice(shoe_model)
+    except ValueError:
+        raise ConfigError(f"shoe model must be short, long or auto, got {shoe_model!r}") from None
+    if not 0.0 <= long_threshold_deg <= 360.0:
+        raise ConfigError(f"long-shoe threshold must be between 0 and 360 degrees, got {long_threshold_deg:g}")
+    return ContactOptions(choice, long_threshold_deg)
 
 
 def check(

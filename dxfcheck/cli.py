@@ -15,6 +15,7 @@ from __future__ import annotations
 import argparse
 import sys
 from collections.abc import Sequence
+from typing import Any
 
 from dxfcheck.errors import ConfigError, DxfcheckError
 
@@ -40,6 +41,22 @@ def _common(s: argparse.ArgumentParser) -> None:
     s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
 
 
+def _shoe_options(s: argparse.ArgumentParser) -> None:
+    s.add_argument(
+        "--shoe-model",
+        choices=("short", "long", "auto"),
+        default=None,
+        help="shoe theory (default auto: long-shoe theory above the threshold)",
+    )
+    s.add_argument(
+        "--long-threshold",
+        type=float,
+        default=None,
+        metavar="DEG",
+        help="contact angle above which auto takes long-shoe theory (default 60)",
+    )
+
+
 def _parser() -> argparse.ArgumentParser:
     from dxfcheck import __version__
 
@@ -52,6 +69,7 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
+    _shoe_options(s)
     _annotate_shortcut(s)
 
     c = sub.add_parser("check", help="solve a drawing and judge it against the brake's spec (release gate)")
@@ -70,6 +88,7 @@ def _parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
     c.add_argument("--strict", action="store_true", help="warnings fail the gate too")
+    _shoe_options(c)
     _annotate_shortcut(c)
 
     a = sub.add_parser("annotate", help="write a copy of the drawing with the force vectors on a new layer")
@@ -83,6 +102,7 @@ def _parser() -> argparse.ArgumentParser:
     a.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
     a.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     a.add_argument("--force", action="store_true", help="replace existing output files")
+    _shoe_options(a)
     return p
 
 
@@ -103,6 +123,15 @@ def _tolerance(args: argparse.Namespace) -> float | None:
     if tol <= 0:
         raise ConfigError("--tolerance must be positive")
     return tol
+
+
+def _shoe_kwargs(args: argparse.Namespace) -> dict[str, Any]:
+    from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG
+
+    return {
+        "shoe_model": args.shoe_model or "auto",
+        "long_threshold_deg": LONG_SHOE_THRESHOLD_DEG if args.long_threshold is None else args.long_threshold,
+    }
 
 
 def _effort_mu(args: argparse.Namespace) -> tuple[float | None, float]:
@@ -133,6 +162,7 @@ def _solve(args: argparse.Namespace) -> int:
         config=cfg,
         units=args.units,
         tolerance_mm=_tolerance(args),
+        **_shoe_kwargs(args),
     )
     if args.annotate:
         from dxfcheck.markup import annotate
@@ -160,6 +190,8 @@ def _check(args: argparse.Namespace) -> int:
         ("mu_max", args.mu_max),
         ("required_torque", args.required_torque),
         ("effort", args.effort),
+        ("shoe_model", args.shoe_model),
+        ("long_shoe_threshold", None if args.long_threshold is None else str(args.long_threshold)),
     ):
         if value is not None:
             overrides.append((key, value))
@@ -191,7 +223,15 @@ def _annotate(args: argparse.Namespace) -> int:
     if out is None:
         p = Path(args.drawing)
         out = str(p.with_name(f"{p.stem}-forces{p.suffix or '.dxf'}"))
-    sol = analyse(args.drawing, mu=mu, effort_N=effort, config=cfg, units=args.units, tolerance_mm=_tolerance(args))
+    sol = analyse(
+        args.drawing,
+        mu=mu,
+        effort_N=effort,
+        config=cfg,
+        units=args.units,
+        tolerance_mm=_tolerance(args),
+        **_shoe_kwargs(args),
+    )
     written = annotate(sol, out=out, svg=args.svg, png=args.png, direction=args.direction, config=cfg, force=args.force)
     for w in written:
         sys.stdout.write(f"wrote {w}\n")

@@ -69,6 +69,8 @@ class Code(enum.Enum):
     ILL_CONDITIONED = ("S306", Severity.WARNING, "ill-conditioned")
     RESIDUAL = ("S307", Severity.ERROR, "residual")
     NO_CONTACT_LINE = ("S308", Severity.ERROR, "no-contact-line")
+    PARTIAL_CONTACT = ("S309", Severity.WARNING, "partial-contact")
+    SHORT_FALLBACK = ("S310", Severity.INFO, "short-shoe-fallback")
 
     @property
     def id(self) -> str:

@@ -32,8 +32,8 @@ from collections.abc import Iterable
 from dataclasses import dataclass, field
 from typing import Any
 
-from dxfcheck.analysis import DEFAULT_MU
-from dxfcheck.contact import Direction
+from dxfcheck.analysis import DEFAULT_MU, contact_options
+from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction
 from dxfcheck.errors import ConfigError
 from dxfcheck.findings import Code, Severity
 from dxfcheck.mechanism import Mechanism
@@ -122,6 +122,10 @@ SRC_BEARING = "projected-area bearing pressure p = F/(d·L) (Shigley's MED 10th 
 SRC_EULER = "Euler column P_cr = π²EI/(KL)², I = πd⁴/64 (Shigley's MED 10th ed., §4.11)"
 SRC_STRESS = "axial stress σ = F/A"
 SRC_LINING = "short shoe, uniform pressure on the projected area p = N/(b·2r·sin(θ/2)) (Shigley's MED 10th ed., ch. 16)"
+SRC_LONG_LINING = (
+    "long shoe: peak of the integrated pressure law (hinged p = pa·sinθ/sinθa, pivoted p = p0·cos(φ − ψ)), "
+    "Shigley's MED 10th ed., §16-3, 16-4"
+)
 SRC_PV = "pV = p·πDn/60 (drum-brake pV limits: Tribology Handbook B8; 1-3 MPa·m/s common practice)"
 SRC_TORQUE = "braking torque T = Σ μN·r at mu_min against the duty"
 SRC_MOTOR = "duty from the motor: T = factor·P/ω, ω = 2πn/60"
@@ -201,14 +205,18 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     if not mu_min <= mu <= mu_max:
         raise ConfigError(f"friction range must satisfy mu_min ≤ mu ≤ mu_max, got {mu_min:g}, {mu:g}, {mu_max:g}")
     both = (Direction.CW, Direction.CCW)
-    solutions = {m: solve(mech, m, both) for m in sorted({mu_min, mu, mu_max})}
+    sm = spec.get("shoe_model")
+    options = contact_options(
+        "auto" if sm is None else str(sm.value), spec.num("long_shoe_threshold") or LONG_SHOE_THRESHOLD_DEG
+    )
+    solutions = {m: solve(mech, m, both, options) for m in sorted({mu_min, mu, mu_max})}
     nominal = solutions[mu]
     dirs_v = spec.get("directions")
     required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
     rules: list[RuleResult] = []
     rules += _hygiene(mech)
     rules += _duty(spec, solutions[mu_min], required, mu_min)
-    rules += _self_lock(spec, mech, mu_max)
+    rules += _self_lock(spec, mech, mu_max, options)
     rules += _asymmetry(spec, nominal)
     valid = _valid_cases(solutions)
     rules += _shoe_contact(mech, solutions)
@@ -300,11 +308,11 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
     return out
 
 
-def _self_lock(spec: Spec, mech: Mechanism, mu_max: float) -> list[RuleResult]:
+def _self_lock(spec: Spec, mech: Mechanism, mu_max: float, options: ContactOptions) -> list[RuleResult]:
     margin_req = spec.num("self_lock_margin") or 1.0
     out = []
     for d in (Direction.CW, Direction.CCW):
-        mu_c = critical_mu(mech, d)
+        mu_c = critical_mu(mech, d, options)
         limit = mu_max * margin_req
         inputs = {"mu_max": mu_max, "self_lock_margin": margin_req, "direction": str(d)}
         if mu_c is None:
@@ -400,33 +408,30 @@ def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[Rule
         return out
     b = spec.num("lining_width")
     for s in mech.shoes:
-        theta = math.radians(s.contact_angle_deg)
-        chord = 2 * drum.radius_mm * math.sin(theta / 2)
         rule = f"lining.pressure.{s.name}"
         title = f"lining pressure, {s.name}"
         if not cases:
             out.append(_skip(rule, title, "no case with every shoe pressing on the drum", SRC_LINING))
             continue
-        worst = max(cases, key=lambda c: c.shoe(s.name).normal_N)
-        n = worst.shoe(s.name).normal_N
+        worst = max(cases, key=lambda c: c.shoe(s.name).peak_line_load_N_per_mm)
+        sr = worst.shoe(s.name)
+        source = SRC_LINING if sr.model.startswith("short") else SRC_LONG_LINING
         miss = _missing(spec, ("lining_width", "lining_pressure_max"))
-        p = n / (b * chord) if b else None
+        p = sr.peak_line_load_N_per_mm / b if b else None
         if miss:
-            out.append(_skip(rule, title, f"needs {', '.join(miss)}", SRC_LINING))
+            out.append(_skip(rule, title, f"needs {', '.join(miss)}", source))
         else:
             assert p is not None
-            out.append(
-                _ratio_rule(
-                    rule,
-                    title,
-                    p,
-                    spec.num("lining_pressure_max") or 0.0,
-                    "MPa",
-                    SRC_LINING,
-                    {"normal_N": n, "lining_width_mm": b, "chord_mm": chord, "case": _where(worst)},
-                    at_most=True,
-                )
-            )
+            inputs = {
+                "model": sr.model,
+                "normal_N": sr.normal_N,
+                "peak_line_load_N_per_mm": sr.peak_line_load_N_per_mm,
+                "peak_at_deg": sr.peak_at_deg,
+                "lining_width_mm": b,
+                "case": _where(worst),
+            }
+            limit = spec.num("lining_pressure_max") or 0.0
+            out.append(_ratio_rule(rule, title, p, limit, "MPa", source, inputs, at_most=True))
         rule = f"lining.pv.{s.name}"
         title = f"pV, {s.name}"
         miss = _missing(spec, ("lining_width", "drum_speed", "pv_max"))

@@ -104,6 +104,9 @@ KEYS: dict[str, Key] = {
     "buckling_safety": Key(Kind.NUMBER, "required Euler load / axial load", per="members", minimum=1.0),
     # effort
     "effort": Key(Kind.QUANTITY, "magnitude of every load", "force"),
+    # shoe theory
+    "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
+    "long_shoe_threshold": Key(Kind.NUMBER, "contact angle above which auto takes long theory [degrees]", minimum=0.0),
     # report
     "torque_asymmetry_max": Key(Kind.NUMBER, "warn above this relative torque difference between directions"),
 }
@@ -116,6 +119,8 @@ DEFAULTS: dict[str, tuple[Any, str]] = {
     "rod_end_factor": (1.0, "pinned-pinned (Euler's fundamental case)"),
     "buckling_safety": (3.0, "common practice for machine links, no single source"),
     "torque_asymmetry_max": (0.30, "the weaker direction usually sets the holding duty"),
+    "shoe_model": ("auto", "long-shoe theory above the threshold"),
+    "long_shoe_threshold": (60.0, "published thresholds range from 40° to 60°"),
 }
 
 _SUBTABLES = ("pins", "members")

@@ -40,7 +40,18 @@ from dataclasses import dataclass, field
 import numpy as np
 from numpy.typing import NDArray
 
-from dxfcheck.contact import ContactModel, ContactWrench, Direction, short_shoe_model
+from dxfcheck.contact import (
+    ContactModel,
+    ContactOptions,
+    ContactWrench,
+    Direction,
+    ShoeModelChoice,
+    combine,
+    line_of_action_point,
+    moment_about_center,
+    short_shoe_model,
+)
+from dxfcheck.contact.long_shoe import LongHingedShoe, LongPivotedShoe, equivalent_mu
 from dxfcheck.errors import SolveError
 from dxfcheck.findings import Code, Finding, Severity, has_errors
 from dxfcheck.geometry import Point, dist
@@ -81,6 +92,10 @@ MU_SCAN_MAX = 1.0
 MU_SCAN_STEPS = 100
 #: Bisection on the self-locking limit stops at this width [-].
 MU_TOL = 1e-12
+#: Most re-solves while pivoted long shoes settle their contact patches.
+PATCH_ITERATIONS = 30
+#: Default shoe theory: long-shoe theory above 60° of contact.
+DEFAULT_OPTIONS = ContactOptions()
 
 
 @dataclass(frozen=True)
@@ -124,15 +139,33 @@ class ShoeResult:
 
     Attributes
     ----------
+    model : str
+        The contact model used (``short-fixed``, ``short-pivoted``,
+        ``long-hinged``, ``long-pivoted``).
     normal_N, friction_N : float
-        Normal and friction force between drum and lining [N].
+        Resultants of the normal and of the friction forces between drum and
+        lining [N] (negative when the shoe would have to pull).
     torque_Nm : float
         Braking torque the shoe puts on the drum [N·m], positive against the
         drum's motion.
     contact : Point
-        Where the resultant meets the drum surface [mm].
+        Where the resultant's line of action meets the drum surface [mm].
     force : Point
         Resultant force of the drum on the shoe [N].
+    peak_line_load_N_per_mm : float
+        Largest lining pressure × width [N/mm]; divide by the width for the
+        pressure.  Short shoes: N over the chord (uniform).
+    peak_at_deg : float
+        Polar angle where it acts [degrees].
+    mu_equivalent : float
+        μ' = 4μ·sinθ/(2θ + sin 2θ) for the contact semi-angle θ [-]: the
+        quick long-shoe correction, shown beside the model's result.
+    pressure_offset_deg : float or None
+        Pivoted long shoe: the offset ψ of ``p0·cos(φ − φm − ψ)`` [degrees].
+    contact_from_deg, contact_to_deg : float
+        The loaded part of the lining [degrees].
+    line_load : tuple of (float, float)
+        Samples (polar angle [degrees], line load [N/mm]) along the lining.
     """
 
     name: str
@@ -145,6 +178,17 @@ class ShoeResult:
     torque_Nm: float
     contact: Point
     force: Point
+    peak_line_load_N_per_mm: float = math.nan
+    peak_at_deg: float = math.nan
+    mu_equivalent: float = math.nan
+    pressure_offset_deg: float | None = None
+    contact_from_deg: float = math.nan
+    contact_to_deg: float = math.nan
+    line_load: tuple[tuple[float, float], ...] = ()
+
+    def peak_pressure_MPa(self, width_mm: float) -> float:
+        """Peak lining pressure [MPa] for a lining ``width_mm`` [mm] wide."""
+        return self.peak_line_load_N_per_mm / width_mm
 
 
 @dataclass(frozen=True)
@@ -228,6 +272,7 @@ class Solution:
     mechanism: Mechanism
     cases: tuple[CaseSolution, ...]
     findings: tuple[Finding, ...] = field(default=())
+    options: ContactOptions = field(default_factory=ContactOptions)
 
     def case(self, direction: Direction | str) -> CaseSolution:
         d = Direction(direction)
@@ -239,8 +284,8 @@ class _System:
     a: NDArray[np.float64]
     b: NDArray[np.float64]
     row_owner: list[tuple[str, str]]  # ("body"|"pin", name)
-    col_owner: list[tuple[str, str, str]]  # ("pin", pin, body) | ("shoe", shoe, "")
-    wrenches: dict[str, ContactWrench]
+    col_owner: list[tuple[str, str, str]]  # ("pin", pin, body) | ("shoe", shoe, basis index)
+    bases: dict[str, tuple[ContactWrench, ...]]
     dropped: list[int]
     findings: list[Finding]
 
@@ -253,11 +298,47 @@ def _ref_point(mech: Mechanism, part: Part) -> Point:
     return (sum(p[0] for p in pts) / len(pts), sum(p[1] for p in pts) / len(pts))
 
 
-def contact_models(mech: Mechanism) -> dict[str, ContactModel]:
-    """The contact model of every shoe (short-shoe theory)."""
+def contact_models(
+    mech: Mechanism, options: ContactOptions = DEFAULT_OPTIONS
+) -> tuple[dict[str, ContactModel], list[Finding]]:
+    """A fresh contact model for every shoe, and findings on the choices.
+
+    ``auto`` takes long-shoe theory above ``options.long_threshold_deg``.
+    A fixed shoe gets the hinged long-shoe model only when its lever turns
+    about exactly one frame pivot; otherwise it falls back to short-shoe
+    theory with a finding that says why.
+    """
+    out: dict[str, ContactModel] = {}
+    notes: list[Finding] = []
     if mech.drum is None:
-        return {}
-    return {s.name: short_shoe_model(s, mech.drum, mech.pin(s.pin).center if s.pin else None) for s in mech.shoes}
+        return out, notes
+    for s in mech.shoes:
+        pin = mech.pin(s.pin).center if s.pin else None
+        long = options.model is ShoeModelChoice.LONG or (
+            options.model is ShoeModelChoice.AUTO and s.contact_angle_deg > options.long_threshold_deg
+        )
+        if not long:
+            out[s.name] = short_shoe_model(s, mech.drum, pin)
+            continue
+        if s.mounting is Mounting.PIVOTED and pin is not None:
+            out[s.name] = LongPivotedShoe(s, mech.drum, pin)
+            continue
+        pivots = [mech.pin(n) for n in mech.part(s.part).pins if mech.pin(n).grounded]
+        if len(pivots) == 1:
+            out[s.name] = LongHingedShoe(s, mech.drum, pivots[0].center)
+            continue
+        out[s.name] = short_shoe_model(s, mech.drum, pin)
+        why = "turns about no frame pivot (a floating lever)" if not pivots else "has more than one frame pivot"
+        notes.append(
+            Finding(
+                Code.SHORT_FALLBACK,
+                f"shoe {s.name}: long-shoe theory needs a lever hinged to the frame, but {s.part} {why}; "
+                "short-shoe theory is used",
+                (s.arc.source.ref,),
+                (s.arc.source.layer,),
+            )
+        )
+    return out, notes
 
 
 def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> _System:
@@ -271,8 +352,9 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
     for p in pins:
         for body in p.bodies:
             cols.append(("pin", p.name, body))
-    cols += [("shoe", s.name, "") for s in mech.shoes]
-    a = np.zeros((n_rows, 2 * (len(cols) - len(mech.shoes)) + len(mech.shoes)))
+    bases = {sh.name: models[sh.name].basis(mu, direction) for sh in mech.shoes}
+    n_shoe_cols = sum(len(v) for v in bases.values())
+    a = np.zeros((n_rows, 2 * len(cols) + n_shoe_cols))
     b = np.zeros(n_rows)
     row_owner = [("body", n) for n in bodies for _ in range(3)] + [("pin", p.name) for p in pins for _ in range(2)]
     col_owner: list[tuple[str, str, str]] = []
@@ -292,18 +374,16 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
                 a[r + 2, c] = -ry / L
                 a[r + 2, c + 1] = rx / L
             c += 2
-    wrenches: dict[str, ContactWrench] = {}
     findings: list[Finding] = []
-    for s in mech.shoes:
-        w = models[s.name].wrench(mu, direction)
-        wrenches[s.name] = w
-        findings += w.findings
-        r = 3 * bidx[s.part]
-        a[r, c] = w.force[0]
-        a[r + 1, c] = w.force[1]
-        a[r + 2, c] = w.moment_about(refs[s.part]) / L
-        col_owner.append(("shoe", s.name, ""))
-        c += 1
+    for sh in mech.shoes:
+        r = 3 * bidx[sh.part]
+        for k, w in enumerate(bases[sh.name]):
+            findings += w.findings
+            a[r, c] = w.force[0]
+            a[r + 1, c] = w.force[1]
+            a[r + 2, c] = w.moment_about(refs[sh.part]) / L
+            col_owner.append(("shoe", sh.name, str(k)))
+            c += 1
     for ld in mech.loads:
         if ld.part is None:
             continue
@@ -316,7 +396,7 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
     # drop identities 0 = 0 (a pivoted shoe's moment about its own pin)
     scale = float(np.abs(a).max()) if a.size else 1.0
     dropped = [i for i in range(n_rows) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
-    return _System(a, b, row_owner, col_owner, wrenches, dropped, findings)
+    return _System(a, b, row_owner, col_owner, bases, dropped, findings)
 
 
 def _names_in(weights: Iterable[tuple[str, float]]) -> list[str]:
@@ -455,18 +535,23 @@ def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float
 
 
 @functools.lru_cache(maxsize=64)
-def critical_mu(mech: Mechanism, direction: Direction, mu_max: float = MU_SCAN_MAX) -> float | None:
+def critical_mu(
+    mech: Mechanism,
+    direction: Direction,
+    options: ContactOptions = DEFAULT_OPTIONS,
+    mu_max: float = MU_SCAN_MAX,
+) -> float | None:
     """The friction coefficient at which the brake self-locks in
     ``direction`` [-], or None if there is none up to ``mu_max``.
 
     The equilibrium equations are linear in the unknown forces for a given
     μ; at the self-locking limit they become singular with a non-trivial
-    solution under zero load, in which every shoe presses on the drum
-    (normal forces of one sign).  The limit is found by scanning the sign
-    of the determinant and bisecting.  It does not depend on the loads, so
-    it is computed once per mechanism and direction (cached).
+    solution under zero load, in which every shoe presses on the drum.  The
+    limit is found by scanning the sign of the determinant and bisecting
+    (with each lining in full contact).  It does not depend on the loads, so
+    it is computed once per mechanism, direction and shoe model (cached).
     """
-    models = contact_models(mech)
+    models, _ = contact_models(mech, options)
     grid = [mu_max * k / MU_SCAN_STEPS for k in range(MU_SCAN_STEPS + 1)]
     signs = [_square_det_sign(mech, models, mu, direction) for mu in grid]
     if any(math.isnan(s) for s in signs):
@@ -490,23 +575,50 @@ def critical_mu(mech: Mechanism, direction: Direction, mu_max: float = MU_SCAN_M
     return None
 
 
+def _shoe_loads(sys_: _System, v: NDArray[np.float64]) -> dict[str, float]:
+    """Each shoe's total normal load Σ (unknown × ∫q·r dφ) for a vector of
+    unknowns (the braking torque over μr: positive when it presses)."""
+    out: dict[str, float] = {}
+    for j, (kind, name, k) in enumerate(sys_.col_owner):
+        if kind == "shoe":
+            w = sys_.bases[name][int(k)]
+            mu_r = w.torque_per_unit_Nmm
+            out[name] = out.get(name, 0.0) + float(v[j]) * mu_r
+    return out
+
+
 def _all_shoes_press(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> bool:
     sys_ = _assemble(mech, models, mu, direction)
     keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
     _, _, vt = np.linalg.svd(sys_.a[keep])
-    v = vt[-1]
-    normals = [
-        float(v[j]) * sys_.wrenches[o[1]].normal_per_unit for j, o in enumerate(sys_.col_owner) if o[0] == "shoe"
-    ]
-    if not normals:
+    loads = list(_shoe_loads(sys_, vt[-1]).values())
+    if not loads:
         return False
-    if sum(normals) < 0:
-        normals = [-x for x in normals]
-    top = max(abs(x) for x in normals)
-    return top > 0 and all(x >= -1e-6 * top for x in normals) and max(normals) > MODE_SHARE * top
+    if sum(loads) < 0:
+        loads = [-x for x in loads]
+    top = max(abs(x) for x in loads)
+    return top > 0 and all(x >= -1e-6 * top for x in loads) and max(loads) > MODE_SHARE * top
 
 
-def solve_case(mech: Mechanism, mu: float, direction: Direction | str) -> CaseSolution:
+def _solve_system(sys_: _System) -> NDArray[np.float64]:
+    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
+    a, b = sys_.a[keep], sys_.b[keep]
+    return np.asarray(
+        np.linalg.solve(a, b) if a.shape[0] == a.shape[1] else np.linalg.lstsq(a, b, rcond=None)[0],
+        dtype=np.float64,
+    )
+
+
+def _coeffs(sys_: _System, x: NDArray[np.float64], shoe: str) -> list[float]:
+    return [float(x[j]) for j, o in enumerate(sys_.col_owner) if o[0] == "shoe" and o[1] == shoe]
+
+
+def solve_case(
+    mech: Mechanism,
+    mu: float,
+    direction: Direction | str,
+    options: ContactOptions = DEFAULT_OPTIONS,
+) -> CaseSolution:
     """Solve the statics of one drum direction.
 
     Parameters
@@ -517,6 +629,8 @@ def solve_case(mech: Mechanism, mu: float, direction: Direction | str) -> CaseSo
         Coefficient of friction between lining and drum [-].
     direction : Direction or str
         ``"cw"`` or ``"ccw"``, as seen in the drawing.
+    options : ContactOptions
+        Shoe theory (short, long or auto) and the auto threshold.
 
     Returns
     -------
@@ -537,31 +651,76 @@ def solve_case(mech: Mechanism, mu: float, direction: Direction | str) -> CaseSo
         )
     if not math.isfinite(mu) or mu < 0:
         raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
-    models = contact_models(mech)
+    models, notes = contact_models(mech, options)
     sys_ = _assemble(mech, models, mu, direction)
     findings, cond = _diagnose(mech, sys_, direction)
-    findings = list(dict.fromkeys([*sys_.findings, *findings]))
     if has_errors(findings):
         raise SolveError(
             f"{direction}: the linkage cannot be solved",
             path=mech.drawing.path,
             findings=[f for f in findings if f.severity is Severity.ERROR],
         )
-    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
-    a, b = sys_.a[keep], sys_.b[keep]
-    x: NDArray[np.float64] = np.asarray(
-        np.linalg.solve(a, b) if a.shape[0] == a.shape[1] else np.linalg.lstsq(a, b, rcond=None)[0],
-        dtype=np.float64,
-    )
-    fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(b).max(initial=0.0)), 1e-300)
+    x = _solve_system(sys_)
+    # pivoted long shoes: trim each contact patch to where p >= 0, solve again
+    for _ in range(PATCH_ITERATIONS):
+        changed = [models[s.name].refine(_coeffs(sys_, x, s.name), mu, direction) for s in mech.shoes]
+        if not any(changed):
+            break
+        sys_ = _assemble(mech, models, mu, direction)
+        x = _solve_system(sys_)
+    findings = list(dict.fromkeys([*notes, *sys_.findings, *findings]))
+    fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(sys_.b).max(initial=0.0)), 1e-300)
     residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale
     if residual > RESIDUAL_LIMIT:
         findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
-    return _results(mech, sys_, x, mu, direction, residual, cond, findings)
+    return _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options)
+
+
+def _shoe_result(
+    mech: Mechanism, model: ContactModel, ws: tuple[ContactWrench, ...], coeffs: list[float], mu: float
+) -> ShoeResult:
+    s = next(sh for sh in mech.shoes if sh.name == ws[0].model or sh is getattr(model, "shoe", None))
+    force, normal, friction, torque = combine(ws, coeffs)
+    assert mech.drum is not None
+    m_o = moment_about_center(ws, coeffs, mech.drum.center)
+    point = line_of_action_point(mech.drum.center, mech.drum.radius_mm, force, m_o, s.arc.mid_deg)
+    total = sum(c * w.torque_per_unit_Nmm for c, w in zip(coeffs, ws, strict=True))
+    sign = 1.0 if total >= 0 else -1.0
+    peak, peak_deg = model.peak(coeffs)
+    load = tuple(
+        (ws[0].line_load[k][0], sum(c * w.line_load[k][1] for c, w in zip(coeffs, ws, strict=True)))
+        for k in range(len(ws[0].line_load))
+    )
+    offset = model.offset_deg(coeffs) if isinstance(model, LongPivotedShoe) else None
+    patch = (
+        (math.degrees(model.patch[0]) % 360, math.degrees(model.patch[1]) % 360)
+        if isinstance(model, LongPivotedShoe)
+        else (s.arc.start_deg, s.arc.end_deg)
+    )
+    return ShoeResult(
+        name=s.name,
+        part=s.part,
+        model=model.name,
+        mounting=str(s.mounting),
+        contact_angle_deg=s.contact_angle_deg,
+        normal_N=sign * math.hypot(*normal),
+        friction_N=sign * math.hypot(*friction),
+        torque_Nm=torque / 1000.0,
+        contact=point,
+        force=force,
+        peak_line_load_N_per_mm=peak,
+        peak_at_deg=peak_deg,
+        mu_equivalent=equivalent_mu(mu, s.contact_angle_deg),
+        pressure_offset_deg=offset,
+        contact_from_deg=patch[0],
+        contact_to_deg=patch[1],
+        line_load=load,
+    )
 
 
 def _results(
     mech: Mechanism,
+    models: dict[str, ContactModel],
     sys_: _System,
     x: NDArray[np.float64],
     mu: float,
@@ -569,34 +728,18 @@ def _results(
     residual: float,
     cond: float,
     findings: list[Finding],
+    options: ContactOptions,
 ) -> CaseSolution:
     att: dict[str, list[Attachment]] = {}
-    shoes: list[ShoeResult] = []
     j = 0
     while j < len(sys_.col_owner):
         kind, name, body = sys_.col_owner[j]
         if kind == "pin":
             att.setdefault(name, []).append(Attachment(body, float(x[j]), float(x[j + 1])))
             j += 2
-            continue
-        s = next(sh for sh in mech.shoes if sh.name == name)
-        w = sys_.wrenches[name]
-        q = float(x[j])
-        shoes.append(
-            ShoeResult(
-                name=name,
-                part=s.part,
-                model=w.model,
-                mounting=str(s.mounting),
-                contact_angle_deg=s.contact_angle_deg,
-                normal_N=q * w.normal_per_unit,
-                friction_N=q * w.friction_per_unit,
-                torque_Nm=q * w.torque_per_unit_Nmm / 1000.0,
-                contact=w.point,
-                force=(q * w.force[0], q * w.force[1]),
-            )
-        )
-        j += 1
+        else:
+            j += 1
+    shoes = [_shoe_result(mech, models[s.name], sys_.bases[s.name], _coeffs(sys_, x, s.name), mu) for s in mech.shoes]
     pins: list[PinResult] = []
     for p in mech.pins:
         lst = att[p.name]
@@ -631,7 +774,7 @@ def _results(
         members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
     loads = tuple(LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part)
     torque = sum(s.torque_Nm for s in shoes)
-    mu_c = critical_mu(mech, direction)
+    mu_c = critical_mu(mech, direction, options)
     fmax = max([abs(s.normal_N) for s in shoes] + [ld.force_N for ld in loads] + [1e-300])
     locked = mu_c is not None and mu >= mu_c
     if locked:
@@ -675,6 +818,7 @@ def solve(
     mech: Mechanism,
     mu: float,
     directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    options: ContactOptions = DEFAULT_OPTIONS,
 ) -> Solution:
     """Solve every requested drum direction.
 
@@ -683,8 +827,8 @@ def solve(
     SolveError
         As :func:`solve_case`.
     """
-    cases = tuple(solve_case(mech, mu, d) for d in directions)
+    cases = tuple(solve_case(mech, mu, d, options) for d in directions)
     findings = list(mech.findings)
     for c in cases:
         findings += [f for f in c.findings if f not in findings]
-    return Solution(mechanism=mech, cases=cases, findings=tuple(findings))
+    return Solution(mechanism=mech, cases=cases, findings=tuple(findings), options=options)

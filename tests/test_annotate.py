@@ -227,7 +227,7 @@ def test_svg_picture_content(tmp_path):
     for a in markup.arrows:
         assert a.label in desc
     assert "tie rod: 5.94 kN tension" in desc
-    assert "<title>dxfcheck: winch_two_shoe.dxf, drum ccw</title>" in text
+    assert f"<title>dxfcheck: winch_two_shoe.dxf, drum {markup.direction}</title>" in text
     # the skeleton is drawn in black on white, the clutter layers are not
     assert "stroke: #000000" in text
 

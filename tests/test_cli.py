@@ -122,13 +122,19 @@ def test_explicit_config_option(tmp_path):
 
 def test_check_demo_fails_on_the_shoe_pins(tmp_path):
     """The demo spec (drawings/dxfcheck.toml) is set so that the shoe pins
-    are over their bearing limit: the gate must say so and exit 1."""
+    are over their bearing limit and, by long-shoe theory (the 70° linings
+    are above the 60° threshold), the left lining's peak pressure is over
+    0.7 MPa, which short-shoe theory's uniform 0.67 MPa would have passed:
+    the gate must say so and exit 1."""
     junit = tmp_path / "gate.xml"
     r = run("check", DEMO, "--junit", junit, "--json")
     assert r.returncode == 1, r.stderr
     doc = json.loads(r.stdout)
     failed = sorted(x["rule"] for x in doc["rules"] if x["verdict"] == "fail")
-    assert failed == ["pin.bearing.S1", "pin.bearing.S2"]
+    assert failed == ["lining.pressure.left shoe", "pin.bearing.S1", "pin.bearing.S2"]
+    short = run("check", DEMO, "--shoe-model", "short", "--json")
+    failed_short = sorted(x["rule"] for x in json.loads(short.stdout)["rules"] if x["verdict"] == "fail")
+    assert failed_short == ["pin.bearing.S1", "pin.bearing.S2"]
     sources = {s["key"]: s["source"] for s in doc["spec"]}
     assert 'dxfcheck.toml [spec."winch_two_shoe.dxf"]' in sources["required_torque"]
     assert junit.read_text().count("<testcase") == len(doc["rules"])

@@ -19,7 +19,7 @@ MU = 0.35
 def winch(tmp_path_factory):
     path = tmp_path_factory.mktemp("winch") / "winch.dxf"
     winch_two_shoe().save(path)
-    return dxfcheck.analyse(path, mu=MU)
+    return dxfcheck.analyse(path, mu=MU, shoe_model="short")
 
 
 @pytest.mark.parametrize("direction", ["cw", "ccw"])

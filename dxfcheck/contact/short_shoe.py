@@ -30,7 +30,8 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from collections.abc import Sequence
+from dataclasses import dataclass, replace
 
 from dxfcheck.contact.base import ContactWrench, Direction, surface_tangent
 from dxfcheck.findings import Code, Finding
@@ -39,6 +40,8 @@ from dxfcheck.mechanism import Drum, Mounting, Shoe
 
 __all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
 
+#: Samples of the line load along a lining (for reports and pictures).
+LINE_LOAD_SAMPLES = 36
 #: Slack allowed at the lining's ends before a contact point is reported as
 #: outside the lining [degrees].
 LINING_SLACK_DEG = 1e-6
@@ -68,11 +71,35 @@ def _wrench_at(model: str, shoe: Shoe, drum: Drum, alpha: float, mu: float, dire
                 point,
             ),
         )
-    return ContactWrench(model, point, force, n, t, 1.0, mu, torque, findings)
+    # short shoe: the normal force spread evenly over the lining's chord
+    chord = 2 * drum.radius_mm * math.sin(math.radians(shoe.arc.span_deg) / 2)
+    q = 1.0 / chord if chord > 0 else 0.0
+    load = tuple(
+        (shoe.arc.start_deg + shoe.arc.span_deg * k / LINE_LOAD_SAMPLES, q) for k in range(LINE_LOAD_SAMPLES + 1)
+    )
+    return ContactWrench(model, point, force, n, t, 1.0, mu, torque, findings, n, (mu * t[0], mu * t[1]), load)
+
+
+class _ShortBase:
+    """What both short-shoe models share: one unknown, the normal force."""
+
+    shoe: Shoe
+    drum: Drum
+
+    def refine(self, coeffs: Sequence[float], mu: float, direction: Direction) -> bool:
+        return False
+
+    def peak(self, coeffs: Sequence[float]) -> tuple[float, float]:
+        """Uniform line load N/chord [N/mm] at the lining's middle."""
+        chord = 2 * self.drum.radius_mm * math.sin(math.radians(self.shoe.arc.span_deg) / 2)
+        return (coeffs[0] / chord if chord > 0 else math.inf), self.shoe.arc.mid_deg
+
+    def notes(self) -> tuple[Finding, ...]:
+        return ()
 
 
 @dataclass(frozen=True)
-class ShortFixedShoe:
+class ShortFixedShoe(_ShortBase):
     """Short shoe fixed to its lever: ``N`` radial at the lining's midpoint.
 
     Parameters
@@ -85,14 +112,14 @@ class ShortFixedShoe:
     drum: Drum
     name: str = "short-fixed"
 
-    def wrench(self, mu: float, direction: Direction) -> ContactWrench:
+    def basis(self, mu: float, direction: Direction) -> tuple[ContactWrench, ...]:
         """Force on the shoe per newton of normal force [N/N]."""
         alpha = math.radians(self.shoe.arc.mid_deg)
-        return _wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction)
+        return (_wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction),)
 
 
 @dataclass(frozen=True)
-class ShortPivotedShoe:
+class ShortPivotedShoe(_ShortBase):
     """Short shoe on a pin: the resultant passes through the pin, tangent to
     the friction circle of radius ``r·sin(atan μ)``.
 
@@ -108,6 +135,9 @@ class ShortPivotedShoe:
     drum: Drum
     pin_center: Point
     name: str = "short-pivoted"
+
+    def basis(self, mu: float, direction: Direction) -> tuple[ContactWrench, ...]:
+        return (self.wrench(mu, direction),)
 
     def wrench(self, mu: float, direction: Direction) -> ContactWrench:
         """Force on the shoe per newton of normal force [N/N], acting at the
@@ -153,9 +183,7 @@ class ShortPivotedShoe:
                 (self.shoe.arc.source.layer,),
                 self.pin_center,
             )
-            return ContactWrench(
-                w.model, w.point, w.force, w.normal, w.tangent, 1.0, mu, w.torque_per_unit_Nmm, (miss,)
-            )
+            return replace(w, findings=(miss,))
         return min(good, key=lambda g: g[0])[1]
 
 
