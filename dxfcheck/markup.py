@@ -21,6 +21,7 @@ the drum diameter, with a round scale stated in the summary.
 
 from __future__ import annotations
 
+import itertools
 import math
 import os
 from collections.abc import Sequence
@@ -63,6 +64,10 @@ TEXT_MIN_MM = 2.5
 CHAR_ASPECT = 0.62
 #: Turns from the arrow's direction tried when placing a label [degrees].
 LABEL_TURNS_DEG = (0, 30, -30, 60, -60, 90, -90, 120, -120, 150, -150, 180)
+#: The largest pressure curve stands this fraction of the drum diameter
+#: off its base circle, which is this other fraction outside the drum.
+CURVE_FRACTION = 0.12
+CURVE_GAP_FRACTION = 0.03
 #: Clear space kept between a label and any line, over the text height.
 LABEL_PAD = 0.4
 #: ACI colours and lineweights [1/100 mm] of the new layers.
@@ -129,6 +134,10 @@ class Markup:
     summary : tuple of str
     anchor : Point
         Top-left corner of the summary block [mm].
+    curves : tuple of (str, tuple of Point)
+        Each shoe's pressure distribution drawn outside the drum: the
+        distance from the curve to the drum circle is proportional to the
+        line load (label, points [mm]).
     """
 
     direction: Direction
@@ -140,6 +149,7 @@ class Markup:
     members: tuple[MemberNote, ...]
     summary: tuple[str, ...]
     anchor: Point
+    curves: tuple[tuple[str, tuple[Point, ...]], ...] = ()
 
 
 def _fmt_force(f: float) -> str:
@@ -226,6 +236,7 @@ def plan_markup(
         )
         for m in case.members
     )
+    curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()
     torques = ", ".join(f"{c.direction} {c.torque_Nm:.1f} N·m" for c in sol.cases)
     efforts = ", ".join(f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads)
     summary = [
@@ -252,7 +263,27 @@ def plan_markup(
         ys += [mech.drum.center[1] + mech.drum.radius_mm]
     h = max(TEXT_MIN_MM, TEXT_FRACTION * drum_d)
     anchor = (min(xs), max(ys) + h * (len(summary) + 2) * 1.6)
-    return Markup(d, mm_per_N, scale_text, h, HEAD_FRACTION * drum_d, arrows, members, tuple(summary), anchor)
+    return Markup(d, mm_per_N, scale_text, h, HEAD_FRACTION * drum_d, arrows, members, tuple(summary), anchor, curves)
+
+
+def _pressure_curves(case: CaseSolution, drum: Any, drum_d: float) -> tuple[tuple[str, tuple[Point, ...]], ...]:
+    qmax = max([q for s in case.shoes for _, q in s.line_load] + [0.0])
+    if qmax <= 0:
+        return ()
+    k = CURVE_FRACTION * drum_d / qmax
+    gap = CURVE_GAP_FRACTION * drum_d
+    out = []
+    for s in case.shoes:
+        if not s.line_load:
+            continue
+        pts = []
+        for deg, q in s.line_load:
+            t = math.radians(deg)
+            rad = drum.radius_mm + gap + k * max(q, 0.0)
+            pts.append((drum.center[0] + rad * math.cos(t), drum.center[1] + rad * math.sin(t)))
+        label = f"p·b {s.name}: peak {s.peak_line_load_N_per_mm:.3g} N/mm at {s.peak_at_deg:.0f}°"
+        out.append((label, tuple(pts)))
+    return tuple(out)
 
 
 def _wrap(text: str, width: int) -> list[str]:
@@ -408,6 +439,14 @@ def add_markup(
         off = (-uy * 1.2 * h, ux * 1.2 * h) if abs(rot - math.degrees(ang)) < 1e-9 else (uy * 1.2 * h, -ux * 1.2 * h)
         pos = (mid[0] + off[0], mid[1] + off[1])
         msp.add_text(m.label, height=h * k, rotation=rot, dxfattribs={**na, "insert": u(pos)})
+        count += 1
+    for label, pts in markup.curves:
+        for p0, p1 in itertools.pairwise(pts):
+            msp.add_line(u(p0), u(p1), dxfattribs=fa)
+            count += 1
+        top = max(pts, key=lambda q: math.hypot(q[0], q[1]))
+        pos = placer.place(label, top, (top[0] - pts[0][0] + 1e-9, top[1] - pts[0][1]))
+        msp.add_text(label, height=h * k, dxfattribs={**na, "insert": u(pos)})
         count += 1
     x, y = markup.anchor
     for line in markup.summary:

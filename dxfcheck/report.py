@@ -71,6 +71,12 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
                 "torque_Nm": s.torque_Nm,
                 "contact_mm": list(s.contact),
                 "force_N": list(s.force),
+                "peak_line_load_N_per_mm": s.peak_line_load_N_per_mm,
+                "peak_at_deg": s.peak_at_deg,
+                "mu_equivalent": s.mu_equivalent,
+                "pressure_offset_deg": s.pressure_offset_deg,
+                "contact_from_deg": s.contact_from_deg,
+                "contact_to_deg": s.contact_to_deg,
             }
             for s in c.shoes
         ],
@@ -227,11 +233,23 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
             f"[bold]drum {c.direction}[/]  μ = {c.mu:g}   braking torque [bold]{c.torque_Nm:.1f} N·m[/]   "
             f"self-locking μ: {crit}   residual {c.residual:.1e}"
         )
-        ts = Table(title="shoes", title_justify="left")
-        for col in ("shoe", "model", "normal N", "friction N", "torque N·m"):
-            ts.add_column(col, justify="right" if col != "shoe" and col != "model" else "left")
+        ts = Table(
+            title="shoes (peak p·b: peak pressure × lining width; μ': equivalent μ, a cross-check)",
+            title_justify="left",
+        )
+        for col in ("shoe", "model", "normal N", "friction N", "torque N·m", "peak p·b N/mm", "at °", "μ'"):
+            ts.add_column(col, justify="left" if col in ("shoe", "model") else "right")
         for sr in c.shoes:
-            ts.add_row(sr.name, sr.model, f"{sr.normal_N:.1f}", f"{sr.friction_N:.1f}", f"{sr.torque_Nm:.2f}")
+            ts.add_row(
+                sr.name,
+                sr.model,
+                f"{sr.normal_N:.1f}",
+                f"{sr.friction_N:.1f}",
+                f"{sr.torque_Nm:.2f}",
+                f"{sr.peak_line_load_N_per_mm:.2f}",
+                f"{sr.peak_at_deg:.1f}",
+                f"{sr.mu_equivalent:.4f}",
+            )
         console.print(ts)
         tp = Table(title="pins (force on the first part listed)", title_justify="left")
         for col in ("pin", "x mm", "y mm", "Fx N", "Fy N", "|F| N", "joins"):

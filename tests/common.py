@@ -6,6 +6,7 @@ convention.  Geometry that comes from a published example says so.
 
 from __future__ import annotations
 
+import math
 import sys
 from pathlib import Path
 
@@ -22,6 +23,8 @@ __all__ = [
     "conveyor_block",
     "double_block_spring_pair",
     "frame_bellcrank_two_shoe",
+    "internal_hinged_shoe",
+    "pivoted_long_shoes",
     "push_rod_block",
     "winch_two_shoe",
 ]
@@ -133,3 +136,52 @@ def push_rod_block(*, rod_d: float = 16.0) -> Sketch:
     sk.link((520, 400), (620, 400), (820, 400), label="crank", label_at=(720, 415))
     sk.load(820, 400, 0, 1, "500 N")
     return sk
+
+
+def pivoted_long_shoes(*, r: float, semi_deg: float, a: float, effort_N: float, pair: bool) -> Sketch:
+    """Symmetric pivoted shoes, pin on the shoe's centreline at distance
+    ``a`` from the drum axis (the geometry of Shigley's "symmetrically loaded
+    pivoted shoe").  Each shoe pin sits in the middle of a vertical lever
+    pivoted to the frame 300 below it; the effort ``effort_N`` pushes the
+    lever's top, 300 above the pin, towards the drum, so the pin pushes the
+    shoe with 2 × effort along the centreline.  ``pair`` adds the mirror
+    image on the left."""
+    sk = Sketch()
+    sk.drum(0, 0, r)
+    sides = ((1, "right"), (-1, "left")) if pair else ((1, "right"),)
+    for side, name in sides:
+        x = side * a
+        sk.pivot(x, -300, 20, label=f"O {name}")
+        sk.pin(x, 0, 20, label=f"S {name}" if a - r > 40 else None)
+        sk.link((x, -300), (x, 0), (x, 300), label=f"{name} lever", label_at=(x + side * 20, 150))
+        sk.link((x, 0), (side * r, 0), label=f"{name} shoe" if a - r > 40 else None, label_at=(side * (r + a) / 2, 8))
+        c = 0.0 if side > 0 else 180.0
+        sk.shoe(0, 0, r, c - semi_deg, c + semi_deg)
+        sk.load(x, 300, -side, 0, f"{effort_N!r} N", length=40)
+    return sk
+
+
+def internal_hinged_shoe(
+    sk: Sketch,
+    *,
+    r: float,
+    hinge: tuple[float, float],
+    phi_from: float,
+    phi_to: float,
+    act: tuple[float, float],
+    push: tuple[float, float],
+    effort: str,
+    name: str,
+    hinge_drawn: bool = True,
+) -> None:
+    """An internal (expanding) shoe fixed to a lever hinged at ``hinge``:
+    the lining runs counter-clockwise from ``phi_from`` to ``phi_to``
+    (degrees); the actuating force pushes at ``act`` along ``push``."""
+    if hinge_drawn:
+        sk.pivot(*hinge, 12, label=f"H {name}" if name else None)
+    sk.link(hinge, act, label=f"{name} shoe", label_at=(0.7 * act[0] + 0.3 * hinge[0], 0.7 * act[1] + 0.3 * hinge[1]))
+    mid = ((hinge[0] + act[0]) / 2, (hinge[1] + act[1]) / 2)
+    m = math.radians((phi_from + phi_to) / 2)
+    sk.link(mid, (r * math.cos(m), r * math.sin(m)))
+    sk.shoe(0, 0, r, phi_from, phi_to)
+    sk.load(*act, *push, effort, length=30)

@@ -148,7 +148,9 @@ def test_independent_reader_sees_the_new_layers(annotated):
     assert {FORCE, NOTE} <= {layer.name for layer in dwg.layers}
     on_force = [e for e in dwg.entities if e.layer == FORCE]
     markup = plan_markup(sol)
-    assert sum(e.dxftype == "LINE" for e in on_force) == sum(a.force_N > 0 for a in markup.arrows)
+    curve_segments = sum(len(pts) - 1 for _, pts in markup.curves)
+    assert curve_segments > 0  # each shoe's pressure distribution
+    assert sum(e.dxftype == "LINE" for e in on_force) == sum(a.force_N > 0 for a in markup.arrows) + curve_segments
     texts = [e.text for e in dwg.entities if e.layer == NOTE and e.dxftype == "TEXT"]
     assert any("braking torque" in t for t in texts)
     assert any("qualified engineer" in t for t in texts)
