@@ -6,7 +6,8 @@ The scenario is invented for the demos: the Tarnbeck Slate Quarry's incline
 haulage winch (drawing TQ-W2-BR-201, a two-shoe holding brake on a 400 mm
 drum worked through a tie rod and a floating bell crank) and its stone-saw
 feed conveyor (drawing TQ-C7-BR-105, a single-lever block brake on a 300 mm
-drum).  All dimensions are made up; they are not taken from any real brake.
+drum) and its rope capstan (drawing TQ-K4-BR-310, a spring-set simple band
+brake on a 250 mm drum).  All dimensions are made up; they are not taken from any real brake.
 """
 
 from __future__ import annotations
@@ -61,9 +62,40 @@ def conveyor_block() -> Sketch:
     return sk
 
 
+def capstan_band() -> Sketch:
+    """TQ-K4-BR-310: the rope capstan's simple band brake, set by a spring.
+
+    A 250 mm drum wrapped 250°; the band's left end is anchored at the lever
+    fulcrum O, its right end pinned to the lever at A; a compression spring
+    between the frame bracket and the lever's tail sets the brake.
+    """
+    import math
+
+    r, wrap = 125.0, 250.0
+    s_deg, e_deg = 90 - wrap / 2, 90 + wrap / 2
+    pe = (r * math.cos(math.radians(e_deg)), r * math.sin(math.radians(e_deg)))
+    out_e = (-math.sin(math.radians(e_deg)), math.cos(math.radians(e_deg)))
+    o = (pe[0] + 90 * out_e[0], pe[1] + 90 * out_e[1])
+    ps = (r * math.cos(math.radians(s_deg)), r * math.sin(math.radians(s_deg)))
+    out_s = (math.sin(math.radians(s_deg)), -math.cos(math.radians(s_deg)))
+    t = (o[1] - ps[1]) / out_s[1]
+    a_pin = (ps[0] + t * out_s[0], o[1])
+    tail = (o[0] + 520, o[1])
+    sk = Sketch()
+    sk.drum(0, 0, r)
+    sk.pivot(*o, 20, label="O")
+    sk.pin(*a_pin, 16, label="A")
+    sk.link(o, tail, label="band lever", label_at=(o[0] + 380, o[1] + 14))
+    sk.band(0, 0, r, s_deg, e_deg, a_pin, o)
+    sk.pivot(tail[0], o[1] + 160, 16, label="K")
+    sk.spring((tail[0], o[1] + 160), tail, "2.4 kN C")
+    return sk
+
+
 def main() -> None:
     winch_two_shoe().save(HERE / "winch_two_shoe.dxf")
     conveyor_block().save(HERE / "conveyor_block.dxf")
+    capstan_band().save(HERE / "capstan_band.dxf")
 
 
 if __name__ == "__main__":

@@ -13,7 +13,7 @@ from dxfcheck.drawing import read_drawing
 from dxfcheck.errors import ConfigError, MechanismError
 from dxfcheck.findings import Severity, has_errors
 from dxfcheck.mechanism import build_mechanism
-from dxfcheck.statics import Solution, solve
+from dxfcheck.statics import Solution, solve, solve_for_torque
 
 if TYPE_CHECKING:
     from dxfcheck.rules import Judgement
@@ -47,6 +47,7 @@ def analyse(
     tolerance_mm: float | None = None,
     shoe_model: ShoeModelChoice | str = ShoeModelChoice.AUTO,
     long_threshold_deg: float = LONG_SHOE_THRESHOLD_DEG,
+    torque_Nm: float | None = None,
 ) -> Solution:
     """Read a brake drawing, infer its mechanism and solve its statics.
 
@@ -71,6 +72,10 @@ def analyse(
         ``long_threshold_deg`` of contact).
     long_threshold_deg : float
         [degrees].
+    torque_Nm : float, optional
+        The inverse question: scale the drawing's loads and springs (their
+        ratios kept; a load without a magnitude counts as 1 N) to give this
+        braking torque [N·m] in each direction.
 
     Returns
     -------
@@ -83,7 +88,12 @@ def analyse(
     """
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units)
-    mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort_N)
+    mech = build_mechanism(
+        drawing,
+        tolerance_mm=tolerance_mm,
+        effort_N=effort_N,
+        default_magnitude_N=1.0 if torque_Nm is not None else None,
+    )
     if has_errors(list(mech.findings)):
         errors = [f for f in mech.findings if f.severity is Severity.ERROR]
         raise MechanismError(
@@ -92,6 +102,8 @@ def analyse(
             findings=errors,
         )
     options = contact_options(shoe_model, long_threshold_deg)
+    if torque_Nm is not None:
+        return solve_for_torque(mech, torque_Nm, mu, directions, options)
     return solve(mech, mu, directions, options)
 
 

@@ -69,6 +69,7 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
+    s.add_argument("--torque", default=None, help="find the effort that gives this braking torque, e.g. '450 N*m'")
     _shoe_options(s)
     _annotate_shortcut(s)
 
@@ -152,6 +153,14 @@ def _solve(args: argparse.Namespace) -> int:
     from dxfcheck.report import print_solution, solution_to_dict, write_json
 
     effort, mu = _effort_mu(args)
+    torque = None
+    if args.torque:
+        from dxfcheck.units import UnitError, parse_quantity
+
+        try:
+            torque = parse_quantity(args.torque, "torque").value
+        except UnitError as exc:
+            raise ConfigError(f"--torque: {exc}") from exc
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
     cfg = resolve_config(args.drawing, args.config)
     sol = analyse(
@@ -162,6 +171,7 @@ def _solve(args: argparse.Namespace) -> int:
         config=cfg,
         units=args.units,
         tolerance_mm=_tolerance(args),
+        torque_Nm=torque,
         **_shoe_kwargs(args),
     )
     if args.annotate:

@@ -37,6 +37,8 @@ class Role(enum.StrEnum):
     SHOE = "shoe"
     LOAD = "load"
     LABEL = "label"
+    BAND = "band"
+    SPRING = "spring"
 
 
 #: Default layer name of each role.

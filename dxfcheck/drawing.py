@@ -17,6 +17,7 @@ Both fallbacks are reported as finding ``D101``.
 
 from __future__ import annotations
 
+import itertools
 import math
 import os
 from collections.abc import Iterable, Iterator
@@ -60,6 +61,8 @@ _SKELETON_TYPES: dict[Role, set[str]] = {
     Role.LINK: {"LINE", "LWPOLYLINE", "POLYLINE"},
     Role.LOAD: {"LINE", "LWPOLYLINE", "POLYLINE", "TEXT", "MTEXT"},
     Role.LABEL: {"TEXT", "MTEXT"},
+    Role.BAND: {"ARC", "LINE", "LWPOLYLINE"},
+    Role.SPRING: {"LINE", "TEXT", "MTEXT"},
 }
 _IGNORED_ANYWHERE = {"ATTDEF", "ATTRIB", "DIMENSION", "HATCH", "VIEWPORT", "POINT"}
 
@@ -404,6 +407,9 @@ def _take_text(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src
 def _take_path(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Source) -> None:
     closed = False
     bulged = False
+    if role is Role.BAND and dxftype == "LWPOLYLINE":
+        _take_band_polyline(col, e, m, src)
+        return
     if dxftype == "LINE":
         s, t = e.dxf.start, e.dxf.end
         raw: list[tuple[float, float]] = [(float(s[0]), float(s[1])), (float(t[0]), float(t[1]))]
@@ -454,6 +460,39 @@ def _take_path(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src
     if col.duplicate((role, *_key(*(c for p in clean for c in p))), src, clean[0]):
         return
     col.paths.append(PathGeom(role, tuple(clean), src))
+
+
+def _take_band_polyline(col: _Collector, e: Any, m: Affine, src: Source) -> None:
+    """A band drawn as one polyline: its arc segments (bulges) become band
+    arcs, its straight segments band pieces."""
+    from ezdxf.math import bulge_to_arc
+
+    ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
+    if ocs is None:
+        col.finding(Code.OUT_OF_PLANE, "LWPOLYLINE is not in the XY plane; ignored", src)
+        return
+    mm = m @ ocs
+    pts = [(float(x), float(y), float(b)) for x, y, b in e.get_points("xyb")]
+    if not _finite(*(c for p in pts for c in p)):
+        col.finding(Code.BAD_COORDINATE, "LWPOLYLINE has a non-finite or huge coordinate", src)
+        return
+    scale = mm.similarity_scale(SIMILARITY_RTOL) or math.sqrt(abs(mm.det))
+    for (x0, y0, b), (x1, y1, _) in itertools.pairwise(pts):
+        p0, p1 = mm.apply((x0, y0)), mm.apply((x1, y1))
+        if p0 == p1:
+            continue
+        if b == 0.0:
+            col.paths.append(PathGeom(Role.BAND, (p0, p1), src))
+            continue
+        center, a0, a1, radius = bulge_to_arc((x0, y0), (x1, y1), b)
+        c = mm.apply((float(center[0]), float(center[1])))
+        s_pt = mm.apply((float(center[0]) + radius * math.cos(a0), float(center[1]) + radius * math.sin(a0)))
+        e_pt = mm.apply((float(center[0]) + radius * math.cos(a1), float(center[1]) + radius * math.sin(a1)))
+        s_deg = math.degrees(math.atan2(s_pt[1] - c[1], s_pt[0] - c[0])) % 360
+        e_deg = math.degrees(math.atan2(e_pt[1] - c[1], e_pt[0] - c[0])) % 360
+        if mm.mirrors:
+            s_deg, e_deg = e_deg, s_deg
+        col.arcs.append(ArcGeom(Role.BAND, c, radius * scale, s_deg, e_deg, src))
 
 
 def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, list[Finding]]:

@@ -60,6 +60,11 @@ class Code(enum.Enum):
     LABEL_CLASH = ("M214", Severity.WARNING, "label-clash")
     SHOE_MANY_PARTS = ("M215", Severity.ERROR, "shoe-many-parts")
     TEXT_UNREAD = ("M216", Severity.WARNING, "text-unread")
+    SPRING_END_OFF = ("M217", Severity.ERROR, "spring-end-off")
+    SPRING_NO_SENSE = ("M218", Severity.ERROR, "spring-no-sense")
+    BAND_OFF_DRUM = ("M219", Severity.ERROR, "band-off-drum")
+    BAND_OPEN = ("M220", Severity.ERROR, "band-open")
+    BAND_END_OFF = ("M221", Severity.ERROR, "band-end-off")
     # --- statics -------------------------------------------------------
     FREE_MOTION = ("S301", Severity.ERROR, "free-motion")
     REDUNDANT = ("S302", Severity.ERROR, "redundant")
@@ -71,6 +76,7 @@ class Code(enum.Enum):
     NO_CONTACT_LINE = ("S308", Severity.ERROR, "no-contact-line")
     PARTIAL_CONTACT = ("S309", Severity.WARNING, "partial-contact")
     SHORT_FALLBACK = ("S310", Severity.INFO, "short-shoe-fallback")
+    BAND_SLACK = ("S311", Severity.ERROR, "band-slack")
 
     @property
     def id(self) -> str:

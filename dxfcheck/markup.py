@@ -84,7 +84,7 @@ class Arrow:
     Attributes
     ----------
     kind : str
-        ``pin``, ``normal``, ``friction`` or ``load``.
+        ``pin``, ``normal``, ``friction``, ``load``, ``band`` or ``spring``.
     name : str
         What it belongs to (pin, shoe or load name).
     tail, head : Point
@@ -218,6 +218,20 @@ def plan_markup(
             forces.append(("friction", s.name, s.contact, friction, f"μN {s.name} {_fmt_force(s.friction_N)}"))
     for ld in case.loads:
         forces.append(("load", ld.name, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N), f"{ld.name} {_fmt_force(ld.force_N)}"))
+    for br in case.bands:
+        band = next(b for b in mech.bands if b.name == br.name)
+        for pin_name, u in ((band.start_pin, band.start_dir), (band.end_pin, band.end_dir)):
+            t = br.tight_N if pin_name == br.tight_pin else br.slack_N
+            side = "T1" if pin_name == br.tight_pin else "T2"
+            at = mech.pin(pin_name).center
+            forces.append(("band", br.name, at, (t * u[0], t * u[1]), f"{br.name} {side} {_fmt_force(t)}"))
+    for sp in mech.springs:
+        for end in (0, 1):
+            if sp.parts[end] is None:
+                continue
+            f = sp.force_on(end)
+            state = "T" if sp.tension else "C"
+            forces.append(("spring", sp.name, sp.ends[end], f, f"{sp.name} {_fmt_force(sp.force_N or 0.0)} {state}"))
     fmax = max([math.hypot(*f[3]) for f in forces] + [1e-300])
     mm_per_N, scale_text = _nice_scale(ARROW_FRACTION * drum_d / fmax)
     arrows = tuple(

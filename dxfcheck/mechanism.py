@@ -24,7 +24,7 @@ from __future__ import annotations
 import enum
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 from dxfcheck.config import Role
 from dxfcheck.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source, TextGeom
@@ -35,6 +35,7 @@ from dxfcheck.units import UnitError, parse_quantity
 __all__ = [
     "FRAME",
     "LIES_ON_RTOL",
+    "Band",
     "Drum",
     "Load",
     "Mechanism",
@@ -42,6 +43,7 @@ __all__ = [
     "Part",
     "Pin",
     "Shoe",
+    "Spring",
     "build_mechanism",
     "default_tolerance",
 ]
@@ -195,6 +197,86 @@ class Load:
 
 
 @dataclass(frozen=True)
+class Spring:
+    """A spring between two points: an internal pair of equal and opposite
+    forces along its line.
+
+    Attributes
+    ----------
+    name : str
+    ends : (Point, Point)
+        Its ends [mm].
+    parts : (str or None, str or None)
+        The part at each end (None: the frame).
+    force_N : float or None
+        Its force [N].
+    tension : bool
+        True when it pulls its ends together, False when it pushes them
+        apart (compression).
+    text : str or None
+    source : Source
+    """
+
+    name: str
+    ends: tuple[Point, Point]
+    parts: tuple[str | None, str | None]
+    force_N: float | None
+    tension: bool
+    text: str | None
+    source: Source
+
+    def force_on(self, end: int) -> Point:
+        """The force [N] the spring exerts on the part at ``end`` (0 or 1)."""
+        a, b = self.ends[end], self.ends[1 - end]
+        d = dist(a, b)
+        ux, uy = (b[0] - a[0]) / d, (b[1] - a[1]) / d
+        s = (self.force_N or 0.0) * (1.0 if self.tension else -1.0)
+        return (s * ux, s * uy)
+
+
+@dataclass(frozen=True)
+class Band:
+    """A flexible band wrapped on the drum.
+
+    Attributes
+    ----------
+    name : str
+    center : Point
+        The drum axis [mm].
+    radius_mm : float
+    start_deg, end_deg : float
+        The wrap, counter-clockwise [degrees].
+    start_pin, end_pin : str
+        Pins the band's straight pieces run to from the wrap's start and end.
+    start_dir, end_dir : Point
+        Unit vectors from each pin towards where the band leaves the drum:
+        the direction of the band's pull on the pin.
+    kind : str
+        ``simple`` (an end anchored to a frame pivot), ``differential``
+        (both ends on one lever) or ``two-lever``.
+    sources : tuple of Source
+    """
+
+    name: str
+    center: Point
+    radius_mm: float
+    start_deg: float
+    end_deg: float
+    start_pin: str
+    end_pin: str
+    start_dir: Point
+    end_dir: Point
+    kind: str
+    sources: tuple[Source, ...]
+
+    @property
+    def wrap_deg(self) -> float:
+        """Angle of wrap [degrees]."""
+        span = (self.end_deg - self.start_deg) % 360.0
+        return 360.0 if span == 0.0 else span
+
+
+@dataclass(frozen=True)
 class Mechanism:
     """Everything the statics needs, inferred from one drawing.
 
@@ -220,9 +302,36 @@ class Mechanism:
     shoes: tuple[Shoe, ...]
     loads: tuple[Load, ...]
     findings: tuple[Finding, ...] = field(default=())
+    springs: tuple[Spring, ...] = field(default=())
+    bands: tuple[Band, ...] = field(default=())
+
+    @property
+    def family(self) -> str:
+        """The kind of brake the drawing holds, in the trade's words."""
+        out: list[str] = []
+        if self.shoes:
+            n = len(self.shoes)
+            if all(s.internal for s in self.shoes):
+                out.append(f"internal expanding shoe brake ({n} shoe{'s' if n > 1 else ''})")
+            elif n == 1:
+                out.append("single-block brake")
+            else:
+                out.append(f"{n}-shoe external drum brake")
+        out += [f"{b.kind} band brake" for b in self.bands]
+        if self.springs:
+            out.append("spring-set")
+        return ", ".join(out) or "unknown"
 
     def pin(self, name: str) -> Pin:
         return next(p for p in self.pins if p.name == name)
+
+    def scaled(self, factor: float) -> Mechanism:
+        """The same mechanism with every load and spring force × ``factor``."""
+        return replace(
+            self,
+            loads=tuple(replace(ld, magnitude_N=(ld.magnitude_N or 0.0) * factor) for ld in self.loads),
+            springs=tuple(replace(sp, force_N=(sp.force_N or 0.0) * factor) for sp in self.springs),
+        )
 
     def part(self, name: str) -> Part:
         return next(p for p in self.parts if p.name == name)
@@ -283,6 +392,7 @@ def build_mechanism(
     *,
     tolerance_mm: float | None = None,
     effort_N: float | None = None,
+    default_magnitude_N: float | None = None,
 ) -> Mechanism:
     """Build the mechanism a drawing shows.
 
@@ -293,7 +403,11 @@ def build_mechanism(
     tolerance_mm : float, optional
         "Lies on" tolerance [mm]; default :func:`default_tolerance`.
     effort_N : float, optional
-        Magnitude [N] for every load, overriding the texts on the load layer.
+        Magnitude [N] for every load and spring, overriding the drawing's
+        texts.
+    default_magnitude_N : float, optional
+        Magnitude [N] for loads and springs whose text gives none (the
+        inverse question scales them anyway).
 
     Returns
     -------
@@ -328,6 +442,7 @@ def build_mechanism(
     arcs = [a for a in drawing.arcs if a.role is Role.SHOE]
     load_paths = drawing.paths_of(Role.LOAD)
     load_starts = [lp.points[0] for lp in load_paths]
+    load_starts += [q for sp in drawing.paths_of(Role.SPRING) for q in (sp.points[0], sp.points[-1])]
 
     # -- rigid parts ---------------------------------------------------------
     uf = _UnionFind(len(links))
@@ -432,11 +547,25 @@ def build_mechanism(
         pin_parts.append(on)
     pins: list[Pin] = []
     pin_name_of_geom: dict[int, str] = {}
+    band_pieces = drawing.paths_of(Role.BAND)
+    band_pin = [
+        any(dist(end, g.center) <= tol for bp in band_pieces for end in (bp.points[0], bp.points[-1]))
+        for g in pin_geoms
+    ]
     for k, g in enumerate(pin_geoms):
         grounded = g.role is Role.PIVOT
         name = name_of("pin", k, "O" if grounded else "P")
         pin_name_of_geom[k] = name
         on = pin_parts[k]
+        anchors_spring = grounded and any(
+            dist(end, g.center) <= tol for sp in drawing.paths_of(Role.SPRING) for end in (sp.points[0], sp.points[-1])
+        )
+        if anchors_spring and not on:
+            continue  # a frame bracket for a spring: the frame takes the spring's reaction
+        if band_pin[k] and (on or grounded):
+            # a band end: the pin passes the band's tension to its part(s) or the frame
+            pins.append(Pin(name, g.center, 2 * g.radius_mm, grounded, tuple(part_names[i] for i in on), g.source))
+            continue
         if not on:
             findings.append(
                 _f(
@@ -519,6 +648,8 @@ def build_mechanism(
         if effort_N is not None:
             magnitude = effort_N
             text = None
+        if magnitude is None and default_magnitude_N is not None:
+            magnitude = default_magnitude_N
         if magnitude is None:
             findings.append(
                 _f(
@@ -529,16 +660,29 @@ def build_mechanism(
                 )
             )
         loads.append(Load(name, part, start, direction, magnitude, text, lp.source))
-    if not load_paths:
+    if not load_paths and not drawing.paths_of(Role.SPRING):
         findings.append(
             Finding(
-                Code.NO_LOAD, "no load line on the load layer; draw the effort as a line from its point of application"
+                Code.NO_LOAD,
+                "no load line on the load layer and no spring; draw the effort as a line from its point of application",
             )
         )
 
+    # -- springs -----------------------------------------------------------------
+    given = effort_N if effort_N is not None else default_magnitude_N
+    pivots = [g.center for g in pin_geoms if g.role is Role.PIVOT]
+    springs = _springs(drawing, group_list, links, part_names, pivots, tol, findings, given is not None)
+    if effort_N is not None:
+        springs = [replace(sp, force_N=effort_N) for sp in springs]
+    elif default_magnitude_N is not None:
+        springs = [sp if sp.force_N is not None else replace(sp, force_N=default_magnitude_N) for sp in springs]
+
+    # -- bands -------------------------------------------------------------------
+    bands = _bands(drawing, drum, pins, pin_geoms, pin_name_of_geom, tol, findings)
+
     # -- shoes -----------------------------------------------------------------
     shoes: list[Shoe] = []
-    loaded_parts = {ld.part for ld in loads}
+    loaded_parts = {ld.part for ld in loads} | {p for sp in springs for p in sp.parts if p}
     for k, arc in enumerate(arcs):
         labelled = named.get(("shoe", k))
         sname = labelled[1].text if labelled else f"shoe{k + 1}"
@@ -599,9 +743,9 @@ def build_mechanism(
             if any(s.name == sname for s in shoes):
                 sname = gen("shoe")
         shoes.append(Shoe(sname, pname, arc, mounting, pin, internal))
-    if drum is not None and not arcs:
+    if drum is not None and not arcs and not bands:
         findings.append(
-            Finding(Code.NO_SHOE, "no shoe arc on the shoe layer; draw each lining's contact arc on the drum")
+            Finding(Code.NO_SHOE, "no shoe arc on the shoe layer (and no band); draw each lining's contact arc")
         )
 
     parts = tuple(
@@ -623,4 +767,193 @@ def build_mechanism(
         shoes=tuple(shoes),
         loads=tuple(loads),
         findings=tuple(findings),
+        springs=tuple(springs),
+        bands=tuple(bands),
     )
+
+
+_SENSE_WORDS = {"c": False, "comp": False, "compression": False, "t": True, "tens": True, "tension": True}
+
+
+def _spring_text(text: str) -> tuple[float | None, bool | None, str | None]:
+    """``"4.2 kN C"`` -> (4200.0, False, None): the last word (bracketed or
+    not) says compression (C) or tension (T)."""
+    words = text.replace("(", " ").replace(")", " ").split()
+    sense: bool | None = None
+    if words and words[-1].lower() in _SENSE_WORDS:
+        sense = _SENSE_WORDS[words[-1].lower()]
+        words = words[:-1]
+    try:
+        value = parse_quantity(" ".join(words), "force").value
+    except UnitError as exc:
+        return None, sense, str(exc)
+    return value, sense, None
+
+
+def _springs(
+    drawing: Drawing,
+    group_list: list[list[int]],
+    links: list[PathGeom],
+    part_names: list[str],
+    pivots: list[Point],
+    tol: float,
+    findings: list[Finding],
+    magnitude_given: bool,
+) -> list[Spring]:
+    paths = drawing.paths_of(Role.SPRING)
+    text_for: dict[int, TextGeom] = {}
+    for t in drawing.texts_of(Role.SPRING):
+        if not paths:
+            break
+        j = min(
+            range(len(paths)),
+            key=lambda i: point_segment_distance(t.position, paths[i].points[0], paths[i].points[-1]),
+        )
+        text_for.setdefault(j, t)
+    out: list[Spring] = []
+    for j, sp in enumerate(paths):
+        name = f"spring{j + 1}"
+        a, b = sp.points[0], sp.points[-1]
+        if dist(a, b) <= tol:
+            findings.append(_f(Code.SPRING_END_OFF, f"{name} has no length", [sp.source], a))
+            continue
+        ends: list[str | None] = []
+        for end in (a, b):
+            on = [gi for gi, members in enumerate(group_list) if any(_on_path(end, links[i], tol) for i in members)]
+            if on:
+                ends.append(part_names[on[0]])
+            elif any(dist(c, end) <= tol for c in pivots):
+                ends.append(None)  # anchored to the frame
+            else:
+                findings.append(
+                    _f(
+                        Code.SPRING_END_OFF,
+                        f"{name}: its end at {_fmt(end)} is on no part and no pivot",
+                        [sp.source],
+                        end,
+                    )
+                )
+        if len(ends) != 2:
+            continue
+        force: float | None = None
+        sense: bool | None = None
+        text: str | None = None
+        if j in text_for:
+            t = text_for[j]
+            text = t.text
+            force, sense, err = _spring_text(t.text)
+            if err:
+                findings.append(
+                    _f(Code.TEXT_UNREAD, f"{name}: text {t.text!r} is not a force: {err}", [t.source], t.position)
+                )
+        if sense is None:
+            findings.append(
+                _f(
+                    Code.SPRING_NO_SENSE,
+                    f"{name}: say whether it pushes or pulls: end its text with C "
+                    "(compression) or T (tension), e.g. '4.2 kN C'",
+                    [sp.source],
+                    a,
+                )
+            )
+            continue
+        if force is None and not magnitude_given:
+            findings.append(
+                _f(Code.LOAD_NO_MAGNITUDE, f"{name} has no force; write e.g. '4.2 kN C' beside it", [sp.source], a)
+            )
+        out.append(Spring(name, (a, b), (ends[0], ends[1]), force, sense, text, sp.source))
+    return out
+
+
+def _bands(
+    drawing: Drawing,
+    drum: Drum | None,
+    pins: list[Pin],
+    pin_geoms: list[CircleGeom],
+    pin_name_of_geom: dict[int, str],
+    tol: float,
+    findings: list[Finding],
+) -> list[Band]:
+    arcs = [a for a in drawing.arcs if a.role is Role.BAND]
+    pieces = list(drawing.paths_of(Role.BAND))
+    if not arcs:
+        for bp in pieces:
+            findings.append(_f(Code.BAND_OPEN, "band piece without a band arc on the drum", [bp.source], bp.points[0]))
+        return []
+    if drum is None:
+        return []
+    good: list[ArcGeom] = []
+    for a in arcs:
+        if dist(a.center, drum.center) > tol or abs(a.radius_mm - drum.radius_mm) > tol:
+            findings.append(
+                _f(Code.BAND_OFF_DRUM, "band arc is not on the drum circle", [a.source], a.point_at(a.mid_deg))
+            )
+        else:
+            good.append(a)
+    # arcs that continue each other make one wrap
+    wraps: list[list[ArcGeom]] = []
+    slack = math.degrees(tol / drum.radius_mm) + ARC_SLACK_DEG
+    for a in sorted(good, key=lambda x: x.start_deg):
+        for w in wraps:
+            if abs(math.remainder(w[-1].end_deg - a.start_deg, 360.0)) <= slack:
+                w.append(a)
+                break
+            if abs(math.remainder(a.end_deg - w[0].start_deg, 360.0)) <= slack:
+                w.insert(0, a)
+                break
+        else:
+            wraps.append([a])
+    by_name = {p.name: p for p in pins}
+    pin_at = {pin_name_of_geom[k]: g.center for k, g in enumerate(pin_geoms) if pin_name_of_geom.get(k) in by_name}
+    out: list[Band] = []
+    for n, w in enumerate(wraps):
+        name = f"band{n + 1}"
+        start, end = w[0].start_deg, w[-1].end_deg
+        ends_found: list[tuple[str, Point]] = []
+        srcs = [a.source for a in w]
+        for deg in (start, end):
+            tip = w[0].point_at(deg)
+            hit: tuple[str, Point] | None = None
+            for bp in pieces:
+                for near, far in ((bp.points[0], bp.points[-1]), (bp.points[-1], bp.points[0])):
+                    if dist(near, tip) > tol:
+                        continue
+                    pn = next((nm for nm, c in pin_at.items() if dist(c, far) <= tol), None)
+                    if pn is None:
+                        findings.append(
+                            _f(
+                                Code.BAND_END_OFF,
+                                f"{name}: the band piece from {_fmt(tip)} ends at {_fmt(far)}, on no pin",
+                                [bp.source],
+                                far,
+                            )
+                        )
+                    else:
+                        d = dist(far, tip)
+                        hit = (pn, ((tip[0] - far[0]) / d, (tip[1] - far[1]) / d))
+                        srcs.append(bp.source)
+            if hit is None:
+                findings.append(
+                    _f(
+                        Code.BAND_OPEN,
+                        f"{name}: no band piece runs from the wrap's end at {_fmt(tip)} to a pin",
+                        [w[0].source],
+                        tip,
+                    )
+                )
+            else:
+                ends_found.append(hit)
+        if len(ends_found) != 2:
+            continue
+        (sp, sd), (ep, ed) = ends_found
+        kind = _band_kind(by_name[sp], by_name[ep])
+        out.append(Band(name, drum.center, drum.radius_mm, start, end, sp, ep, sd, ed, kind, tuple(srcs)))
+    return out
+
+
+def _band_kind(a: Pin, b: Pin) -> str:
+    if a.grounded or b.grounded:
+        return "simple"
+    if set(a.parts) & set(b.parts):
+        return "differential"
+    return "two-lever"

@@ -100,6 +100,22 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
             {"name": m.name, "ends": list(m.ends), "axial_N": m.axial_N, "state": m.state, "length_mm": m.length_mm}
             for m in c.members
         ],
+        "bands": [
+            {
+                "name": b.name,
+                "kind": b.kind,
+                "tight_N": b.tight_N,
+                "slack_N": b.slack_N,
+                "tight_pin": b.tight_pin,
+                "slack_pin": b.slack_pin,
+                "wrap_deg": b.wrap_deg,
+                "torque_Nm": b.torque_Nm,
+                "peak_line_load_N_per_mm": b.peak_line_load_N_per_mm,
+            }
+            for b in c.bands
+        ],
+        "springs": [{"name": s.name, "force_N": s.force_N, "state": s.state} for s in c.springs],
+        "effort_scale": c.effort_scale,
         "loads": [
             {
                 "name": ld.name,
@@ -127,6 +143,7 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "drawing": d.path,
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
         "tolerance_mm": mech.tolerance_mm,
+        "family": mech.family,
         "mechanism": {
             "drum": None
             if mech.drum is None
@@ -216,8 +233,9 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
         else f"units: {d.units}"
     )
     console.print(
-        f"inferred: {len(mech.parts)} parts, {len(mech.pins)} pins "
-        f"({sum(p.grounded for p in mech.pins)} pivots), {len(mech.shoes)} shoes, {len(mech.loads)} loads"
+        f"inferred: {mech.family}: {len(mech.parts)} parts, {len(mech.pins)} pins "
+        f"({sum(p.grounded for p in mech.pins)} pivots), {len(mech.shoes)} shoes, {len(mech.bands)} bands, "
+        f"{len(mech.springs)} springs, {len(mech.loads)} loads"
     )
     for s in mech.shoes:
         console.print(
@@ -250,7 +268,32 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
                 f"{sr.peak_at_deg:.1f}",
                 f"{sr.mu_equivalent:.4f}",
             )
-        console.print(ts)
+        if c.shoes:
+            console.print(ts)
+        if c.effort_scale is not None:
+            efforts = ", ".join(f"{ld.name} {ld.force_N:.1f} N" for ld in c.loads)
+            springs = ", ".join(f"{s.name} {s.force_N:.1f} N {s.state}" for s in c.springs)
+            console.print(
+                f"effort for {c.torque_Nm:.1f} N·m: {', '.join(x for x in (efforts, springs) if x)} "
+                f"(the drawing's efforts × {c.effort_scale:.6g})"
+            )
+        if c.bands:
+            tb = Table(title="bands (T1/T2 = e^(μθ))", title_justify="left")
+            for col in ("band", "kind", "wrap °", "tight N", "slack N", "torque N·m", "peak p·b N/mm"):
+                tb.add_column(col, justify="left" if col in ("band", "kind") else "right")
+            for b in c.bands:
+                tb.add_row(
+                    b.name,
+                    b.kind,
+                    f"{b.wrap_deg:.1f}",
+                    f"{b.tight_N:.1f} ({b.tight_pin})",
+                    f"{b.slack_N:.1f} ({b.slack_pin})",
+                    f"{b.torque_Nm:.2f}",
+                    f"{b.peak_line_load_N_per_mm:.2f}",
+                )
+            console.print(tb)
+        if c.springs and c.effort_scale is None:
+            console.print("springs: " + ", ".join(f"{s.name} {s.force_N:.1f} N {s.state}" for s in c.springs))
         tp = Table(title="pins (force on the first part listed)", title_justify="left")
         for col in ("pin", "x mm", "y mm", "Fx N", "Fy N", "|F| N", "joins"):
             tp.add_column(col, justify="left" if col in ("pin", "joins") else "right")

@@ -126,6 +126,8 @@ SRC_LONG_LINING = (
     "long shoe: peak of the integrated pressure law (hinged p = pa·sinθ/sinθa, pivoted p = p0·cos(φ − ψ)), "
     "Shigley's MED 10th ed., §16-3, 16-4"
 )
+SRC_BAND = "band: p_max = T1/(b·r) at the tight end, T1/T2 = e^(μθ) (Mott 4th ed., §22-15)"
+SRC_EFFORT = "effort ∝ torque at a given μ (linear statics): effort needed = effort × required / torque"
 SRC_PV = "pV = p·πDn/60 (drum-brake pV limits: Tribology Handbook B8; 1-3 MPa·m/s common practice)"
 SRC_TORQUE = "braking torque T = Σ μN·r at mu_min against the duty"
 SRC_MOTOR = "duty from the motor: T = factor·P/ω, ω = 2πn/60"
@@ -221,6 +223,7 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     valid = _valid_cases(solutions)
     rules += _shoe_contact(mech, solutions)
     rules += _lining(spec, mech, valid)
+    rules += _bands(spec, mech, solutions, valid)
     rules += _pins(spec, mech, valid)
     rules += _members(spec, mech, valid)
     return Judgement(mech, spec, nominal, solutions, tuple(rules), mu, mu_min, mu_max)
@@ -275,6 +278,23 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
     if need is not None:
         for d in required:
             c = sol_min.case(d)
+            efforts = [(ld.name, ld.force_N) for ld in c.loads] + [(s.name, s.force_N) for s in c.springs]
+            if efforts and c.torque_Nm > 0:
+                name, available = efforts[0]
+                needed = available * need / c.torque_Nm
+                out.append(
+                    _ratio_rule(
+                        f"effort.{d}",
+                        f"effort margin, {d}",
+                        needed,
+                        available,
+                        "N",
+                        SRC_EFFORT,
+                        {"effort": name, "required_torque_Nm": need, "torque_Nm": c.torque_Nm, "mu_min": mu_min},
+                        at_most=True,
+                        message=f"{name} needs {needed:.4g} N for the duty at mu_min",
+                    )
+                )
             out.append(
                 _ratio_rule(
                     f"torque.{d}",
@@ -453,6 +473,71 @@ def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[Rule
                 at_most=True,
             )
         )
+    return out
+
+
+def _bands(
+    spec: Spec, mech: Mechanism, solutions: dict[float, Solution], cases: list[CaseSolution]
+) -> list[RuleResult]:
+    """Band tension positive everywhere; band pressure p = T1/(b·r) and pV."""
+    out: list[RuleResult] = []
+    b = spec.num("lining_width")
+    for band in mech.bands:
+        every = [c for sol in solutions.values() for c in sol.cases]
+        worst = min(every, key=lambda c: next(x for x in c.bands if x.name == band.name).slack_N)
+        slack = next(x for x in worst.bands if x.name == band.name).slack_N
+        out.append(
+            RuleResult(
+                f"band.taut.{band.name}",
+                f"band {band.name} stays taut",
+                Verdict.PASS if slack > 0 else Verdict.FAIL,
+                slack,
+                0.0,
+                "N",
+                None,
+                {"case": _where(worst)},
+                "a band can only pull: slack-side tension must be positive",
+                "" if slack > 0 else "the band goes slack or the brake self-locks in this case",
+            )
+        )
+        rule, title = f"band.pressure.{band.name}", f"band pressure, {band.name}"
+        if not cases:
+            out.append(_skip(rule, title, "no case with every band taut", SRC_BAND))
+            continue
+        top = max(cases, key=lambda c: next(x for x in c.bands if x.name == band.name).tight_N)
+        br = next(x for x in top.bands if x.name == band.name)
+        miss = _missing(spec, ("lining_width", "lining_pressure_max"))
+        if miss:
+            out.append(_skip(rule, title, f"needs {', '.join(miss)} (the band's width)", SRC_BAND))
+            continue
+        assert b is not None
+        p = br.peak_line_load_N_per_mm / b
+        out.append(
+            _ratio_rule(
+                rule,
+                title,
+                p,
+                spec.num("lining_pressure_max") or 0.0,
+                "MPa",
+                SRC_BAND,
+                {"tight_N": br.tight_N, "radius_mm": band.radius_mm, "width_mm": b, "case": _where(top)},
+                at_most=True,
+            )
+        )
+        if spec.get("drum_speed") is not None and spec.get("pv_max") is not None:
+            v = math.pi * 2 * band.radius_mm * (spec.num("drum_speed") or 0.0) / 60.0 / 1000.0
+            out.append(
+                _ratio_rule(
+                    f"band.pv.{band.name}",
+                    f"pV, {band.name}",
+                    p * v,
+                    spec.num("pv_max") or 0.0,
+                    "MPa*m/s",
+                    SRC_PV,
+                    {"pressure_MPa": p, "rubbing_speed_m_s": v, "case": _where(top)},
+                    at_most=True,
+                )
+            )
     return out
 
 

@@ -123,6 +123,34 @@ class Sketch:
             self.items.append(("text", "load", text, (x + 1.1 * length * ux, y + 1.1 * length * uy)))
         return self
 
+    def band(
+        self,
+        x: float,
+        y: float,
+        r: float,
+        start_deg: float,
+        end_deg: float,
+        start_pin: Point,
+        end_pin: Point,
+    ) -> Sketch:
+        """A band wrapped counter-clockwise from ``start_deg`` to ``end_deg``
+        on the drum circle, its straight pieces running from the wrap's ends
+        to the pins at ``start_pin`` and ``end_pin``."""
+        self.items.append(("arc", "band", (x, y), r, start_deg, end_deg))
+        for deg, pin in ((start_deg, start_pin), (end_deg, end_pin)):
+            t = math.radians(deg)
+            self.items.append(("path", "band", ((x + r * math.cos(t), y + r * math.sin(t)), pin)))
+        return self
+
+    def spring(self, a: Point, b: Point, text: str | None) -> Sketch:
+        """A spring from ``a`` to ``b`` with its force text (e.g. ``"4.2 kN C"``)
+        beside its middle."""
+        self.items.append(("path", "spring", (a, b)))
+        if text:
+            mid = ((a[0] + b[0]) / 2, (a[1] + b[1]) / 2)
+            self.items.append(("text", "spring", text, (mid[0], mid[1] + 8.0)))
+        return self
+
     def label(self, text: str, x: float, y: float) -> Sketch:
         """A label text centred at ``(x, y)``."""
         self.items.append(("text", "label", text, (x, y)))
@@ -150,7 +178,7 @@ class Sketch:
             doc.header["$INSUNITS"] = 0
             if "$MEASUREMENT" in doc.header:
                 del doc.header["$MEASUREMENT"]
-        for role in ("pivot", "pin", "link", "drum", "shoe", "load", "label"):
+        for role in ("pivot", "pin", "link", "drum", "shoe", "load", "label", "band", "spring"):
             name = self._layer(role)
             if name not in doc.layers:
                 doc.layers.add(name)

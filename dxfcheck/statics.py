@@ -35,7 +35,7 @@ from __future__ import annotations
 import functools
 import math
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 from numpy.typing import NDArray
@@ -55,19 +55,22 @@ from dxfcheck.contact.long_shoe import LongHingedShoe, LongPivotedShoe, equivale
 from dxfcheck.errors import SolveError
 from dxfcheck.findings import Code, Finding, Severity, has_errors
 from dxfcheck.geometry import Point, dist
-from dxfcheck.mechanism import FRAME, Mechanism, Mounting, Part
+from dxfcheck.mechanism import FRAME, Band, Mechanism, Mounting, Part
 
 __all__ = [
     "Attachment",
+    "BandResult",
     "CaseSolution",
     "LoadResult",
     "MemberResult",
     "PinResult",
     "ShoeResult",
     "Solution",
+    "SpringResult",
     "critical_mu",
     "solve",
     "solve_case",
+    "solve_for_torque",
 ]
 
 #: Singular values below this fraction of the largest count as zero.
@@ -192,6 +195,47 @@ class ShoeResult:
 
 
 @dataclass(frozen=True)
+class BandResult:
+    """One band's tensions.
+
+    Attributes
+    ----------
+    tight_N, slack_N : float
+        Tight- and slack-side tension [N] (T1/T2 = e^(μθ)).
+    tight_pin, slack_pin : str
+        The pins at the tight and slack ends.
+    wrap_deg : float
+        Angle of wrap [degrees].
+    torque_Nm : float
+        Braking torque (T1 − T2)·r [N·m].
+    peak_line_load_N_per_mm : float
+        Largest pressure × band width, T1/r [N/mm], at the tight end.
+    kind : str
+        ``simple``, ``differential`` or ``two-lever``.
+    """
+
+    name: str
+    kind: str
+    tight_N: float
+    slack_N: float
+    tight_pin: str
+    slack_pin: str
+    wrap_deg: float
+    torque_Nm: float
+    peak_line_load_N_per_mm: float
+
+
+@dataclass(frozen=True)
+class SpringResult:
+    """A spring's force ``force_N`` [N] as used; ``state`` is tension or
+    compression."""
+
+    name: str
+    force_N: float
+    state: str
+
+
+@dataclass(frozen=True)
 class MemberResult:
     """A two-force member's axial force ``axial_N`` [N], tension positive,
     between pins ``ends``; ``length_mm`` [mm] between them."""
@@ -254,6 +298,9 @@ class CaseSolution:
     residual: float
     condition: float
     findings: tuple[Finding, ...] = ()
+    bands: tuple[BandResult, ...] = ()
+    springs: tuple[SpringResult, ...] = ()
+    effort_scale: float | None = None
 
     def shoe(self, name: str) -> ShoeResult:
         return next(s for s in self.shoes if s.name == name)
@@ -288,6 +335,13 @@ class _System:
     bases: dict[str, tuple[ContactWrench, ...]]
     dropped: list[int]
     findings: list[Finding]
+
+
+def band_ratio(band: Band, mu: float) -> float:
+    """Tight over slack tension, T1/T2 = e^(μθ), θ the wrap [rad]
+    (Euler–Eytelwein; Mott, *Machine Elements in Mechanical Design*, 4th ed.,
+    §22-15)."""
+    return math.exp(mu * math.radians(band.wrap_deg))
 
 
 def _ref_point(mech: Mechanism, part: Part) -> Point:
@@ -354,7 +408,7 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
             cols.append(("pin", p.name, body))
     bases = {sh.name: models[sh.name].basis(mu, direction) for sh in mech.shoes}
     n_shoe_cols = sum(len(v) for v in bases.values())
-    a = np.zeros((n_rows, 2 * len(cols) + n_shoe_cols))
+    a = np.zeros((n_rows, 2 * len(cols) + n_shoe_cols + len(mech.bands)))
     b = np.zeros(n_rows)
     row_owner = [("body", n) for n in bodies for _ in range(3)] + [("pin", p.name) for p in pins for _ in range(2)]
     col_owner: list[tuple[str, str, str]] = []
@@ -384,12 +438,31 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
             a[r + 2, c] = w.moment_about(refs[sh.part]) / L
             col_owner.append(("shoe", sh.name, str(k)))
             c += 1
-    for ld in mech.loads:
-        if ld.part is None:
-            continue
-        r = 3 * bidx[ld.part]
-        fx, fy = ld.force
-        rx, ry = ld.point[0] - refs[ld.part][0], ld.point[1] - refs[ld.part][1]
+    # bands: unknown slack-side tension; each end pulls its pin towards the drum
+    pin_row = {p.name: 3 * len(bodies) + 2 * k for k, p in enumerate(pins)}
+    for band in mech.bands:
+        ratio = band_ratio(band, mu)
+        tight_at_end = direction is Direction.CCW  # the drum drags the band towards its tight end
+        for pin_name, u, tight in (
+            (band.start_pin, band.start_dir, not tight_at_end),
+            (band.end_pin, band.end_dir, tight_at_end),
+        ):
+            share = ratio if tight else 1.0
+            r = pin_row[pin_name]
+            # pin equilibrium: Σ (pin on bodies) − (band on pin) = 0
+            a[r, c] -= share * u[0]
+            a[r + 1, c] -= share * u[1]
+        col_owner.append(("band", band.name, ""))
+        c += 1
+    applied: list[tuple[str, Point, Point]] = [(ld.part, ld.point, ld.force) for ld in mech.loads if ld.part]
+    for sp in mech.springs:
+        for end in (0, 1):
+            part = sp.parts[end]
+            if part is not None:
+                applied.append((part, sp.ends[end], sp.force_on(end)))
+    for part, point, (fx, fy) in applied:
+        r = 3 * bidx[part]
+        rx, ry = point[0] - refs[part][0], point[1] - refs[part][1]
         b[r] -= fx
         b[r + 1] -= fy
         b[r + 2] -= (rx * fy - ry * fx) / L
@@ -582,8 +655,9 @@ def _shoe_loads(sys_: _System, v: NDArray[np.float64]) -> dict[str, float]:
     for j, (kind, name, k) in enumerate(sys_.col_owner):
         if kind == "shoe":
             w = sys_.bases[name][int(k)]
-            mu_r = w.torque_per_unit_Nmm
-            out[name] = out.get(name, 0.0) + float(v[j]) * mu_r
+            out[name] = out.get(name, 0.0) + float(v[j]) * w.torque_per_unit_Nmm
+        elif kind == "band":
+            out[name] = float(v[j])  # slack tension: positive when the band is taut
     return out
 
 
@@ -760,7 +834,7 @@ def _results(
             )
         )
     shoe_parts = {s.part for s in mech.shoes}
-    loaded = {ld.part for ld in mech.loads}
+    loaded = {ld.part for ld in mech.loads} | {p for sp in mech.springs for p in sp.parts if p}
     members: list[MemberResult] = []
     for part in mech.parts:
         if len(part.pins) != 2 or part.name in shoe_parts or part.name in loaded:
@@ -773,9 +847,32 @@ def _results(
         fb = next(a for a in att[pb.name] if a.body == part.name)
         members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
     loads = tuple(LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part)
-    torque = sum(s.torque_Nm for s in shoes)
+    bands: list[BandResult] = []
+    for j, (kind, name, _) in enumerate(sys_.col_owner):
+        if kind != "band":
+            continue
+        band = next(b for b in mech.bands if b.name == name)
+        slack = float(x[j])
+        tight = slack * band_ratio(band, mu)
+        at_end = direction is Direction.CCW
+        bands.append(
+            BandResult(
+                name=name,
+                kind=band.kind,
+                tight_N=tight,
+                slack_N=slack,
+                tight_pin=band.end_pin if at_end else band.start_pin,
+                slack_pin=band.start_pin if at_end else band.end_pin,
+                wrap_deg=band.wrap_deg,
+                torque_Nm=(tight - slack) * band.radius_mm / 1000.0,
+                peak_line_load_N_per_mm=tight / band.radius_mm,
+            )
+        )
+    torque = sum(s.torque_Nm for s in shoes) + sum(b.torque_Nm for b in bands)
     mu_c = critical_mu(mech, direction, options)
-    fmax = max([abs(s.normal_N) for s in shoes] + [ld.force_N for ld in loads] + [1e-300])
+    fmax = max(
+        [abs(s.normal_N) for s in shoes] + [abs(b.tight_N) for b in bands] + [ld.force_N for ld in loads] + [1e-300]
+    )
     locked = mu_c is not None and mu >= mu_c
     if locked:
         findings.append(
@@ -786,6 +883,18 @@ def _results(
             )
         )
     else:
+        for br in bands:
+            if br.slack_N < -LIFT_RTOL * fmax:
+                band = next(b for b in mech.bands if b.name == br.name)
+                findings.append(
+                    Finding(
+                        Code.BAND_SLACK,
+                        f"{direction}: {br.name} would have to push (tension {br.slack_N:.4g} N): under these "
+                        "loads the band goes slack",
+                        tuple(s.ref for s in band.sources),
+                        tuple(s.layer for s in band.sources),
+                    )
+                )
         for sr in shoes:
             if sr.normal_N < -LIFT_RTOL * fmax:
                 sh = next(x for x in mech.shoes if x.name == sr.name)
@@ -811,6 +920,10 @@ def _results(
         residual=residual,
         condition=cond,
         findings=tuple(findings),
+        bands=tuple(bands),
+        springs=tuple(
+            SpringResult(sp.name, sp.force_N or 0.0, "tension" if sp.tension else "compression") for sp in mech.springs
+        ),
     )
 
 
@@ -828,7 +941,49 @@ def solve(
         As :func:`solve_case`.
     """
     cases = tuple(solve_case(mech, mu, d, options) for d in directions)
+    return _solution(mech, cases, options)
+
+
+def _solution(mech: Mechanism, cases: tuple[CaseSolution, ...], options: ContactOptions) -> Solution:
     findings = list(mech.findings)
     for c in cases:
         findings += [f for f in c.findings if f not in findings]
     return Solution(mechanism=mech, cases=cases, findings=tuple(findings), options=options)
+
+
+def solve_for_torque(
+    mech: Mechanism,
+    torque_Nm: float,
+    mu: float,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    options: ContactOptions = DEFAULT_OPTIONS,
+) -> Solution:
+    """The inverse question: the efforts that give ``torque_Nm`` [N·m] of
+    braking torque in each direction, and the forces that result.
+
+    For a given μ the statics is linear in the loads, so one solve with the
+    drawing's loads (their ratios kept) gives the torque per unit of them,
+    and a second at the exact scale gives the forces; no search.  Each case's
+    ``effort_scale`` is the factor applied to the drawing's loads and springs.
+
+    Raises
+    ------
+    SolveError
+        As :func:`solve_case`, or when the loads give no positive torque in a
+        direction (the brake would self-lock or the efforts release it).
+    """
+    if not math.isfinite(torque_Nm) or torque_Nm <= 0:
+        raise SolveError(f"the required torque must be positive, got {torque_Nm:g} N·m")
+    cases: list[CaseSolution] = []
+    for d in directions:
+        base = solve_case(mech, mu, d, options)
+        if base.torque_Nm <= 0 or any(f.code is Code.SELF_LOCKING for f in base.findings):
+            raise SolveError(
+                f"{Direction(d)}: the drawing's efforts give {base.torque_Nm:.4g} N·m of braking torque "
+                "(the brake self-locks or the efforts release it); no effort gives the required torque",
+                path=mech.drawing.path,
+            )
+        k = torque_Nm / base.torque_Nm
+        case = solve_case(mech.scaled(k), mu, d, options)
+        cases.append(replace(case, effort_scale=k))
+    return _solution(mech.scaled(1.0), tuple(cases), options)

@@ -21,11 +21,13 @@ __all__ = [
     "ROOT",
     "block_brake",
     "conveyor_block",
+    "differential_band",
     "double_block_spring_pair",
     "frame_bellcrank_two_shoe",
     "internal_hinged_shoe",
     "pivoted_long_shoes",
     "push_rod_block",
+    "simple_band",
     "winch_two_shoe",
 ]
 
@@ -185,3 +187,77 @@ def internal_hinged_shoe(
     sk.link(mid, (r * math.cos(m), r * math.sin(m)))
     sk.shoe(0, 0, r, phi_from, phi_to)
     sk.load(*act, *push, effort, length=30)
+
+
+def _tangent_point(r: float, deg: float) -> tuple[float, float]:
+    t = math.radians(deg)
+    return (r * math.cos(t), r * math.sin(t))
+
+
+def differential_band(*, r: float, wrap_deg: float, a: float, c: float, arm: float, effort: str | None) -> Sketch:
+    """A differential band brake: the wrap is symmetric about the top of the
+    drum; the band leaves it tangentially at both ends; one lever, pivoted at
+    a fulcrum O placed so that the perpendicular distance from O to the line
+    of the wrap's start piece is ``a`` and to the end piece ``c``, with the
+    two tensions turning the lever opposite ways (the geometry of the
+    differential-band formula W·L = T2·a − T1·c, Mott §22-15); the effort
+    pushes down at ``arm`` from O.  For a counter-clockwise drum the wrap's
+    end (the left side) is the tight side."""
+    half = wrap_deg / 2
+    s_deg, e_deg = 90 - half, 90 + half
+    ps, pe = _tangent_point(r, s_deg), _tangent_point(r, e_deg)
+    # unit vectors from the pins towards the tangent points (the band's pull)
+    us = (-math.sin(math.radians(s_deg)), math.cos(math.radians(s_deg)))
+    ue = (math.sin(math.radians(e_deg)), -math.cos(math.radians(e_deg)))
+    # O at signed distances: cross(P - O, u) = a for the start piece, = -c for the end piece
+    # cross(P, u) - cross(O, u) = k  ->  O·n = cross(P, u) - k with n = (u_y, -u_x)
+    import numpy as np
+
+    m = np.array([[us[1], -us[0]], [ue[1], -ue[0]]])
+    rhs = np.array([ps[0] * us[1] - ps[1] * us[0] - a, pe[0] * ue[1] - pe[1] * ue[0] + c])
+    ox, oy = (float(v) for v in np.linalg.solve(m, rhs))
+
+    def foot(p: tuple[float, float], u: tuple[float, float]) -> tuple[float, float]:
+        t = (ox - p[0]) * u[0] + (oy - p[1]) * u[1]
+        return (p[0] + t * u[0], p[1] + t * u[1])
+
+    fs, fe = foot(ps, us), foot(pe, ue)
+    sk = Sketch()
+    sk.drum(0, 0, r)
+    sk.pivot(ox, oy, 20, label="O")
+    sk.pin(*fs, 16, label="A")
+    sk.pin(*fe, 16, label="C")
+    sk.link(fs, (ox, oy), fe, label="lever", label_at=((fs[0] + ox) / 2 + 5, (fs[1] + oy) / 2 - 5))
+    mid = ((fs[0] + ox) / 2, (fs[1] + oy) / 2)
+    w = (ox + arm, mid[1])  # the arm's end: its moment arm about O is `arm`
+    sk.link(mid, w)
+    sk.band(0, 0, r, s_deg, e_deg, fs, fe)
+    sk.load(w[0], w[1], 0, -1, effort, length=40)
+    return sk
+
+
+def simple_band(
+    *, r: float, wrap_deg: float, anchor_run: float, arm: float, effort: str | None, units: str = "mm"
+) -> Sketch:
+    """A simple band brake: the wrap symmetric about the top of the drum,
+    its end (left, tight for a counter-clockwise drum) anchored at the
+    lever's fulcrum O, ``anchor_run`` down the band's line from the drum; the
+    start piece runs to a pin A on the lever, which runs horizontally from O
+    through A; the effort pushes down at ``arm`` from O."""
+    half = wrap_deg / 2
+    s_deg, e_deg = 90 - half, 90 + half
+    ps, pe = _tangent_point(r, s_deg), _tangent_point(r, e_deg)
+    ue_out = (-math.sin(math.radians(e_deg)), math.cos(math.radians(e_deg)))  # leaving the wrap's end
+    o = (pe[0] + anchor_run * ue_out[0], pe[1] + anchor_run * ue_out[1])
+    us_out = (math.sin(math.radians(s_deg)), -math.cos(math.radians(s_deg)))  # leaving the wrap's start
+    t = (o[1] - ps[1]) / us_out[1]
+    a_pin = (ps[0] + t * us_out[0], o[1])
+    sk = Sketch(units=units)
+    sk.drum(0, 0, r)
+    sk.pivot(*o, r / 10, label="O")
+    sk.pin(*a_pin, r / 12, label="A")
+    end = (o[0] + arm, o[1])
+    sk.link(o, end, label="lever", label_at=(o[0] + arm * 0.7, o[1] + r / 20))
+    sk.band(0, 0, r, s_deg, e_deg, a_pin, o)
+    sk.load(end[0], end[1], 0, -1, effort, length=r / 3)
+    return sk
