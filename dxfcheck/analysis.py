@@ -48,6 +48,7 @@ def analyse(
     shoe_model: ShoeModelChoice | str = ShoeModelChoice.AUTO,
     long_threshold_deg: float = LONG_SHOE_THRESHOLD_DEG,
     torque_Nm: float | None = None,
+    max_bytes: int | None = None,
 ) -> Solution:
     """Read a brake drawing, infer its mechanism and solve its statics.
 
@@ -72,6 +73,8 @@ def analyse(
         ``long_threshold_deg`` of contact).
     long_threshold_deg : float
         [degrees].
+    max_bytes : int, optional
+        Refuse larger files [bytes] (default 200 MB).
     torque_Nm : float, optional
         The inverse question: scale the drawing's loads and springs (their
         ratios kept; a load without a magnitude counts as 1 N) to give this
@@ -87,7 +90,7 @@ def analyse(
         Each carries the findings that explain it.
     """
     cfg = resolve_config(path, config)
-    drawing = read_drawing(path, cfg, units=units)
+    drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
     mech = build_mechanism(
         drawing,
         tolerance_mm=tolerance_mm,
@@ -131,6 +134,7 @@ def check(
     overrides: Sequence[tuple[str, str]] = (),
     units: str | None = None,
     tolerance_mm: float | None = None,
+    max_bytes: int | None = None,
 ) -> Judgement:
     """Solve a drawing and judge it against its spec (the release gate).
 
@@ -158,7 +162,7 @@ def check(
     from dxfcheck.spec import load_spec
 
     cfg = resolve_config(path, config)
-    drawing = read_drawing(path, cfg, units=units)
+    drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
     spec = load_spec(
         path,
         project=cfg.spec,

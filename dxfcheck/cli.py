@@ -17,13 +17,65 @@ import sys
 from collections.abc import Sequence
 from typing import Any
 
-from dxfcheck.errors import ConfigError, DxfcheckError
+from dxfcheck.errors import ConfigError, DxfcheckError, LimitError
 
 __all__ = ["EXIT_CHECK_FAILED", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
 EXIT_OK = 0
 EXIT_CHECK_FAILED = 1
 EXIT_UNUSABLE = 2
+
+#: Tests set this to see internal errors as exceptions instead of one line.
+INTERNAL_ERRORS_RAISE = False
+
+#: Time bound of one command [s]; ``--timeout`` raises it.
+DEFAULT_TIMEOUT_S = 300.0
+
+
+def _max_bytes(args: argparse.Namespace) -> int | None:
+    if not args.max_size:
+        return None
+    text = args.max_size.strip().upper().replace(" ", "")
+    factor = 1e6
+    for suffix, f in (("GB", 1e9), ("MB", 1e6), ("KB", 1e3)):
+        if text.endswith(suffix):
+            text, factor = text[: -len(suffix)], f
+            break
+    try:
+        value = float(text) * factor
+    except ValueError:
+        raise ConfigError(f"--max-size: {args.max_size!r} is not a size such as '500MB'") from None
+    if not value > 0:
+        raise ConfigError("--max-size must be positive")
+    return int(value)
+
+
+class _TimeLimit:
+    """Raise :class:`LimitError` when the command runs longer than ``seconds``
+    (POSIX alarm; elsewhere no limit)."""
+
+    def __init__(self, seconds: float) -> None:
+        self.seconds = seconds
+        self.armed = False
+
+    def __enter__(self) -> _TimeLimit:
+        import signal
+
+        if self.seconds > 0 and hasattr(signal, "SIGALRM"):
+
+            def _expired(signum: int, frame: object) -> None:
+                raise LimitError(f"took longer than {self.seconds:g} s; raise --timeout if the drawing is that big")
+
+            signal.signal(signal.SIGALRM, _expired)
+            signal.setitimer(signal.ITIMER_REAL, self.seconds)
+            self.armed = True
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        if self.armed:
+            import signal
+
+            signal.setitimer(signal.ITIMER_REAL, 0)
 
 
 class _Parser(argparse.ArgumentParser):
@@ -39,6 +91,14 @@ def _common(s: argparse.ArgumentParser) -> None:
     s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS (mm, cm, m, inch, ft)")
     s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
     s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
+    s.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
+    s.add_argument(
+        "--timeout",
+        type=float,
+        default=DEFAULT_TIMEOUT_S,
+        metavar="S",
+        help=f"give up after this many seconds (default {DEFAULT_TIMEOUT_S:g})",
+    )
 
 
 def _shoe_options(s: argparse.ArgumentParser) -> None:
@@ -171,6 +231,7 @@ def _solve(args: argparse.Namespace) -> int:
         config=cfg,
         units=args.units,
         tolerance_mm=_tolerance(args),
+        max_bytes=_max_bytes(args),
         torque_Nm=torque,
         **_shoe_kwargs(args),
     )
@@ -206,7 +267,14 @@ def _check(args: argparse.Namespace) -> int:
         if value is not None:
             overrides.append((key, value))
     cfg = resolve_config(args.drawing, args.config)
-    j = check(args.drawing, config=cfg, overrides=overrides, units=args.units, tolerance_mm=_tolerance(args))
+    j = check(
+        args.drawing,
+        config=cfg,
+        overrides=overrides,
+        units=args.units,
+        tolerance_mm=_tolerance(args),
+        max_bytes=_max_bytes(args),
+    )
     if args.annotate:
         from dxfcheck.markup import annotate
 
@@ -240,6 +308,7 @@ def _annotate(args: argparse.Namespace) -> int:
         config=cfg,
         units=args.units,
         tolerance_mm=_tolerance(args),
+        max_bytes=_max_bytes(args),
         **_shoe_kwargs(args),
     )
     written = annotate(sol, out=out, svg=args.svg, png=args.png, direction=args.direction, config=cfg, force=args.force)
@@ -255,10 +324,25 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     commands = {"solve": _solve, "check": _check, "annotate": _annotate}
     try:
-        return commands[args.command](args)
+        with _TimeLimit(args.timeout):
+            return commands[args.command](args)
     except DxfcheckError as exc:
         print_error(exc)
         return EXIT_UNUSABLE
     except KeyboardInterrupt:
         sys.stderr.write("dxfcheck: interrupted\n")
         return 130
+    except RecursionError:
+        sys.stderr.write(f"dxfcheck: {args.drawing}: error: the drawing nests too deeply to read\n")
+        return EXIT_UNUSABLE
+    except MemoryError:
+        sys.stderr.write(f"dxfcheck: {args.drawing}: error: out of memory reading the drawing; try --max-size\n")
+        return EXIT_UNUSABLE
+    except Exception as exc:  # never a traceback for the user: one line, and a request to report it
+        if INTERNAL_ERRORS_RAISE:
+            raise
+        sys.stderr.write(
+            f"dxfcheck: {args.drawing}: internal error ({type(exc).__name__}: {exc}); please report it with the "
+            "drawing\n"
+        )
+        return EXIT_UNUSABLE

@@ -52,6 +52,18 @@ PLANAR_EXTRUSION_TOL = 1e-9
 #: Largest coordinate magnitude accepted [drawing units]; beyond it a value
 #: is treated as garbage rather than geometry.
 MAX_COORDINATE = 1e12
+#: Largest input file read [bytes] unless raised (``--max-size``).
+MAX_INPUT_BYTES = 200_000_000
+#: Most entities on the skeleton layers: more means the layer map names a
+#: clutter layer (a brake skeleton has dozens).
+MAX_SKELETON_ENTITIES = 2000
+#: A recovered document with no entities from a file larger than this
+#: [bytes] is taken as damaged beyond repair.
+EMPTY_RECOVERY_BYTES = 2000
+#: At most this many repair messages are kept as findings.
+MAX_REPAIR_FINDINGS = 20
+#: First bytes of a binary DXF file.
+BINARY_SENTINEL = b"AutoCAD Binary DXF"
 
 _SKELETON_TYPES: dict[Role, set[str]] = {
     Role.PIVOT: {"CIRCLE"},
@@ -268,13 +280,22 @@ def _walk(
     depth: int,
 ) -> None:
     for e in entities:
-        dxftype = e.dxftype()
-        layer = e.dxf.get("layer", "0")
+        try:
+            dxftype = str(e.dxftype())
+            layer = str(e.dxf.get("layer", "0"))
+            handle = str(e.dxf.get("handle", "?"))
+        except Exception:  # an entity kind ezdxf keeps only as raw tags: not skeleton
+            continue
         if parent_layer is not None and layer == "0":
             layer = parent_layer
-        src = Source(handle=str(e.dxf.get("handle", "?")), layer=layer, via=via)
+        src = Source(handle=handle, layer=layer, via=via)
         if dxftype == "INSERT":
-            _walk_insert(col, doc, e, m, layer, via, depth)
+            try:
+                _walk_insert(col, doc, e, m, layer, via, depth)
+            except RecursionError:
+                raise
+            except Exception as exc:  # a damaged block reference: report it, go on
+                col.finding(Code.DEGENERATE_ENTITY, f"INSERT could not be read ({type(exc).__name__}: {exc})", src)
             continue
         role = col.roles.get(layer.upper())
         if role is None or dxftype in _IGNORED_ANYWHERE:
@@ -288,8 +309,8 @@ def _walk(
             continue
         try:
             _take(col, e, dxftype, role, m, src)
-        except (AttributeError, TypeError, ValueError) as exc:  # damaged entity data
-            col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({exc})", src)
+        except Exception as exc:  # damaged entity data of any kind: report it, go on
+            col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({type(exc).__name__}: {exc})", src)
 
 
 def _walk_insert(col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: tuple[str, ...], depth: int) -> None:
@@ -528,18 +549,61 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
     return "mm", 1.0, "default", findings
 
 
-def load_document(path: Path) -> tuple[Any, list[Finding]]:
+def _sniff(path: Path, head: bytes, tail: bytes) -> None:
+    """Refuse what is plainly not a complete DXF file, with what it looks like."""
+    spath = str(path)
+    if not head.strip():
+        raise DrawingReadError("is empty; it is not a DXF drawing", path=spath)
+    looks = {
+        b"AC10": "a DWG file; save it as DXF from the CAD program",
+        b"AC1.": "a DWG file; save it as DXF from the CAD program",
+        b"%PDF": "a PDF document, not a drawing in DXF",
+        b"PK\x03\x04": "a ZIP archive (DWFx, DOCX...), not DXF; unpack or re-export it",
+        b"\x89PNG": "a PNG image, not DXF",
+        b"\xff\xd8\xff": "a JPEG image, not DXF",
+        b"<?xml": "an XML file, not DXF",
+        b"{": "a JSON file, not DXF",
+    }
+    for magic, what in looks.items():
+        if head.startswith(magic):
+            raise DrawingReadError(f"looks like {what}", path=spath)
+    binary = head.startswith(BINARY_SENTINEL)
+    if not binary and b"\x00" in head:
+        raise DrawingReadError("is a binary file that is not DXF; export the drawing as DXF", path=spath)
+    first = head.lstrip(b"\xef\xbb\xbf").split(None, 1)[0] if not binary else b"0"
+    if not first.isdigit():
+        shown = head[:24].decode("latin-1").split("\n")[0]
+        raise DrawingReadError(
+            f"is not a DXF file: a DXF file starts with a group code, this one with {shown!r}", path=spath
+        )
+    ended = b"EOF\x00" in tail if binary else tail.rstrip().endswith(b"EOF")
+    if not ended:
+        raise DrawingReadError(
+            "ends before the DXF end-of-file marker: it is cut off or still being written; "
+            "wait for the save to finish or export it again",
+            path=spath,
+        )
+
+
+def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, list[Finding]]:
     """Open a DXF file with ezdxf, falling back to its recover mode for a
-    damaged file; returns the document and what the recovery repaired.
+    damaged file; returns the document and what the recovery repaired (as
+    findings).
+
+    Parameters
+    ----------
+    path : Path
+    max_bytes : int, optional
+        Refuse files larger than this (default :data:`MAX_INPUT_BYTES`).
 
     Raises
     ------
     DrawingReadError
-        When the file is missing, a folder, unreadable, empty, DWG or not DXF.
+        When the file is missing, a folder, unreadable, empty, too large,
+        DWG or another format, cut off, or damaged beyond repair.
     """
     from ezdxf import recover
     from ezdxf.filemanagement import readfile
-    from ezdxf.lldxf.const import DXFStructureError
 
     spath = str(path)
     if not path.exists():
@@ -547,25 +611,45 @@ def load_document(path: Path) -> tuple[Any, list[Finding]]:
     if path.is_dir():
         raise DrawingReadError("is a folder, not a drawing; name a .dxf file", path=spath)
     if not os.access(path, os.R_OK):
-        raise DrawingReadError("cannot be read (permission denied)", path=spath)
-    with open(path, "rb") as fh:
-        head = fh.read(32)
-    if not head.strip():
-        raise DrawingReadError("is empty; it is not a DXF drawing", path=spath)
-    if head.startswith(b"AC10") or head.startswith(b"AC1.") or head[:4] in (b"AC10", b"AC20"):
-        raise DrawingReadError("looks like a DWG file, not DXF; save it as DXF from the CAD program", path=spath)
+        raise DrawingReadError("cannot be read (permission denied); check the file's permissions", path=spath)
+    limit = MAX_INPUT_BYTES if max_bytes is None else max_bytes
+    size = path.stat().st_size
+    if size > limit:
+        raise DrawingReadError(
+            f"is {size / 1e6:.1f} MB, over the {limit / 1e6:.0f} MB limit; raise it with --max-size", path=spath
+        )
+    try:
+        with open(path, "rb") as fh:
+            head = fh.read(64)
+            fh.seek(max(0, size - 64))
+            tail = fh.read(64)
+    except OSError as exc:
+        raise DrawingReadError(f"cannot be read ({exc.strerror})", path=spath) from exc
+    _sniff(path, head, tail)
     findings: list[Finding] = []
     try:
         doc = readfile(spath)
-    except DXFStructureError:
+    except Exception:  # any failure of the strict parser: try the recovering one
         try:
             doc, auditor = recover.readfile(spath)
-        except (DXFStructureError, OSError, UnicodeError, ValueError) as exc:
-            raise DrawingReadError(f"is not a readable DXF drawing ({exc})", path=spath) from exc
-        for err in auditor.errors:
-            findings.append(Finding(Code.UNSUPPORTED_ENTITY, f"repaired on reading: {err.message}"))
-    except (OSError, UnicodeError, ValueError) as exc:
-        raise DrawingReadError(f"is not a readable DXF drawing ({exc})", path=spath) from exc
+        except Exception as exc:  # beyond both of ezdxf's readers
+            raise DrawingReadError(
+                f"is not a readable DXF drawing ({type(exc).__name__}: {exc}); open and re-save it in the CAD program",
+                path=spath,
+            ) from exc
+        if len(doc.modelspace()) == 0 and size > EMPTY_RECOVERY_BYTES:
+            raise DrawingReadError(
+                "is damaged beyond repair: nothing could be recovered from it; re-export the drawing", path=spath
+            ) from None
+        findings.append(
+            Finding(
+                Code.REPAIRED,
+                f"the file is damaged; ezdxf's recover mode read it ({len(auditor.errors)} "
+                f"errors, {len(auditor.fixes)} fixes): check the results against the drawing",
+            )
+        )
+        for err in list(auditor.errors)[:MAX_REPAIR_FINDINGS]:
+            findings.append(Finding(Code.REPAIRED, f"repaired on reading: {err.message}"))
     return doc, findings
 
 
@@ -574,6 +658,7 @@ def read_drawing(
     config: Config | None = None,
     *,
     units: str | None = None,
+    max_bytes: int | None = None,
 ) -> Drawing:
     """Read the skeleton geometry of a DXF drawing.
 
@@ -598,10 +683,17 @@ def read_drawing(
     """
     p = Path(path)
     config = config or Config()
-    doc, findings = load_document(p)
+    doc, findings = load_document(p, max_bytes=max_bytes)
     unit_name, factor, unit_src, unit_findings = _units(doc, units, str(p))
     col = _Collector(path=str(p), roles=config.role_of_layer())
     _walk(col, doc, doc.modelspace(), Affine.scaling(factor, factor), None, (), 0)
+    n = len(col.circles) + len(col.arcs) + len(col.paths) + len(col.texts)
+    if n > MAX_SKELETON_ENTITIES:
+        raise DrawingReadError(
+            f"has {n} entities on the skeleton layers (more than {MAX_SKELETON_ENTITIES}): the layer map probably "
+            "names a layer of outlines or hatching; check the [layers] table of dxfcheck.toml",
+            path=str(p),
+        )
     return Drawing(
         path=str(p),
         units=unit_name,

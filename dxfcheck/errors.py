@@ -19,7 +19,9 @@ __all__ = [
     "ConfigError",
     "DrawingReadError",
     "DxfcheckError",
+    "LimitError",
     "MechanismError",
+    "OutputError",
     "SolveError",
 ]
 
@@ -67,3 +69,11 @@ class MechanismError(DxfcheckError):
 
 class SolveError(DxfcheckError):
     """The mechanism was built, but its statics cannot be solved."""
+
+
+class OutputError(DxfcheckError):
+    """An output (marked-up copy, picture, report file) cannot be written."""
+
+
+class LimitError(DxfcheckError):
+    """A size or time limit was reached; an option raises it."""

@@ -43,6 +43,7 @@ class Code(enum.Enum):
     DEGENERATE_ENTITY = ("D106", Severity.WARNING, "degenerate-entity")
     CURVED_LINK = ("D107", Severity.WARNING, "curved-link")
     DUPLICATE_ENTITY = ("D108", Severity.WARNING, "duplicate-entity")
+    REPAIRED = ("D109", Severity.WARNING, "repaired")
     # --- topology ------------------------------------------------------
     NO_DRUM = ("M201", Severity.ERROR, "no-drum")
     MANY_DRUMS = ("M202", Severity.ERROR, "many-drums")

@@ -31,7 +31,7 @@ from typing import TYPE_CHECKING, Any
 
 from dxfcheck.config import Config
 from dxfcheck.contact import Direction
-from dxfcheck.errors import ConfigError
+from dxfcheck.errors import ConfigError, DxfcheckError, OutputError
 from dxfcheck.files import atomic_target
 from dxfcheck.geometry import Point
 from dxfcheck.statics import CaseSolution, Solution
@@ -520,17 +520,30 @@ def annotate(
     for t in targets:
         check_target(t, force=force, protect=(source,))
     markup = plan_markup(sol, direction, judgement)
-    doc = marked_document(sol, [markup], config)
     title = f"dxfcheck: {Path(source).name}, drum {markup.direction}"
     written: list[Path] = []
-    if out is not None:
-        with atomic_target(out, force=force, protect=(source,)) as tmp:
-            doc.saveas(tmp)
-        written.append(Path(out))
-    if svg is not None:
-        render_svg(doc, svg, [markup], title=title, config=config, force=force, protect=(source,))
-        written.append(Path(svg))
-    if png is not None:
-        render_png(doc, png, config=config, force=force, protect=(source,))
-        written.append(Path(png))
+    step = "add the forces to"
+    try:
+        doc = marked_document(sol, [markup], config)
+        if out is not None:
+            step = "write a copy of"
+            with atomic_target(out, force=force, protect=(source,)) as tmp:
+                doc.saveas(tmp)
+            written.append(Path(out))
+        if svg is not None:
+            step = "draw an SVG picture of"
+            render_svg(doc, svg, [markup], title=title, config=config, force=force, protect=(source,))
+            written.append(Path(svg))
+        if png is not None:
+            step = "draw a PNG picture of"
+            render_png(doc, png, config=config, force=force, protect=(source,))
+            written.append(Path(png))
+    except DxfcheckError:
+        raise
+    except Exception as exc:  # ezdxf cannot write this (damaged) document: say so
+        raise OutputError(
+            f"the drawing was read, but ezdxf cannot {step} it ({type(exc).__name__}: {exc}); open and re-save it "
+            "in the CAD program, then annotate again",
+            path=source,
+        ) from exc
     return written

@@ -95,6 +95,8 @@ MU_SCAN_MAX = 1.0
 MU_SCAN_STEPS = 100
 #: Bisection on the self-locking limit stops at this width [-].
 MU_TOL = 1e-12
+#: μ this close (relative) to the self-locking limit counts as at the limit.
+AT_LIMIT_RTOL = 1e-6
 #: Most re-solves while pivoted long shoes settle their contact patches.
 PATCH_ITERATIONS = 30
 #: Default shoe theory: long-shoe theory above 60° of contact.
@@ -585,8 +587,8 @@ def _diagnose(mech: Mechanism, sys_: _System, direction: Direction) -> tuple[lis
             )
         )
     elif rank == n and cond > CONDITION_WARN:
-        weak = vt[-1]
-        names = _names_in((o[1], float(weak[j])) for j, o in enumerate(sys_.col_owner))
+        weak = u[:, -1]
+        names = _names_in((name, float(weak[i])) for i, (kind, name) in enumerate(owners) if kind == "body")
         findings.append(
             Finding(
                 Code.ILL_CONDITIONED,
@@ -728,6 +730,20 @@ def solve_case(
     models, notes = contact_models(mech, options)
     sys_ = _assemble(mech, models, mu, direction)
     findings, cond = _diagnose(mech, sys_, direction)
+    if has_errors(findings) or cond > CONDITION_WARN:
+        mu_c = critical_mu(mech, direction, options)
+        if mu_c is not None and abs(mu - mu_c) <= AT_LIMIT_RTOL * max(1.0, mu_c):
+            raise SolveError(
+                f"{direction}: μ = {mu:g} is at the self-locking limit",
+                path=mech.drawing.path,
+                findings=[
+                    Finding(
+                        Code.SELF_LOCKING,
+                        f"{direction}: μ = {mu:g} is at the self-locking limit (critical μ = {mu_c:.6g}): the "
+                        "equations are singular there, any effort or none holds the brake; move away from it",
+                    )
+                ],
+            )
     if has_errors(findings):
         raise SolveError(
             f"{direction}: the linkage cannot be solved",

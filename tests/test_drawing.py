@@ -125,7 +125,9 @@ def test_input_is_never_modified(tmp_path):
         (None, "no such file"),
         (b"", "empty"),
         (b"AC1032\x00\x00binary dwg", "DWG"),
-        (b"hello, this is not a drawing\n", "not a readable DXF"),
+        (b"hello, this is not a drawing\n", "not a DXF file"),
+        (b"  0\nSECTION\n  2\nHEADER\n", "cut off or still being written"),
+        (b"%PDF-1.7 ...", "PDF"),
     ],
 )
 def test_unreadable_files(tmp_path, content, words):

@@ -1,0 +1,278 @@
+"""Bad drawings: a corpus of broken and hostile inputs made here, and a
+fuzz test that mutates the DXF tags of good drawings.  Every command must
+exit 0, 1 or 2, and on 2 say what is wrong in lines that start with
+``dxfcheck:`` -- never a traceback, never a half-written file, never a change
+to the input."""
+
+from __future__ import annotations
+
+import hashlib
+import os
+import random
+from collections import Counter
+
+import pytest
+from common import conveyor_block, winch_two_shoe
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
+
+from dxfcheck import cli
+
+#: What was tried, reported at the end of the run (see conftest.py).
+TRIED: Counter[str] = Counter()
+
+
+@pytest.fixture(autouse=True)
+def _raise_internal_errors(monkeypatch):
+    # an internal error must fail the test, not become one polite line
+    monkeypatch.setattr(cli, "INTERNAL_ERRORS_RAISE", True)
+
+
+def run(capsys, *args) -> tuple[int, str, str]:
+    rc = cli.main([str(a) for a in args])
+    out, err = capsys.readouterr()
+    assert rc in (0, 1, 2), (rc, err)
+    assert "Traceback" not in err
+    if rc == 2:
+        lines = err.strip().splitlines()
+        assert lines and all(line.startswith(("dxfcheck:", "usage:")) for line in lines), err
+    return rc, out, err
+
+
+@pytest.fixture(scope="module")
+def good(tmp_path_factory):
+    folder = tmp_path_factory.mktemp("good")
+    conveyor_block().save(folder / "conveyor.dxf")
+    winch_two_shoe().save(folder / "winch.dxf")
+    return folder
+
+
+COMMANDS = [("solve", "--json"), ("check", "--json")]
+
+
+def _all_commands(capsys, path, tmp_path):
+    before = hashlib.sha256(path.read_bytes()).hexdigest() if path.is_file() else None
+    codes = []
+    for cmd in COMMANDS:
+        codes.append(run(capsys, cmd[0], path, *cmd[1:])[0])
+    out = tmp_path / "marked.dxf"
+    rc, _, _ = run(capsys, "annotate", path, "-o", out, "--force")
+    codes.append(rc)
+    if rc != 0:
+        assert not out.exists()
+    assert not [p for p in tmp_path.iterdir() if p.name.endswith(".tmp")]  # no half-written files
+    if before is not None:
+        assert hashlib.sha256(path.read_bytes()).hexdigest() == before
+    return codes
+
+
+def test_truncations(capsys, good, tmp_path):
+    """A file cut at 25 places (still being written, or cut off in transfer)."""
+    data = (good / "conveyor.dxf").read_bytes()
+    for k in range(1, 26):
+        cut = tmp_path / f"cut{k}.dxf"
+        cut.write_bytes(data[: len(data) * k // 26])
+        rc, _, err = run(capsys, "solve", cut)
+        TRIED["truncation"] += 1
+        assert rc == 2 and ("cut off" in err or "empty" in err or "not a DXF" in err), err
+
+
+def test_byte_flips(capsys, good, tmp_path):
+    """40 files with one byte changed at a random (seeded) place."""
+    rng = random.Random(1729)
+    data = bytearray((good / "winch.dxf").read_bytes())
+    outcomes = Counter()
+    for k in range(40):
+        flipped = bytearray(data)
+        pos = rng.randrange(len(flipped) - 8)
+        flipped[pos] = rng.choice(b"0123456789.-eE \n\x00\xff:AZ")
+        path = tmp_path / f"flip{k}.dxf"
+        path.write_bytes(bytes(flipped))
+        outcomes[run(capsys, "solve", path, "--json")[0]] += 1
+        TRIED["byte flip"] += 1
+    assert sum(outcomes.values()) == 40
+
+
+def test_binary_and_r12_versions_solve_alike(capsys, good, tmp_path):
+    import json
+
+    import ezdxf
+
+    doc = ezdxf.readfile(good / "winch.dxf")
+    doc.saveas(tmp_path / "winch-bin.dxf", fmt="bin")
+    winch_two_shoe().save(tmp_path / "winch-r12.dxf", dxfversion="R12")
+    results = []
+    for name in ("winch-bin.dxf", "winch-r12.dxf"):
+        rc, out, _ = run(capsys, "solve", tmp_path / name, "--json", "--units", "mm")
+        assert rc == 0
+        results.append(json.loads(out)["cases"][0]["torque_Nm"])
+        TRIED["binary/R12"] += 1
+    rc, out, _ = run(capsys, "solve", good / "winch.dxf", "--json")
+    assert results == [pytest.approx(json.loads(out)["cases"][0]["torque_Nm"], rel=1e-12)] * 2
+
+
+@pytest.mark.parametrize(
+    ("version", "codepage", "label"),
+    [("R2000", "ANSI_1252", "Hebel Ø 30"), ("R2010", None, "Bremshebel ü ✓"), ("R12", "ANSI_1252", "Hébel")],
+)
+def test_encodings(capsys, tmp_path, version, codepage, label):
+    sk = conveyor_block()
+    sk.label(label, 300, 240)
+    doc = sk.to_doc(dxfversion=version)
+    if codepage:
+        doc.header["$DWGCODEPAGE"] = codepage
+    path = tmp_path / "enc.dxf"
+    doc.saveas(path)
+    rc, _, _ = run(capsys, "solve", path, "--json", "--units", "mm")
+    assert rc == 0
+    TRIED["encoding"] += 1
+
+
+def test_mixed_encoding_bytes(capsys, good, tmp_path):
+    """Invalid UTF-8 inside an R2010 (UTF-8) file's text."""
+    data = (good / "conveyor.dxf").read_bytes().replace(b"420 N", b"420 N \xe9\xff")
+    path = tmp_path / "mixed.dxf"
+    path.write_bytes(data)
+    rc, _, _ = run(capsys, "solve", path, "--json")
+    assert rc in (0, 2)
+    TRIED["encoding"] += 1
+
+
+@pytest.mark.parametrize("value", ["nan", "inf", "-inf", "1e300", "1e12345"])
+def test_non_finite_and_huge_coordinates(capsys, good, tmp_path, value):
+    """The lever's end x coordinate replaced: a finding naming the entity
+    or a clean error, never a number made up."""
+    text = (good / "conveyor.dxf").read_text()
+    lines = text.splitlines()
+    idx = lines.index("LINK", lines.index("LINE"))  # first LINE on LINK
+    j = next(i for i in range(idx, len(lines)) if lines[i].strip() == "11")
+    lines[j + 1] = value
+    path = tmp_path / "bad.dxf"
+    path.write_text("\n".join(lines) + "\n")
+    rc, _, err = run(capsys, "solve", path, "--json")
+    TRIED["non-finite"] += 1
+    assert rc == 2
+    assert "D105" in err or "M2" in err or "S30" in err or "not a readable" in err
+
+
+def test_size_limit(capsys, good, tmp_path):
+    """A drawing with 3 MB of clutter on another layer solves; with a 1 MB
+    limit it is refused with the option to raise it."""
+    import ezdxf
+
+    doc = ezdxf.readfile(good / "conveyor.dxf")
+    msp = doc.modelspace()
+    for k in range(30000):
+        msp.add_line((k, 1000), (k + 1, 1001), dxfattribs={"layer": "HATCH-CLUTTER"})
+    path = tmp_path / "big.dxf"
+    doc.saveas(path)
+    assert path.stat().st_size > 2_000_000
+    assert run(capsys, "solve", path, "--json")[0] == 0
+    rc, _, err = run(capsys, "solve", path, "--max-size", "1MB")
+    assert rc == 2 and "--max-size" in err
+    TRIED["size limit"] += 2
+
+
+def test_too_many_skeleton_entities(capsys, good, tmp_path):
+    import ezdxf
+
+    doc = ezdxf.readfile(good / "conveyor.dxf")
+    for k in range(2500):
+        doc.modelspace().add_line((k, -500), (k + 0.5, -500), dxfattribs={"layer": "LINK"})
+    path = tmp_path / "wrongmap.dxf"
+    doc.saveas(path)
+    rc, _, err = run(capsys, "solve", path)
+    assert rc == 2 and "layer map" in err
+    TRIED["wrong layer map"] += 1
+
+
+def test_time_limit(capsys, good):
+    rc, _, err = run(capsys, "solve", good / "winch.dxf", "--timeout", "0.000001")
+    assert rc == 2 and "--timeout" in err
+    TRIED["time limit"] += 1
+
+
+def test_not_dxf_at_all(capsys, tmp_path):
+    cases = {
+        "missing.dxf": None,
+        "empty.dxf": b"",
+        "drawing.dwg.dxf": b"AC1032\x00\x00\x00\x00garbage",
+        "doc.pdf.dxf": b"%PDF-1.7\n...",
+        "image.dxf": b"\x89PNG\r\n\x1a\n....",
+        "words.dxf": b"this is a letter, not a drawing\n",
+    }
+    for name, data in cases.items():
+        path = tmp_path / name
+        if data is not None:
+            path.write_bytes(data)
+        rc, _, err = run(capsys, "solve", path)
+        assert rc == 2 and str(path) in err
+        TRIED["not DXF"] += 1
+    rc, _, err = run(capsys, "solve", tmp_path)
+    assert rc == 2 and "folder" in err
+
+
+@pytest.mark.skipif(os.geteuid() == 0, reason="root reads files whatever their permissions")
+def test_unreadable_permissions(capsys, good, tmp_path):  # pragma: no cover - not run as root
+    path = tmp_path / "locked.dxf"
+    path.write_bytes((good / "conveyor.dxf").read_bytes())
+    path.chmod(0)
+    rc, _, err = run(capsys, "solve", path)
+    assert rc == 2 and "permission" in err
+
+
+def test_commands_on_every_demo_like_corpus(capsys, good, tmp_path):
+    """Every command on a few damaged files: exit codes and no half files."""
+    data = (good / "winch.dxf").read_bytes()
+    for k, cut in enumerate((len(data) // 3, len(data) // 2, len(data) - 40)):
+        path = tmp_path / f"c{k}.dxf"
+        path.write_bytes(data[:cut])
+        assert set(_all_commands(capsys, path, tmp_path)) == {2}
+        TRIED["all commands"] += 1
+    assert set(_all_commands(capsys, good / "winch.dxf", tmp_path)) <= {0, 1}
+
+
+# --- fuzzing the tags --------------------------------------------------------------
+
+
+def _pairs(path):
+    lines = path.read_text().splitlines()
+    return [(lines[i], lines[i + 1]) for i in range(0, len(lines) - 1, 2)]
+
+
+mutation = st.tuples(
+    st.sampled_from(["delete", "duplicate", "value", "code", "swap"]),
+    st.floats(min_value=0, max_value=1, allow_nan=False),
+    st.one_of(
+        st.sampled_from(["nan", "inf", "-1e308", "0", "-0", "1e20", "", "LINK", "PIN", "SHOE", "ARC", "EOF", "x"]),
+        st.integers(-(10**9), 10**9).map(str),
+        st.floats(allow_nan=True, allow_infinity=True).map(repr),
+        st.text(alphabet="0123456789.-eE \tÿ", max_size=8),
+    ),
+)
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@given(ops=st.lists(mutation, min_size=1, max_size=4), which=st.sampled_from(["conveyor.dxf", "winch.dxf"]))
+def test_fuzz_tags(capsys, good, tmp_path, ops, which):
+    """Mutations of the DXF tag stream of good drawings (delete, duplicate,
+    change a value or a group code, swap neighbours): every command exits 0,
+    1 or 2 with one-line messages, no traceback."""
+    pairs = _pairs(good / which)
+    for kind, where, value in ops:
+        i = min(int(where * len(pairs)), len(pairs) - 2)
+        if kind == "delete":
+            del pairs[i]
+        elif kind == "duplicate":
+            pairs.insert(i, pairs[i])
+        elif kind == "value":
+            pairs[i] = (pairs[i][0], value)
+        elif kind == "code":
+            pairs[i] = (value or "0", pairs[i][1])
+        else:
+            pairs[i], pairs[i + 1] = pairs[i + 1], pairs[i]
+    path = tmp_path / "fuzz.dxf"
+    path.write_text("\n".join(f"{c}\n{v}" for c, v in pairs) + "\n", errors="surrogateescape")
+    for cmd in COMMANDS:
+        rc, _, _ = run(capsys, cmd[0], path, *cmd[1:])
+        TRIED[f"fuzz {cmd[0]} exit {rc}"] += 1
