@@ -13,6 +13,7 @@ through :mod:`dxfcheck.report`.  Exit codes:
 from __future__ import annotations
 
 import argparse
+import itertools
 import sys
 from collections.abc import Sequence
 from typing import Any
@@ -164,6 +165,20 @@ def _parser() -> argparse.ArgumentParser:
     a.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     a.add_argument("--force", action="store_true", help="replace existing output files")
     _shoe_options(a)
+
+    m = sub.add_parser("compare", help="compare revisions of a drawing: what the change did to the loads")
+    m.add_argument("drawings", nargs="+", help="OLD.dxf NEW.dxf [MORE.dxf ...] or a folder (sorted by name)")
+    m.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
+    m.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS")
+    m.add_argument("--max-torque-drop", default=None, metavar="PCT", help="fail when torque drops more, e.g. 2%%")
+    m.add_argument("--max-force-rise", default=None, metavar="PCT", help="fail when a force rises more, e.g. 5%%")
+    m.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every revision")
+    m.add_argument("--annotate", default=None, metavar="OUT.dxf", help="mark moved pins and grown forces on NEW")
+    m.add_argument("--svg", default=None, metavar="OUT.svg", help="plot the trend across revisions")
+    m.add_argument("--force", action="store_true", help="replace existing output files")
+    m.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
+    m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
+    m.add_argument("--timeout", type=float, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
     return p
 
 
@@ -317,12 +332,108 @@ def _annotate(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _subject(args: argparse.Namespace) -> str:
+    return str(getattr(args, "drawing", None) or " ".join(getattr(args, "drawings", [])))
+
+
+def _fraction(text: str | None, what: str) -> float | None:
+    if text is None:
+        return None
+    t = text.strip()
+    try:
+        value = float(t[:-1]) / 100 if t.endswith("%") else float(t)
+    except ValueError:
+        raise ConfigError(f"{what}: {text!r} is not a fraction or a percentage such as 2%") from None
+    if not value >= 0:
+        raise ConfigError(f"{what} must not be negative")
+    return value
+
+
+def _revisions(items: Sequence[str]) -> list[str]:
+    from pathlib import Path
+
+    out: list[str] = []
+    for item in items:
+        p = Path(item)
+        if p.is_dir():
+            out += sorted(str(x) for x in p.glob("*.dxf") if not x.stem.endswith("-forces"))
+        else:
+            out.append(item)
+    return out
+
+
+def _compare(args: argparse.Namespace) -> int:
+    from dxfcheck.analysis import check, resolve_config
+    from dxfcheck.compare import Thresholds, compare_judgements, history_svg
+    from dxfcheck.files import check_target, write_atomic
+    from dxfcheck.report import comparisons_to_dict, print_comparisons, write_json
+    from dxfcheck.spec import parse_assignment
+
+    names = _revisions(args.drawings)
+    if len(names) < 2:
+        raise ConfigError("compare needs at least two drawings (or a folder holding them)")
+    for target in (args.annotate, args.svg):
+        if target:
+            check_target(target, force=args.force, protect=tuple(names))
+    overrides = [parse_assignment(s) for s in args.set]
+    judgements = []
+    for name in names:
+        cfg = resolve_config(name, args.config)
+        judgements.append(check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args)))
+    spec = judgements[-1].spec
+    drop = _fraction(args.max_torque_drop, "--max-torque-drop")
+    rise = _fraction(args.max_force_rise, "--max-force-rise")
+    thresholds = Thresholds(
+        drop if drop is not None else spec.num("max_torque_drop"),
+        rise if rise is not None else spec.num("max_force_rise"),
+    )
+    comps = [compare_judgements(a, b, thresholds) for a, b in itertools.pairwise(judgements)]
+    if args.annotate:
+        _mark_revision(comps[-1], args.annotate, resolve_config(names[-1], args.config), args.force)
+    if args.svg:
+        trend = comparisons_to_dict(comps, names)["trend"]
+        series = {k: [row[k] for row in trend] for k in trend[0] if k.startswith("torque_")}
+        labels = [__import__("pathlib").Path(n).stem for n in names]
+        write_atomic(args.svg, history_svg(labels, series, "N·m"), force=args.force, protect=tuple(names))
+    if args.json:
+        write_json(comparisons_to_dict(comps, names))
+    else:
+        print_comparisons(comps)
+    return EXIT_CHECK_FAILED if any(c.failed for c in comps) else EXIT_OK
+
+
+def _mark_revision(comp: Any, out: str, cfg: Any, force: bool) -> None:
+    """The NEW drawing marked up, plus a ring and a note at every pin that
+    moved and every force that grew beyond the threshold."""
+    from dxfcheck.files import atomic_target
+    from dxfcheck.markup import marked_document, plan_markup
+
+    sol = comp.new.nominal
+    mech = sol.mechanism
+    doc = marked_document(sol, [plan_markup(sol)], cfg)
+    k = 1.0 / mech.drawing.mm_per_unit
+    h = 0.03 * (2 * mech.drum.radius_mm if mech.drum else mech.length_scale_mm / 4)
+    msp = doc.modelspace()
+    for c in comp.changes:
+        if c.kind not in ("moved", "pin") or (c.kind == "pin" and not c.crossed):
+            continue
+        pin = next((p for p in mech.pins if p.name == c.name), None)
+        if pin is None:
+            continue
+        x, y = pin.center
+        text = c.note if c.kind == "moved" else f"{c.name} {c.direction}: force {100 * (c.rel_change or 0):+.1f}%"
+        msp.add_circle((x * k, y * k), 1.5 * pin.diameter_mm * k, dxfattribs={"layer": cfg.note_layer})
+        msp.add_text(text, height=h * k, dxfattribs={"layer": cfg.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)})
+    with atomic_target(out, force=force, protect=(mech.drawing.path, comp.old.mechanism.drawing.path)) as tmp:
+        doc.saveas(tmp)
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     from dxfcheck.report import print_error
 
     args = _parser().parse_args(argv)
-    commands = {"solve": _solve, "check": _check, "annotate": _annotate}
+    commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare}
     try:
         with _TimeLimit(args.timeout):
             return commands[args.command](args)
@@ -333,16 +444,16 @@ def main(argv: Sequence[str] | None = None) -> int:
         sys.stderr.write("dxfcheck: interrupted\n")
         return 130
     except RecursionError:
-        sys.stderr.write(f"dxfcheck: {args.drawing}: error: the drawing nests too deeply to read\n")
+        sys.stderr.write(f"dxfcheck: {_subject(args)}: error: the drawing nests too deeply to read\n")
         return EXIT_UNUSABLE
     except MemoryError:
-        sys.stderr.write(f"dxfcheck: {args.drawing}: error: out of memory reading the drawing; try --max-size\n")
+        sys.stderr.write(f"dxfcheck: {_subject(args)}: error: out of memory reading the drawing; try --max-size\n")
         return EXIT_UNUSABLE
     except Exception as exc:  # never a traceback for the user: one line, and a request to report it
         if INTERNAL_ERRORS_RAISE:
             raise
         sys.stderr.write(
-            f"dxfcheck: {args.drawing}: internal error ({type(exc).__name__}: {exc}); please report it with the "
+            f"dxfcheck: {_subject(args)}: internal error ({type(exc).__name__}: {exc}); please report it with the "
             "drawing\n"
         )
         return EXIT_UNUSABLE

@@ -304,6 +304,7 @@ class Mechanism:
     findings: tuple[Finding, ...] = field(default=())
     springs: tuple[Spring, ...] = field(default=())
     bands: tuple[Band, ...] = field(default=())
+    labelled_names: frozenset[str] = field(default=frozenset())
 
     @property
     def family(self) -> str:
@@ -769,6 +770,7 @@ def build_mechanism(
         findings=tuple(findings),
         springs=tuple(springs),
         bands=tuple(bands),
+        labelled_names=frozenset(t.text for _, t in named.values()),
     )
 
 

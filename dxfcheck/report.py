@@ -7,6 +7,7 @@ terminal report is drawn, so that ``--json`` runs stay light.
 from __future__ import annotations
 
 import json
+import math
 import sys
 from typing import IO, Any
 
@@ -18,9 +19,12 @@ from dxfcheck.statics import CaseSolution, Solution
 __all__ = [
     "CAUTION",
     "CHECK_SCHEMA",
+    "COMPARE_SCHEMA",
     "SOLVE_SCHEMA",
+    "comparisons_to_dict",
     "judgement_to_dict",
     "junit_xml",
+    "print_comparisons",
     "print_error",
     "print_judgement",
     "print_solution",
@@ -464,3 +468,107 @@ def junit_xml(j: Judgement, *, strict: bool = False) -> str:
             ET.SubElement(case, "system-out").text = f"{r.verdict}: {text}"
     ET.SubElement(suite, "system-out").text = CAUTION
     return '<?xml version="1.0" encoding="UTF-8"?>\n' + ET.tostring(suites, encoding="unicode") + "\n"
+
+
+#: Versioned name of the ``compare --json`` document.
+COMPARE_SCHEMA = "dxfcheck.compare/1"
+
+
+def comparisons_to_dict(comps: list[Any], names: list[str]) -> dict[str, Any]:
+    """The ``dxfcheck.compare/1`` JSON document."""
+    from dxfcheck.compare import change_to_dict
+
+    return {
+        "schema": COMPARE_SCHEMA,
+        "drawings": names,
+        "failed": any(c.failed for c in comps),
+        "steps": [
+            {
+                "old": c.old.mechanism.drawing.path,
+                "new": c.new.mechanism.drawing.path,
+                "rigid_motion": {
+                    "a": c.motion.a,
+                    "b": c.motion.b,
+                    "c": c.motion.c,
+                    "d": c.motion.d,
+                    "e": c.motion.e,
+                    "f": c.motion.f,
+                    "found_from": c.motion_source,
+                },
+                "pin_map": c.pin_map,
+                "failed": c.failed,
+                "changes": [change_to_dict(x) for x in c.changes],
+            }
+            for c in comps
+        ],
+        "trend": _trend(comps),
+        "caution": CAUTION,
+    }
+
+
+def _trend(comps: list[Any]) -> list[dict[str, Any]]:
+    if not comps:
+        return []
+    judgements = [comps[0].old] + [c.new for c in comps]
+    out = []
+    for j in judgements:
+        row: dict[str, Any] = {"drawing": j.mechanism.drawing.path, "verdict": str(j.verdict)}
+        for c in j.nominal.cases:
+            row[f"torque_{c.direction}_Nm"] = c.torque_Nm
+            row[f"max_pin_force_{c.direction}_N"] = max((p.max_force_N for p in c.pins), default=0.0)
+        out.append(row)
+    return out
+
+
+def _cell(v: object) -> str:
+    if isinstance(v, float):
+        return f"{v:.5g}"
+    return "-" if v is None else str(v)
+
+
+def print_comparisons(comps: list[Any], out: IO[str] | None = None) -> None:
+    """The terminal report of ``dxfcheck compare``."""
+    from rich.table import Table
+
+    console = _console(out)
+    failed = any(c.failed for c in comps)
+    console.print(
+        f"[{'bold red' if failed else 'bold green'}]{'FAIL' if failed else 'OK'}[/]  "
+        f"{len(comps)} revision step{'s' if len(comps) != 1 else ''}"
+        + (": a threshold is crossed or a verdict went from pass to fail" if failed else "")
+    )
+    for c in comps:
+        console.print()
+        console.print(f"[bold]{c.old.mechanism.drawing.path}[/] -> [bold]{c.new.mechanism.drawing.path}[/]")
+        console.print(f"rigid motion found from {c.motion_source}; {len(c.pin_map)} pins matched")
+        t = Table(title="changes (threshold crossings and verdict changes first)", title_justify="left")
+        for col in ("flag", "what", "name", "dir", "old", "new", "change", "rel"):
+            t.add_column(col, justify="right" if col in ("old", "new", "change", "rel") else "left")
+        for x in c.changes:
+            rel = (
+                "-"
+                if x.rel_change is None
+                else ("∞" if not math.isfinite(x.rel_change) else f"{100 * x.rel_change:+.2f}%")
+            )
+            t.add_row(
+                "CROSSED" if x.crossed else "",
+                x.kind,
+                x.name,
+                x.direction,
+                _cell(x.old),
+                _cell(x.new),
+                "-" if x.abs_change is None else f"{x.abs_change:+.5g} {x.unit}",
+                rel,
+            )
+        console.print(t)
+    trend = _trend(comps)
+    if len(trend) > 2:
+        tt = Table(title="trend", title_justify="left")
+        cols = list(trend[0])
+        for col in cols:
+            tt.add_column(col)
+        for row in trend:
+            tt.add_row(*[f"{row[k]:.5g}" if isinstance(row[k], float) else str(row[k]) for k in cols])
+        console.print(tt)
+    console.print()
+    console.print(CAUTION)

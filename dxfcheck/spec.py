@@ -107,6 +107,9 @@ KEYS: dict[str, Key] = {
     # shoe theory
     "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
     "long_shoe_threshold": Key(Kind.NUMBER, "contact angle above which auto takes long theory [degrees]", minimum=0.0),
+    # revision compare
+    "max_torque_drop": Key(Kind.NUMBER, "compare: fail when torque drops by more than this fraction", minimum=0.0),
+    "max_force_rise": Key(Kind.NUMBER, "compare: fail when a force rises by more than this fraction", minimum=0.0),
     # report
     "torque_asymmetry_max": Key(Kind.NUMBER, "warn above this relative torque difference between directions"),
 }
