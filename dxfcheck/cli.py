@@ -179,6 +179,17 @@ def _parser() -> argparse.ArgumentParser:
     m.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
     m.add_argument("--timeout", type=float, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
+
+    b = sub.add_parser("batch", help="check every drawing in folders or globs, in parallel, with a cache")
+    b.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
+    b.add_argument("--jobs", type=int, default=None, help="worker processes (default: the CPU count)")
+    b.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
+    b.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    b.add_argument("--no-cache", action="store_true", help="check every drawing again")
+    b.add_argument("--cache-dir", default=None, help="cache folder (default ~/.cache/dxfcheck)")
+    b.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
+    b.add_argument("--csv", action="store_true", help="print the per-drawing results as CSV")
+    b.add_argument("--timeout", type=float, default=0.0, metavar="S", help="give up after S seconds (default: none)")
     return p
 
 
@@ -333,7 +344,8 @@ def _annotate(args: argparse.Namespace) -> int:
 
 
 def _subject(args: argparse.Namespace) -> str:
-    return str(getattr(args, "drawing", None) or " ".join(getattr(args, "drawings", [])))
+    many = getattr(args, "drawings", None) or getattr(args, "paths", None) or []
+    return str(getattr(args, "drawing", None) or " ".join(many))
 
 
 def _fraction(text: str | None, what: str) -> float | None:
@@ -428,12 +440,50 @@ def _mark_revision(comp: Any, out: str, cfg: Any, force: bool) -> None:
         doc.saveas(tmp)
 
 
+def _batch(args: argparse.Namespace) -> int:
+    from dxfcheck.batch import discover, results_csv, results_json, run_batch
+    from dxfcheck.report import print_batch, write_json
+    from dxfcheck.spec import parse_assignment
+
+    overrides = [parse_assignment(s) for s in args.set]
+    paths = discover(args.paths)
+    if not paths:
+        raise ConfigError(f"no drawings found in {' '.join(args.paths)}")
+    if args.jobs is not None and args.jobs < 1:
+        raise ConfigError("--jobs must be at least 1")
+    quiet = args.json or args.csv
+    from dxfcheck.report import batch_progress
+
+    with batch_progress(len(paths), enabled=not quiet) as on_result:
+        result = run_batch(
+            paths,
+            jobs=args.jobs,
+            config=args.config,
+            overrides=overrides,
+            use_cache=not args.no_cache,
+            cache_dir=args.cache_dir,
+            on_result=on_result,
+        )
+    if args.json:
+        write_json(results_json(result))
+    elif args.csv:
+        sys.stdout.write(results_csv(result))
+    else:
+        print_batch(result)
+    counts = result.counts()
+    if result.interrupted:
+        return 130
+    if counts["error"]:
+        return EXIT_UNUSABLE
+    return EXIT_CHECK_FAILED if counts["fail"] else EXIT_OK
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code."""
     from dxfcheck.report import print_error
 
     args = _parser().parse_args(argv)
-    commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare}
+    commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare, "batch": _batch}
     try:
         with _TimeLimit(args.timeout):
             return commands[args.command](args)

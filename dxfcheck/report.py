@@ -6,9 +6,12 @@ terminal report is drawn, so that ``--json`` runs stay light.
 
 from __future__ import annotations
 
+import contextlib
 import json
 import math
 import sys
+import time
+from collections.abc import Callable, Iterator
 from typing import IO, Any
 
 from dxfcheck.errors import DxfcheckError
@@ -21,9 +24,11 @@ __all__ = [
     "CHECK_SCHEMA",
     "COMPARE_SCHEMA",
     "SOLVE_SCHEMA",
+    "batch_progress",
     "comparisons_to_dict",
     "judgement_to_dict",
     "junit_xml",
+    "print_batch",
     "print_comparisons",
     "print_error",
     "print_judgement",
@@ -571,4 +576,65 @@ def print_comparisons(comps: list[Any], out: IO[str] | None = None) -> None:
             tt.add_row(*[f"{row[k]:.5g}" if isinstance(row[k], float) else str(row[k]) for k in cols])
         console.print(tt)
     console.print()
+    console.print(CAUTION)
+
+
+@contextlib.contextmanager
+def batch_progress(total: int, *, enabled: bool = True) -> Iterator[Callable[[Any], None]]:
+    """A rich progress bar on stderr for a batch: drawings done, failures so
+    far, rate and time left.  Yields the per-result callback."""
+    if not enabled:
+        yield lambda _r: None
+        return
+    from rich.console import Console
+    from rich.progress import BarColumn, MofNCompleteColumn, Progress, TextColumn, TimeRemainingColumn
+
+    failures = {"n": 0}
+    started = time.perf_counter()
+    with Progress(
+        TextColumn("checking"),
+        BarColumn(),
+        MofNCompleteColumn(),
+        TextColumn("{task.fields[failures]} failed"),
+        TextColumn("{task.fields[rate]}"),
+        TimeRemainingColumn(),
+        console=Console(file=sys.stderr),
+        transient=False,
+    ) as progress:
+        task = progress.add_task("batch", total=total, failures=0, rate="")
+
+        def on_result(r: Any) -> None:
+            if r.status in ("fail", "error"):
+                failures["n"] += 1
+            done = progress.tasks[0].completed + 1
+            rate = done / max(time.perf_counter() - started, 1e-9)
+            progress.update(task, advance=1, failures=failures["n"], rate=f"{rate:.1f}/s")
+
+        yield on_result
+
+
+def print_batch(batch: Any, out: IO[str] | None = None) -> None:
+    """The summary table of ``dxfcheck batch``."""
+    from rich.table import Table
+
+    console = _console(out)
+    counts = batch.counts()
+    worst = "error" if counts["error"] else "fail" if counts["fail"] else "warn" if counts["warn"] else "pass"
+    console.print(
+        f"{worst.upper()}  {len(batch.results)} drawings: {counts['pass']} passed, {counts['warn']} warnings, "
+        f"{counts['fail']} failed, {counts['error']} unusable" + (" (interrupted)" if batch.interrupted else "")
+    )
+    t = Table(title="drawings", title_justify="left")
+    for col in ("status", "drawing", "torque cw N·m", "torque ccw N·m", "failed rules / error", "s"):
+        t.add_column(col, justify="right" if col in ("torque cw N·m", "torque ccw N·m", "s") else "left")
+    for r in batch.results:
+        t.add_row(
+            r.status,
+            r.drawing,
+            "-" if r.torque_cw_Nm is None else f"{r.torque_cw_Nm:.1f}",
+            "-" if r.torque_ccw_Nm is None else f"{r.torque_ccw_Nm:.1f}",
+            r.message if r.status == "error" else ", ".join(r.failed_rules),
+            "cached" if r.cached else f"{r.seconds:.2f}",
+        )
+    console.print(t)
     console.print(CAUTION)

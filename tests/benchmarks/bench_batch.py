@@ -1,0 +1,57 @@
+"""Batch scaling benchmark (run on demand):
+
+    python tests/benchmarks/bench_batch.py [N]
+
+Writes N drawings (copies of the demos, each moved so that no two files are
+alike), then checks them all with 1 and with 2 worker processes, without the
+cache, in one run; prints both times and the speed-up (2.0 would be linear
+on two cores).  Then reruns with the cache and prints that time too.
+"""
+
+from __future__ import annotations
+
+import sys
+import tempfile
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[2]
+sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(ROOT / "drawings"))
+
+from build import capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
+
+from dxfcheck.batch import discover, run_batch  # noqa: E402
+from dxfcheck.geometry import Affine  # noqa: E402
+
+
+def main() -> None:
+    n = int(sys.argv[1]) if len(sys.argv) > 1 else 48
+    with tempfile.TemporaryDirectory() as tmp:
+        folder = Path(tmp) / "vault"
+        folder.mkdir()
+        makers = (winch_two_shoe, conveyor_block, capstan_band)
+        for k in range(n):
+            makers[k % 3]().save(folder / f"d{k:04d}.dxf", transform=Affine.translation(17.0 * k, -3.0 * k))
+        paths = discover([str(folder)])
+        run_batch(paths[:3], jobs=1, use_cache=False)  # warm the imports of the main process
+        times = {}
+        for jobs in (1, 2):
+            t0 = time.perf_counter()
+            result = run_batch(paths, jobs=jobs, use_cache=False)
+            times[jobs] = time.perf_counter() - t0
+            assert len(result.results) == n
+        cache = str(Path(tmp) / "cache")
+        run_batch(paths, jobs=2, cache_dir=cache)
+        t0 = time.perf_counter()
+        run_batch(paths, jobs=2, cache_dir=cache)
+        cached = time.perf_counter() - t0
+    print(f"{n} drawings, no cache:")
+    print(f"  1 worker : {times[1]:7.2f} s ({n / times[1]:.1f} drawings/s)")
+    print(f"  2 workers: {times[2]:7.2f} s ({n / times[2]:.1f} drawings/s)")
+    print(f"  speed-up : {times[1] / times[2]:7.2f}x (2.0 would be linear)")
+    print(f"  rerun from the cache: {cached:.2f} s ({times[2] / cached:.1f}x faster than checking)")
+
+
+if __name__ == "__main__":
+    main()
