@@ -54,6 +54,9 @@ PLANAR_EXTRUSION_TOL = 1e-9
 MAX_COORDINATE = 1e12
 #: Largest input file read [bytes] unless raised (``--max-size``).
 MAX_INPUT_BYTES = 200_000_000
+#: Files this large [bytes] and larger go through the fast reader
+#: (:mod:`dxfcheck.fastread`) unless asked otherwise.
+FAST_READER_MIN_BYTES = 2_000_000
 #: Most entities on the skeleton layers: more means the layer map names a
 #: clutter layer (a brake skeleton has dozens).
 MAX_SKELETON_ENTITIES = 2000
@@ -585,26 +588,14 @@ def _sniff(path: Path, head: bytes, tail: bytes) -> None:
         )
 
 
-def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, list[Finding]]:
-    """Open a DXF file with ezdxf, falling back to its recover mode for a
-    damaged file; returns the document and what the recovery repaired (as
-    findings).
-
-    Parameters
-    ----------
-    path : Path
-    max_bytes : int, optional
-        Refuse files larger than this (default :data:`MAX_INPUT_BYTES`).
+def precheck(path: Path, max_bytes: int | None = None) -> int:
+    """Refuse a missing, unreadable, over-large, cut-off or non-DXF file with
+    one clear message; returns its size [bytes].
 
     Raises
     ------
     DrawingReadError
-        When the file is missing, a folder, unreadable, empty, too large,
-        DWG or another format, cut off, or damaged beyond repair.
     """
-    from ezdxf import recover
-    from ezdxf.filemanagement import readfile
-
     spath = str(path)
     if not path.exists():
         raise DrawingReadError("no such file; check the path", path=spath)
@@ -626,6 +617,31 @@ def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, lis
     except OSError as exc:
         raise DrawingReadError(f"cannot be read ({exc.strerror})", path=spath) from exc
     _sniff(path, head, tail)
+    return size
+
+
+def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, list[Finding]]:
+    """Open a DXF file with ezdxf, falling back to its recover mode for a
+    damaged file; returns the document and what the recovery repaired (as
+    findings).
+
+    Parameters
+    ----------
+    path : Path
+    max_bytes : int, optional
+        Refuse files larger than this (default :data:`MAX_INPUT_BYTES`).
+
+    Raises
+    ------
+    DrawingReadError
+        When the file is missing, a folder, unreadable, empty, too large,
+        DWG or another format, cut off, or damaged beyond repair.
+    """
+    from ezdxf import recover
+    from ezdxf.filemanagement import readfile
+
+    spath = str(path)
+    size = precheck(path, max_bytes)
     findings: list[Finding] = []
     try:
         doc = readfile(spath)
@@ -653,12 +669,31 @@ def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, lis
     return doc, findings
 
 
+def _open(path: Path, config: Config, max_bytes: int | None, reader: str) -> tuple[Any, list[Finding]]:
+    """The full reader, or the fast one for big ASCII files (``reader``:
+    ``auto``, ``fast`` or ``full``); the fast one falls back to the full one
+    on anything it does not follow."""
+    if reader not in ("auto", "fast", "full"):
+        raise ValueError(f"reader must be auto, fast or full, got {reader!r}")
+    if reader != "full":
+        size = precheck(path, max_bytes)
+        if reader == "fast" or size >= FAST_READER_MIN_BYTES:
+            from dxfcheck.fastread import load_fast
+
+            try:
+                return load_fast(path, config.role_of_layer()), []
+            except Exception:  # anything the fast reader does not follow: the full reader decides
+                pass
+    return load_document(path, max_bytes=max_bytes)
+
+
 def read_drawing(
     path: str | os.PathLike[str],
     config: Config | None = None,
     *,
     units: str | None = None,
     max_bytes: int | None = None,
+    reader: str = "auto",
 ) -> Drawing:
     """Read the skeleton geometry of a DXF drawing.
 
@@ -670,6 +705,11 @@ def read_drawing(
         Layer roles; defaults to the built-in layer names.
     units : str, optional
         Override the drawing unit (``"mm"``, ``"inch"``...).
+    max_bytes : int, optional
+        Refuse larger files [bytes].
+    reader : str
+        ``auto`` (the fast reader for files of 2 MB and more), ``fast`` or
+        ``full``.
 
     Returns
     -------
@@ -683,7 +723,7 @@ def read_drawing(
     """
     p = Path(path)
     config = config or Config()
-    doc, findings = load_document(p, max_bytes=max_bytes)
+    doc, findings = _open(p, config, max_bytes, reader)
     unit_name, factor, unit_src, unit_findings = _units(doc, units, str(p))
     col = _Collector(path=str(p), roles=config.role_of_layer())
     _walk(col, doc, doc.modelspace(), Affine.scaling(factor, factor), None, (), 0)

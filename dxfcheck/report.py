@@ -12,12 +12,14 @@ import math
 import sys
 import time
 from collections.abc import Callable, Iterator
-from typing import IO, Any
+from typing import IO, TYPE_CHECKING, Any
 
 from dxfcheck.errors import DxfcheckError
 from dxfcheck.findings import Finding, Severity
-from dxfcheck.rules import Judgement, RuleResult, Verdict
 from dxfcheck.statics import CaseSolution, Solution
+
+if TYPE_CHECKING:
+    from dxfcheck.rules import Judgement, RuleResult
 
 __all__ = [
     "CAUTION",
@@ -404,6 +406,8 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
     findings, spec sources, caution."""
     from rich.table import Table
 
+    from dxfcheck.rules import Verdict
+
     console = _console(out)
     counts = j.counts()
     verdict = j.verdict
@@ -446,6 +450,8 @@ def junit_xml(j: Judgement, *, strict: bool = False) -> str:
     skipped; warnings are failures under ``strict``)."""
     import xml.etree.ElementTree as ET
     from pathlib import Path
+
+    from dxfcheck.rules import Verdict
 
     name = Path(j.mechanism.drawing.path).name
     failing = {Verdict.FAIL, Verdict.WARN} if strict else {Verdict.FAIL}
