@@ -92,7 +92,8 @@ def main() -> None:
     print(f"ezdxf.readfile      : {t_read:7.2f} s, peak {m_read:7.1f} MB")
     print(f"dxfcheck solve      : {t_solve:7.2f} s, peak {m_solve:7.1f} MB")
     print(
-        f"time ratio          : {t_solve / t_read:7.3f} (target <= 0.2: {'met' if t_solve <= 0.2 * t_read else 'NOT met'})"
+        f"time ratio          : {t_solve / t_read:7.3f} "
+        f"(target <= 0.2: {'met' if t_solve <= 0.2 * t_read else 'NOT met'})"
     )
     print(f"peak memory         : {m_solve:7.1f} MB (target <= 100: {'met' if m_solve <= 100 else 'NOT met'})")
     small = str(ROOT / "drawings" / "conveyor_block.dxf")
