@@ -29,6 +29,7 @@ __all__ = [
     "check_one",
     "discover",
     "run_batch",
+    "run_on_cluster",
 ]
 
 #: Marked-up copies that ``annotate`` names by default end in this; a batch
@@ -253,6 +254,70 @@ def run_batch(
                 pool.shutdown(wait=False, cancel_futures=True)
             finally:
                 pool.shutdown(wait=not out.interrupted, cancel_futures=True)
+    out.results = [done[k] for k in sorted(done)]
+    return out
+
+
+def run_on_cluster(
+    paths: Sequence[Path],
+    scheduler: str,
+    *,
+    config: str | None = None,
+    overrides: Sequence[tuple[str, str]] = (),
+    use_cache: bool = True,
+    cache_dir: str | None = None,
+    on_result: Callable[[DrawingResult], None] | None = None,
+) -> BatchResult:
+    """The same per-drawing work on an existing Dask distributed cluster
+    (``pip install "dxfcheck[cluster]"``).  The workers must see the drawings
+    at the same paths (a shared file system) and have dxfcheck installed.
+    The cache stays on this machine.
+
+    Raises
+    ------
+    ConfigError
+        When dask.distributed is not installed or the scheduler cannot be
+        reached.
+    """
+    from dxfcheck.errors import ConfigError
+
+    try:
+        from distributed import Client, as_completed as dask_completed
+    except ImportError as exc:
+        raise ConfigError('--scheduler needs dask.distributed: pip install "dxfcheck[cluster]"') from exc
+    folder = _cache_dir(cache_dir)
+    out = BatchResult()
+    done: dict[int, DrawingResult] = {}
+    todo: list[tuple[int, str, str]] = []
+    for k, p in enumerate(paths):
+        key = cache_key(p, config, overrides) if use_cache else ""
+        hit = _cache_get(folder, key) if key else None
+        if hit is not None:
+            done[k] = DrawingResult(**{**asdict(hit), "drawing": str(p), "failed_rules": hit.failed_rules})
+            if on_result:
+                on_result(done[k])
+        else:
+            todo.append((k, str(p), key))
+    try:
+        client = Client(scheduler, timeout="10s")  # type: ignore[no-untyped-call]
+    except Exception as exc:  # the scheduler's address is the user's to fix
+        raise ConfigError(f"cannot reach the Dask scheduler at {scheduler!r}: {exc}") from exc
+    try:
+        futures = {
+            client.submit(check_one, name, config, tuple(overrides), pure=False): (k, key) for k, name, key in todo
+        }
+        for fut in dask_completed(list(futures)):  # type: ignore[no-untyped-call]
+            k, key = futures[fut]
+            r = fut.result()
+            done[k] = r
+            if use_cache and key:
+                _cache_put(folder, key, r)
+            if on_result:
+                on_result(r)
+    except KeyboardInterrupt:
+        out.interrupted = True
+    finally:
+        client.close()  # type: ignore[no-untyped-call]
     out.results = [done[k] for k in sorted(done)]
     return out
 

@@ -190,6 +190,12 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
     b.add_argument("--csv", action="store_true", help="print the per-drawing results as CSV")
     b.add_argument("--timeout", type=float, default=0.0, metavar="S", help="give up after S seconds (default: none)")
+    b.add_argument(
+        "--scheduler",
+        default=None,
+        metavar="ADDRESS",
+        help="run on a Dask distributed cluster, e.g. tcp://10.0.0.5:8786 (extra 'cluster')",
+    )
     return p
 
 
@@ -455,15 +461,28 @@ def _batch(args: argparse.Namespace) -> int:
     from dxfcheck.report import batch_progress
 
     with batch_progress(len(paths), enabled=not quiet) as on_result:
-        result = run_batch(
-            paths,
-            jobs=args.jobs,
-            config=args.config,
-            overrides=overrides,
-            use_cache=not args.no_cache,
-            cache_dir=args.cache_dir,
-            on_result=on_result,
-        )
+        if args.scheduler:
+            from dxfcheck.batch import run_on_cluster
+
+            result = run_on_cluster(
+                paths,
+                args.scheduler,
+                config=args.config,
+                overrides=overrides,
+                use_cache=not args.no_cache,
+                cache_dir=args.cache_dir,
+                on_result=on_result,
+            )
+        else:
+            result = run_batch(
+                paths,
+                jobs=args.jobs,
+                config=args.config,
+                overrides=overrides,
+                use_cache=not args.no_cache,
+                cache_dir=args.cache_dir,
+                on_result=on_result,
+            )
     if args.json:
         write_json(results_json(result))
     elif args.csv:

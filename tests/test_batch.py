@@ -79,3 +79,26 @@ def test_cli_outputs_and_exit_codes(folder, tmp_path, capsys):
     rc = cli.main(["batch", str(folder / "sub" / "conveyor.dxf"), "--cache-dir", cache])
     assert rc == 0 and "1 passed" in capsys.readouterr().out
     assert cli.main(["batch", str(tmp_path / "nothing-here")]) == 2
+
+
+def test_dask_cluster_gives_the_local_results(folder, tmp_path):
+    """A local Dask cluster on loopback runs the same per-drawing work."""
+    distributed = pytest.importorskip("distributed")
+    from dxfcheck.batch import run_on_cluster
+
+    paths = discover([str(folder)])
+    local = run_batch(paths, jobs=1, use_cache=False)
+    with distributed.LocalCluster(
+        n_workers=2, threads_per_worker=1, host="127.0.0.1", dashboard_address=None, processes=True
+    ) as cluster:
+        remote = run_on_cluster(paths, cluster.scheduler_address, use_cache=False)
+    strip = [(r.drawing, r.status, r.torque_cw_Nm, r.torque_ccw_Nm, r.failed_rules) for r in local.results]
+    assert strip == [(r.drawing, r.status, r.torque_cw_Nm, r.torque_ccw_Nm, r.failed_rules) for r in remote.results]
+
+
+def test_unreachable_scheduler_is_a_clean_error(folder, capsys):
+    pytest.importorskip("distributed")
+    rc = cli.main(
+        ["batch", str(folder / "winch_two_shoe.dxf"), "--scheduler", "tcp://127.0.0.1:1", "--no-cache", "--json"]
+    )
+    assert rc == 2 and "Dask scheduler" in capsys.readouterr().err
