@@ -282,7 +282,8 @@ def run_on_cluster(
     from dxfcheck.errors import ConfigError
 
     try:
-        from distributed import Client, as_completed as dask_completed
+        from distributed import Client
+        from distributed import as_completed as dask_completed
     except ImportError as exc:
         raise ConfigError('--scheduler needs dask.distributed: pip install "dxfcheck[cluster]"') from exc
     folder = _cache_dir(cache_dir)
