@@ -17,8 +17,9 @@ from dxfcheck.statics import Solution, solve, solve_for_torque
 
 if TYPE_CHECKING:
     from dxfcheck.rules import Judgement
+    from dxfcheck.sensitivity import SensitivityResult
 
-__all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config"]
+__all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config", "sensitivity"]
 
 #: Friction coefficient used when none is given [-]: the dry value for a
 #: rigid non-asbestos lining in Neale (ed.), *Tribology Handbook*, section
@@ -180,3 +181,52 @@ def check(
             findings=errors,
         )
     return judge(mech, spec)
+
+
+def sensitivity(
+    path: str | os.PathLike[str],
+    *,
+    mu_range: tuple[float, float],
+    samples: int,
+    pin_tolerance_mm: float = 0.0,
+    seed: int = 0,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    config: str | os.PathLike[str] | Config | None = None,
+    units: str | None = None,
+    tolerance_mm: float | None = None,
+    shoe_model: ShoeModelChoice | str = ShoeModelChoice.AUTO,
+    long_threshold_deg: float = LONG_SHOE_THRESHOLD_DEG,
+    effort_N: float | None = None,
+    required_torque_Nm: float | None = None,
+    max_bytes: int | None = None,
+) -> SensitivityResult:
+    """Sample μ over ``mu_range`` and every pin within ``pin_tolerance_mm``
+    [mm]; see :func:`dxfcheck.sensitivity.sample_design`."""
+    from dxfcheck.sensitivity import sample_design
+
+    cfg = resolve_config(path, config)
+    drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
+    mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort_N)
+    if has_errors(list(mech.findings)):
+        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
+        raise MechanismError("no mechanism can be built", path=str(path), findings=errors)
+    options = contact_options(shoe_model, long_threshold_deg)
+    from dxfcheck.findings import Code
+
+    for mu in sorted(set(mu_range)):  # diagnose the linkage first (free motions, redundancy, contact)
+        nominal = solve(mech, mu, directions, options)
+        if any(f.code is Code.PARTIAL_CONTACT for f in nominal.findings):
+            raise ConfigError(
+                f"a long pivoted shoe is in partial contact at μ = {mu:g}; sampling assumes full contact",
+                path=str(path),
+            )
+    return sample_design(
+        mech,
+        mu_range,
+        samples,
+        pin_tolerance_mm=pin_tolerance_mm,
+        seed=seed,
+        directions=directions,
+        options=options,
+        required_torque_Nm=required_torque_Nm,
+    )

@@ -127,10 +127,15 @@ def _parser() -> argparse.ArgumentParser:
 
     s = sub.add_parser("solve", help="solve the pin forces, shoe forces and braking torque of a drawing")
     _common(s)
-    s.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
+    s.add_argument("--mu", default=None, help="friction coefficient (default 0.35), or a range 0.30..0.45 to sample")
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
     s.add_argument("--torque", default=None, help="find the effort that gives this braking torque, e.g. '450 N*m'")
+    s.add_argument("--samples", type=int, default=None, help="sample μ and the pin positions this many times")
+    s.add_argument("--pin-tolerance", default="0mm", help="with --samples: each pin within ± this, e.g. 0.2mm")
+    s.add_argument("--seed", type=int, default=0, help="with --samples: the random seed")
+    s.add_argument("--required-torque", default=None, help="with --samples: report P(torque below this)")
+    s.add_argument("--svg", default=None, metavar="OUT.svg", help="with --samples: torque against μ as SVG")
     _shoe_options(s)
     _annotate_shortcut(s)
 
@@ -240,10 +245,78 @@ def _effort_mu(args: argparse.Namespace) -> tuple[float | None, float]:
     return effort, DEFAULT_MU if args.mu is None else args.mu
 
 
+def _mu_arg(text: str | None) -> tuple[float | None, tuple[float, float] | None]:
+    if text is None:
+        return None, None
+    try:
+        if ".." in text:
+            lo, hi = (float(x) for x in text.split("..", 1))
+            return None, (lo, hi)
+        return float(text), None
+    except ValueError:
+        raise ConfigError(f"--mu: {text!r} is not a number or a range such as 0.30..0.45") from None
+
+
+def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int:
+    from dxfcheck.analysis import sensitivity
+    from dxfcheck.compare import history_svg
+    from dxfcheck.files import write_atomic
+    from dxfcheck.report import print_sensitivity, sensitivity_to_dict, write_json
+    from dxfcheck.units import UnitError, parse_quantity
+
+    try:
+        tol = parse_quantity(args.pin_tolerance, "length", default_unit="mm").value
+        req = parse_quantity(args.required_torque, "torque").value if args.required_torque else None
+        effort = parse_quantity(args.effort, "force").value if args.effort else None
+    except UnitError as exc:
+        raise ConfigError(str(exc)) from exc
+    if args.svg:
+        from dxfcheck.files import check_target
+
+        check_target(args.svg, force=False, protect=(args.drawing,))
+    directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
+    res = sensitivity(
+        args.drawing,
+        mu_range=mu_range,
+        samples=args.samples,
+        pin_tolerance_mm=tol,
+        seed=args.seed,
+        directions=directions,
+        config=args.config,
+        units=args.units,
+        tolerance_mm=_tolerance(args),
+        effort_N=effort,
+        required_torque_Nm=req,
+        max_bytes=_max_bytes(args),
+        **_shoe_kwargs(args),
+    )
+    if args.svg:
+        pts = {d: c[::4] for d, c in res.curve.items()}
+        labels = [f"{m:.3g}" for m, _ in next(iter(pts.values()))]
+        series = {f"torque {d}": [t for _, t in c] for d, c in pts.items()}
+        write_atomic(args.svg, history_svg(labels, series, "N·m"), protect=(args.drawing,))
+    if args.json:
+        write_json(sensitivity_to_dict(res, args.drawing))
+    else:
+        print_sensitivity(res, args.drawing)
+    return EXIT_OK
+
+
 def _solve(args: argparse.Namespace) -> int:
     from dxfcheck.analysis import DEFAULT_MU, analyse, resolve_config
     from dxfcheck.report import print_solution, solution_to_dict, write_json
 
+    mu_value, mu_range = _mu_arg(args.mu)
+    if args.samples is not None:
+        if args.samples < 1:
+            raise ConfigError("--samples must be at least 1")
+        if mu_range is None:
+            m = 0.35 if mu_value is None else mu_value
+            mu_range = (m, m)
+        return _sensitivity(args, mu_range)
+    if mu_range is not None:
+        raise ConfigError("a μ range needs --samples")
+    args.mu = mu_value
     effort, mu = _effort_mu(args)
     torque = None
     if args.torque:

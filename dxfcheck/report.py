@@ -644,3 +644,55 @@ def print_batch(batch: Any, out: IO[str] | None = None) -> None:
         )
     console.print(t)
     console.print(CAUTION)
+
+
+#: Versioned name of the ``solve --samples --json`` document.
+SENSITIVITY_SCHEMA = "dxfcheck.sensitivity/1"
+
+
+def sensitivity_to_dict(res: Any, drawing: str) -> dict[str, Any]:
+    return {
+        "schema": SENSITIVITY_SCHEMA,
+        "drawing": drawing,
+        "samples": res.samples,
+        "seed": res.seed,
+        "mu_range": list(res.mu_range),
+        "pin_tolerance_mm": res.pin_tolerance_mm,
+        "required_torque_Nm": res.required_torque_Nm,
+        "seconds": res.seconds,
+        "directions": [
+            {
+                "direction": d.direction,
+                "torque_Nm": d.torque_Nm,
+                "max_pin_force_N": d.max_pin_force_N,
+                "governing_pin": d.governing_pin,
+                "p_below_required": d.p_below_required,
+            }
+            for d in res.directions
+        ],
+        "torque_vs_mu": {d: [[m, t] for m, t in c] for d, c in res.curve.items()},
+        "caution": CAUTION,
+    }
+
+
+def print_sensitivity(res: Any, drawing: str, out: IO[str] | None = None) -> None:
+    from rich.table import Table
+
+    console = _console(out)
+    console.print(
+        f"[bold]dxfcheck sensitivity[/]  {drawing}: {res.samples} samples, μ {res.mu_range[0]:g} to "
+        f"{res.mu_range[1]:g}, pins ± {res.pin_tolerance_mm:g} mm, seed {res.seed} ({res.seconds:.2f} s)"
+    )
+    keys = ["min", "p1", "p5", "p50", "mean", "p95", "p99", "max"]
+    t = Table(title="distributions", title_justify="left")
+    t.add_column("quantity")
+    for k in keys:
+        t.add_column(k, justify="right")
+    for d in res.directions:
+        t.add_row(f"torque {d.direction} N·m", *[f"{d.torque_Nm[k]:.1f}" for k in keys])
+        t.add_row(f"pin {d.governing_pin} {d.direction} N", *[f"{d.max_pin_force_N[k]:.1f}" for k in keys])
+    console.print(t)
+    for d in res.directions:
+        if d.p_below_required is not None:
+            console.print(f"{d.direction}: P(torque < {res.required_torque_Nm:.1f} N·m) = {d.p_below_required:.4f}")
+    console.print(CAUTION)

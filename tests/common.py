@@ -13,13 +13,14 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT / "drawings"))
 
-from build import conveyor_block, winch_two_shoe  # noqa: E402
+from build import capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
 
 from dxfcheck.sketch import Sketch  # noqa: E402
 
 __all__ = [
     "ROOT",
     "block_brake",
+    "capstan_band",
     "conveyor_block",
     "differential_band",
     "double_block_spring_pair",
