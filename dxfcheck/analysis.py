@@ -12,7 +12,7 @@ from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction,
 from dxfcheck.drawing import read_drawing
 from dxfcheck.errors import ConfigError, MechanismError
 from dxfcheck.findings import Severity, has_errors
-from dxfcheck.mechanism import build_mechanism
+from dxfcheck.mechanism import Mechanism, build_mechanism
 from dxfcheck.statics import Solution, solve, solve_for_torque
 
 if TYPE_CHECKING:
@@ -25,6 +25,17 @@ __all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config"
 #: rigid non-asbestos lining in Neale (ed.), *Tribology Handbook*, section
 #: B8, Table 8.10.
 DEFAULT_MU = 0.35
+
+
+def _refuse_errors(mech: Mechanism, path: str | os.PathLike[str]) -> None:
+    """Raise :class:`MechanismError` with every error finding, if any."""
+    if has_errors(list(mech.findings)):
+        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
+        raise MechanismError(
+            f"no mechanism can be built ({len(errors)} error{'s' if len(errors) > 1 else ''} in the drawing)",
+            path=str(path),
+            findings=errors,
+        )
 
 
 def resolve_config(drawing: str | os.PathLike[str], config: str | os.PathLike[str] | Config | None) -> Config:
@@ -98,13 +109,7 @@ def analyse(
         effort_N=effort_N,
         default_magnitude_N=1.0 if torque_Nm is not None else None,
     )
-    if has_errors(list(mech.findings)):
-        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
-        raise MechanismError(
-            f"no mechanism can be built ({len(errors)} error{'s' if len(errors) > 1 else ''} in the drawing)",
-            path=str(path),
-            findings=errors,
-        )
+    _refuse_errors(mech, path)
     options = contact_options(shoe_model, long_threshold_deg)
     if torque_Nm is not None:
         return solve_for_torque(mech, torque_Nm, mu, directions, options)
@@ -173,13 +178,7 @@ def check(
     )
     effort = spec.num("effort")
     mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort)
-    if has_errors(list(mech.findings)):
-        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
-        raise MechanismError(
-            f"no mechanism can be built ({len(errors)} error{'s' if len(errors) > 1 else ''} in the drawing)",
-            path=str(path),
-            findings=errors,
-        )
+    _refuse_errors(mech, path)
     return judge(mech, spec)
 
 
@@ -207,9 +206,7 @@ def sensitivity(
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
     mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort_N)
-    if has_errors(list(mech.findings)):
-        errors = [f for f in mech.findings if f.severity is Severity.ERROR]
-        raise MechanismError("no mechanism can be built", path=str(path), findings=errors)
+    _refuse_errors(mech, path)
     options = contact_options(shoe_model, long_threshold_deg)
     from dxfcheck.findings import Code
 

@@ -203,59 +203,73 @@ def run_batch(
     progress display).  Ctrl-C stops the batch cleanly: pending drawings are
     cancelled and the result holds what was done, ``interrupted`` set.
     """
-    folder = _cache_dir(cache_dir)
-    out = BatchResult()
-    todo: list[tuple[int, str, str]] = []
-    done: dict[int, DrawingResult] = {}
-    for k, p in enumerate(paths):
-        key = ""
-        if use_cache:
-            try:
-                key = cache_key(p, config, overrides)
-            except OSError:
-                key = ""
-            hit = _cache_get(folder, key) if key else None
-            if hit is not None:
-                hit = DrawingResult(**{**asdict(hit), "drawing": str(p), "failed_rules": hit.failed_rules})
-                done[k] = hit
-                if on_result:
-                    on_result(hit)
-                continue
-        todo.append((k, str(p), key))
+    book = _Book(paths, config, overrides, use_cache, cache_dir, on_result)
     workers = max(1, jobs or os.cpu_count() or 1)
-    if todo:
-        if workers == 1:
-            try:
-                for k, name, key in todo:
-                    r = check_one(name, config, overrides)
-                    done[k] = r
-                    if use_cache and key:
-                        _cache_put(folder, key, r)
-                    if on_result:
-                        on_result(r)
-            except KeyboardInterrupt:
-                out.interrupted = True
-        else:
-            pool = ProcessPoolExecutor(max_workers=workers)
-            futures: dict[Future[DrawingResult], tuple[int, str]] = {}
-            try:
-                for k, name, key in todo:
-                    futures[pool.submit(check_one, name, config, tuple(overrides))] = (k, key)
-                for fut in as_completed(futures):
-                    k, key = futures[fut]
-                    r = fut.result()
-                    done[k] = r
-                    if use_cache and key:
-                        _cache_put(folder, key, r)
-                    if on_result:
-                        on_result(r)
-            except KeyboardInterrupt:
-                out.interrupted = True
-                pool.shutdown(wait=False, cancel_futures=True)
-            finally:
-                pool.shutdown(wait=not out.interrupted, cancel_futures=True)
-    out.results = [done[k] for k in sorted(done)]
-    return out
+    if book.todo and workers == 1:
+        try:
+            for k, name, key in book.todo:
+                book.record(k, key, check_one(name, config, overrides))
+        except KeyboardInterrupt:
+            book.out.interrupted = True
+    elif book.todo:
+        pool = ProcessPoolExecutor(max_workers=workers)
+        futures: dict[Future[DrawingResult], tuple[int, str]] = {}
+        try:
+            for k, name, key in book.todo:
+                futures[pool.submit(check_one, name, config, tuple(overrides))] = (k, key)
+            for fut in as_completed(futures):
+                book.record(*futures[fut], fut.result())
+        except KeyboardInterrupt:
+            book.out.interrupted = True
+        finally:
+            pool.shutdown(wait=not book.out.interrupted, cancel_futures=True)
+    return book.finish()
+
+
+class _Book:
+    """What a batch has done: cache hits up front, results as they come."""
+
+    def __init__(
+        self,
+        paths: Sequence[Path],
+        config: str | None,
+        overrides: Sequence[tuple[str, str]],
+        use_cache: bool,
+        cache_dir: str | None,
+        on_result: Callable[[DrawingResult], None] | None,
+    ) -> None:
+        self.folder = _cache_dir(cache_dir)
+        self.use_cache = use_cache
+        self.on_result = on_result
+        self.out = BatchResult()
+        self.done: dict[int, DrawingResult] = {}
+        self.todo: list[tuple[int, str, str]] = []
+        for k, p in enumerate(paths):
+            key = ""
+            if use_cache:
+                try:
+                    key = cache_key(p, config, overrides)
+                except OSError:
+                    key = ""
+            hit = _cache_get(self.folder, key) if key else None
+            if hit is None:
+                self.todo.append((k, str(p), key))
+            else:
+                self._done(k, DrawingResult(**{**asdict(hit), "drawing": str(p), "failed_rules": hit.failed_rules}))
+
+    def _done(self, k: int, r: DrawingResult) -> None:
+        self.done[k] = r
+        if self.on_result:
+            self.on_result(r)
+
+    def record(self, k: int, key: str, r: DrawingResult) -> None:
+        if self.use_cache and key:
+            _cache_put(self.folder, key, r)
+        self._done(k, r)
+
+    def finish(self) -> BatchResult:
+        self.out.results = [self.done[k] for k in sorted(self.done)]
+        return self.out
 
 
 def run_on_cluster(
@@ -286,41 +300,22 @@ def run_on_cluster(
         from distributed import as_completed as dask_completed
     except ImportError as exc:
         raise ConfigError('--scheduler needs dask.distributed: pip install "dxfcheck[cluster]"') from exc
-    folder = _cache_dir(cache_dir)
-    out = BatchResult()
-    done: dict[int, DrawingResult] = {}
-    todo: list[tuple[int, str, str]] = []
-    for k, p in enumerate(paths):
-        key = cache_key(p, config, overrides) if use_cache else ""
-        hit = _cache_get(folder, key) if key else None
-        if hit is not None:
-            done[k] = DrawingResult(**{**asdict(hit), "drawing": str(p), "failed_rules": hit.failed_rules})
-            if on_result:
-                on_result(done[k])
-        else:
-            todo.append((k, str(p), key))
+    book = _Book(paths, config, overrides, use_cache, cache_dir, on_result)
     try:
         client = Client(scheduler, timeout="10s")  # type: ignore[no-untyped-call]
     except Exception as exc:  # the scheduler's address is the user's to fix
         raise ConfigError(f"cannot reach the Dask scheduler at {scheduler!r}: {exc}") from exc
     try:
         futures = {
-            client.submit(check_one, name, config, tuple(overrides), pure=False): (k, key) for k, name, key in todo
+            client.submit(check_one, name, config, tuple(overrides), pure=False): (k, key) for k, name, key in book.todo
         }
         for fut in dask_completed(list(futures)):  # type: ignore[no-untyped-call]
-            k, key = futures[fut]
-            r = fut.result()
-            done[k] = r
-            if use_cache and key:
-                _cache_put(folder, key, r)
-            if on_result:
-                on_result(r)
+            book.record(*futures[fut], fut.result())
     except KeyboardInterrupt:
-        out.interrupted = True
+        book.out.interrupted = True
     finally:
         client.close()  # type: ignore[no-untyped-call]
-    out.results = [done[k] for k in sorted(done)]
-    return out
+    return book.finish()
 
 
 def results_csv(batch: BatchResult) -> str:
