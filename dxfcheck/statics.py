@@ -729,6 +729,12 @@ def solve_case(
         raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
     models, notes = contact_models(mech, options)
     sys_ = _assemble(mech, models, mu, direction)
+    if has_errors(sys_.findings):  # a contact model that cannot place its force explains the rest
+        raise SolveError(
+            f"{direction}: a shoe's contact cannot be placed",
+            path=mech.drawing.path,
+            findings=[f for f in sys_.findings if f.severity is Severity.ERROR],
+        )
     findings, cond = _diagnose(mech, sys_, direction)
     if has_errors(findings) or cond > CONDITION_WARN:
         mu_c = critical_mu(mech, direction, options)

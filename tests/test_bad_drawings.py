@@ -276,3 +276,41 @@ def test_fuzz_tags(capsys, good, tmp_path, ops, which):
     for cmd in COMMANDS:
         rc, _, _ = run(capsys, cmd[0], path, *cmd[1:])
         TRIED[f"fuzz {cmd[0]} exit {rc}"] += 1
+
+
+def test_mu_at_the_self_locking_limit(tmp_path):
+    """At μ = x/a exactly the block brake's equations are singular: said so,
+    not answered with huge numbers (Khurmi & Gupta, self-locking x ≤ μa; from
+    memory)."""
+    import dxfcheck
+    from common import block_brake
+    from dxfcheck.findings import Code
+
+    path = tmp_path / "lock.dxf"
+    block_brake(r=200, l=500, x=200, a=250, effort="500 N").save(path)
+    with pytest.raises(dxfcheck.SolveError) as info:
+        dxfcheck.analyse(path, mu=0.8, directions=["cw", "ccw"])
+    assert [f.code for f in info.value.findings] == [Code.SELF_LOCKING]
+    assert "limit" in info.value.findings[0].message
+
+
+def test_shoe_pin_at_the_drum_axis(tmp_path):
+    """A pivoted shoe whose pin sits on the drum axis has no line of action
+    at the friction angle through it: a finding, not a number."""
+    import dxfcheck
+    from dxfcheck.findings import Code
+    from dxfcheck.sketch import Sketch
+
+    sk = Sketch()
+    sk.drum(0, 0, 150)
+    sk.pivot(0, -300, 20)
+    sk.pin(0, 0, 10)
+    sk.link((0, -300), (0, 0), (300, 0))
+    sk.link((0, 0), (0, 150))
+    sk.shoe(0, 0, 150, 80, 100)
+    sk.load(300, 0, 0, 1, "100 N")
+    path = tmp_path / "axis.dxf"
+    sk.save(path)
+    with pytest.raises(dxfcheck.SolveError) as info:
+        dxfcheck.analyse(path, mu=0.3, shoe_model="short")
+    assert Code.NO_CONTACT_LINE in {f.code for f in info.value.findings}
