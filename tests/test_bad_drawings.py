@@ -282,8 +282,9 @@ def test_mu_at_the_self_locking_limit(tmp_path):
     """At μ = x/a exactly the block brake's equations are singular: said so,
     not answered with huge numbers (Khurmi & Gupta, self-locking x ≤ μa; from
     memory)."""
-    import dxfcheck
     from common import block_brake
+
+    import dxfcheck
     from dxfcheck.findings import Code
 
     path = tmp_path / "lock.dxf"
