@@ -252,12 +252,14 @@ mutation = st.tuples(
 )
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=60, deadline=None, derandomize=True, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(ops=st.lists(mutation, min_size=1, max_size=4), which=st.sampled_from(["conveyor.dxf", "winch.dxf"]))
 def test_fuzz_tags(capsys, good, tmp_path, ops, which):
     """Mutations of the DXF tag stream of good drawings (delete, duplicate,
     change a value or a group code, swap neighbours): every command exits 0,
-    1 or 2 with one-line messages, no traceback."""
+    1 or 2 with one-line messages, no traceback.  Derandomised, so that CI
+    runs the same 60 examples every time; run with a larger max_examples and
+    without derandomize to hunt for new cases."""
     pairs = _pairs(good / which)
     for kind, where, value in ops:
         i = min(int(where * len(pairs)), len(pairs) - 2)
