@@ -250,12 +250,13 @@ def test_hinged_integration_matches_closed_forms(t1, span, a_frac, mu, internal)
     """The quadrature of p = pa·sinθ/sinθa reproduces Shigley's closed-form
     MN, Mf and T (§16-3, 16-4) for arbitrary arcs: the hinge moments in the
     two drum directions are MN − Mf and MN + Mf."""
-    t2 = min(t1 + span, 180.0)
+    t2 = min(t1 + span, 179.0)  # stay on the loaded side of the hinge line
     r = 150.0
     a = a_frac * r
     hinge = (a, 0.0)
-    drum = dxfcheck.mechanism.Drum((0.0, 0.0), r, None)
-    arc = dxfcheck.drawing.ArcGeom(dxfcheck.Role.SHOE, (0.0, 0.0), r, t1, t2, None)
+    src = dxfcheck.drawing.Source("1F", "SHOE")
+    drum = dxfcheck.mechanism.Drum((0.0, 0.0), r, src)
+    arc = dxfcheck.drawing.ArcGeom(dxfcheck.Role.SHOE, (0.0, 0.0), r, t1, t2, src)
     shoe = dxfcheck.mechanism.Shoe("s", "p", arc, dxfcheck.mechanism.Mounting.FIXED, None, internal)
     model = LongHingedShoe(shoe, drum, hinge)
     mn, mf, t = _closed_form(1.0, 1.0, r, a, mu, math.radians(t1), math.radians(t2))
