@@ -14,8 +14,9 @@ References
 ----------
 .. [1] R. G. Budynas and J. K. Nisbett, *Shigley's Mechanical Engineering
    Design*, 10th ed., McGraw-Hill, 2015: ch. 3 (direct shear τ = F/A,
-   bearing stress), ch. 4.11 (Euler columns P_cr = π²EI/l_e²), ch. 16
-   (brakes: lining pressure, pV, self-energising shoes).
+   bearing stress), §4-11 (Euler columns P_cr = π²EI/l_e²), ch. 16
+   (brakes: lining pressure, pV, self-energising shoes); section numbers
+   from memory.
 .. [2] OSHA 29 CFR 1910.179(f)(2): holding brakes of hoist motors, 125 % of
    the full-load hoisting torque with non-mechanical control braking, 100 %
    with mechanical control braking, 100 % each with two holding brakes
@@ -117,9 +118,9 @@ class Judgement:
 #: Relative torque difference treated as none (round-off) [-].
 ASYMMETRY_ZERO = 1e-12
 
-SRC_SHEAR = "direct shear τ = F/(n·πd²/4) (Shigley's MED 10th ed., §3.x direct shear; from memory)"
+SRC_SHEAR = "direct shear τ = F/(n·πd²/4) (Shigley's MED 10th ed., ch. 3; section from memory)"
 SRC_BEARING = "projected-area bearing pressure p = F/(d·L) (Shigley's MED 10th ed., ch. 3; from memory)"
-SRC_EULER = "Euler column P_cr = π²EI/(KL)², I = πd⁴/64 (Shigley's MED 10th ed., §4.11)"
+SRC_EULER = "Euler column P_cr = π²EI/(KL)², I = πd⁴/64 (Shigley's MED 10th ed., §4-11; section from memory)"
 SRC_STRESS = "axial stress σ = F/A"
 SRC_LINING = "short shoe, uniform pressure on the projected area p = N/(b·2r·sin(θ/2)) (Shigley's MED 10th ed., ch. 16)"
 SRC_LONG_LINING = (
