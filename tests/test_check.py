@@ -194,7 +194,7 @@ def pushrod(tmp_path):
 
 def test_rod_stress_and_euler_buckling_boundary(pushrod):
     """σ = F/A; Euler's column P_cr = π²EI/(KL)² with I = πd⁴/64 (Shigley's
-    MED 10th ed., §4.11).  The push rod carries F = P·200/100 = 1000 N in
+    MED 10th ed., §4-11, section from memory).  The push rod carries F = P·200/100 = 1000 N in
     compression by the crank's moment balance about K."""
     f, d, length, e_mod, k = 1000.0, 12.0, 190.0, 210000.0, 1.0
     area = math.pi * d**2 / 4

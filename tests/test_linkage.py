@@ -80,7 +80,7 @@ def test_every_part_in_equilibrium(winch, direction):
 
 def test_two_force_member_along_its_line(winch):
     """A two-force member carries its load along the line joining its pins
-    (Beer & Johnston, Statics, §4.6)."""
+    (Beer & Johnston, Statics, 11th ed., two-force members; section from memory)."""
     for case in winch.cases:
         (rod,) = case.members
         assert rod.name == "tie rod"
@@ -169,7 +169,7 @@ def test_winch_against_sympy(winch, direction):
 def test_frame_pivoted_bell_crank_is_redundant(tmp_path):
     """Two shoes set by a linkage with one degree of freedom are statically
     indeterminate (Grübler count 3·7 − 2·9 − 2 = 1 against two free shoe
-    rockings; Beer & Johnston, Statics, §4.4, improper/redundant supports)."""
+    rockings; Beer & Johnston, Statics, improper and redundant supports; section from memory)."""
     path = tmp_path / "bc.dxf"
     frame_bellcrank_two_shoe().save(path)
     with pytest.raises(dxfcheck.SolveError) as info:
