@@ -88,7 +88,7 @@ def capstan_band() -> Sketch:
     sk.link(o, tail, label="band lever", label_at=(o[0] + 380, o[1] + 14))
     sk.band(0, 0, r, s_deg, e_deg, a_pin, o)
     sk.pivot(tail[0], o[1] + 160, 16, label="K")
-    sk.spring((tail[0], o[1] + 160), tail, "2.4 kN C")
+    sk.spring((tail[0], o[1] + 160), tail, "0.5 kN C")
     return sk
 
 

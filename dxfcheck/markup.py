@@ -252,7 +252,10 @@ def plan_markup(
     )
     curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()
     torques = ", ".join(f"{c.direction} {c.torque_Nm:.1f} N·m" for c in sol.cases)
-    efforts = ", ".join(f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads)
+    efforts = ", ".join(
+        [f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads]
+        + [f"{sp.name} {_fmt_force(sp.force_N)} {sp.state}" for sp in case.springs]
+    )
     summary = [
         f"dxfcheck: forces for drum {d} at mu = {case.mu:g} ({Path(mech.drawing.path).name})",
         f"braking torque: {torques}",
