@@ -36,7 +36,7 @@ from typing import Any
 from dxfcheck.analysis import DEFAULT_MU, contact_options
 from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction
 from dxfcheck.errors import ConfigError
-from dxfcheck.findings import Code, Severity
+from dxfcheck.findings import Code, Finding, Severity
 from dxfcheck.mechanism import Mechanism
 from dxfcheck.spec import Spec
 from dxfcheck.statics import CaseSolution, Solution, critical_mu, solve
@@ -217,7 +217,7 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     dirs_v = spec.get("directions")
     required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
     rules: list[RuleResult] = []
-    rules += _hygiene(mech)
+    rules += _hygiene([f for sol in solutions.values() for f in sol.findings])
     rules += _duty(spec, solutions[mu_min], required, mu_min)
     rules += _self_lock(spec, mech, mu_max, options)
     rules += _asymmetry(spec, nominal)
@@ -230,8 +230,10 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     return Judgement(mech, spec, nominal, solutions, tuple(rules), mu, mu_min, mu_max)
 
 
-def _hygiene(mech: Mechanism) -> list[RuleResult]:
-    warnings = [f for f in mech.findings if f.severity is Severity.WARNING]
+def _hygiene(findings: list[Finding]) -> list[RuleResult]:
+    """Warnings from reading, topology and the solves (contact off the
+    lining, partial contact, ill-conditioning...), each counted once."""
+    warnings = list(dict.fromkeys(f for f in findings if f.severity is Severity.WARNING))
     codes = sorted({f.code.id for f in warnings})
     verdict = Verdict.WARN if warnings else Verdict.PASS
     msg = f"{len(warnings)} warning finding(s): {', '.join(codes)}" if warnings else "no warnings in the drawing"
@@ -245,7 +247,7 @@ def _hygiene(mech: Mechanism) -> list[RuleResult]:
             "findings",
             None,
             {"codes": codes},
-            "the drawing's own findings (README, finding codes)",
+            "the drawing's findings and the solves' warnings (README, finding codes)",
             msg,
         )
     ]
