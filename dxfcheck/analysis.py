@@ -9,7 +9,7 @@ from typing import TYPE_CHECKING
 
 from dxfcheck.config import Config, find_config, load_config
 from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction, ShoeModelChoice
-from dxfcheck.drawing import read_drawing
+from dxfcheck.drawing import Drawing, read_drawing
 from dxfcheck.errors import ConfigError, MechanismError
 from dxfcheck.findings import Severity, has_errors
 from dxfcheck.mechanism import Mechanism, build_mechanism
@@ -27,8 +27,19 @@ __all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config"
 DEFAULT_MU = 0.35
 
 
-def _refuse_errors(mech: Mechanism, path: str | os.PathLike[str]) -> None:
-    """Raise :class:`MechanismError` with every error finding, if any."""
+def _mechanism(
+    drawing: Drawing,
+    path: str | os.PathLike[str],
+    *,
+    tolerance_mm: float | None,
+    effort_N: float | None,
+    default_magnitude_N: float | None = None,
+) -> Mechanism:
+    """Build the mechanism, or raise :class:`MechanismError` with every error
+    finding."""
+    mech = build_mechanism(
+        drawing, tolerance_mm=tolerance_mm, effort_N=effort_N, default_magnitude_N=default_magnitude_N
+    )
     if has_errors(list(mech.findings)):
         errors = [f for f in mech.findings if f.severity is Severity.ERROR]
         raise MechanismError(
@@ -36,6 +47,7 @@ def _refuse_errors(mech: Mechanism, path: str | os.PathLike[str]) -> None:
             path=str(path),
             findings=errors,
         )
+    return mech
 
 
 def resolve_config(drawing: str | os.PathLike[str], config: str | os.PathLike[str] | Config | None) -> Config:
@@ -103,13 +115,13 @@ def analyse(
     """
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
-    mech = build_mechanism(
+    mech = _mechanism(
         drawing,
+        path,
         tolerance_mm=tolerance_mm,
         effort_N=effort_N,
         default_magnitude_N=1.0 if torque_Nm is not None else None,
     )
-    _refuse_errors(mech, path)
     options = contact_options(shoe_model, long_threshold_deg)
     if torque_Nm is not None:
         return solve_for_torque(mech, torque_Nm, mu, directions, options)
@@ -177,8 +189,7 @@ def check(
         overrides=overrides,
     )
     effort = spec.num("effort")
-    mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort)
-    _refuse_errors(mech, path)
+    mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort)
     return judge(mech, spec)
 
 
@@ -205,8 +216,7 @@ def sensitivity(
 
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
-    mech = build_mechanism(drawing, tolerance_mm=tolerance_mm, effort_N=effort_N)
-    _refuse_errors(mech, path)
+    mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort_N)
     options = contact_options(shoe_model, long_threshold_deg)
     from dxfcheck.findings import Code
 

@@ -455,7 +455,7 @@ def _revisions(items: Sequence[str]) -> list[str]:
 
 def _compare(args: argparse.Namespace) -> int:
     from dxfcheck.analysis import check, resolve_config
-    from dxfcheck.compare import Thresholds, compare_judgements, history_svg
+    from dxfcheck.compare import Thresholds, compare_judgements, history_svg, mark_revision
     from dxfcheck.files import check_target, write_atomic
     from dxfcheck.report import comparisons_to_dict, print_comparisons, write_json
     from dxfcheck.spec import parse_assignment
@@ -480,7 +480,7 @@ def _compare(args: argparse.Namespace) -> int:
     )
     comps = [compare_judgements(a, b, thresholds) for a, b in itertools.pairwise(judgements)]
     if args.annotate:
-        _mark_revision(comps[-1], args.annotate, resolve_config(names[-1], args.config), args.force)
+        mark_revision(comps[-1], args.annotate, resolve_config(names[-1], args.config), force=args.force)
     if args.svg:
         trend = comparisons_to_dict(comps, names)["trend"]
         series = {k: [row[k] for row in trend] for k in trend[0] if k.startswith("torque_")}
@@ -491,32 +491,6 @@ def _compare(args: argparse.Namespace) -> int:
     else:
         print_comparisons(comps)
     return EXIT_CHECK_FAILED if any(c.failed for c in comps) else EXIT_OK
-
-
-def _mark_revision(comp: Any, out: str, cfg: Any, force: bool) -> None:
-    """The NEW drawing marked up, plus a ring and a note at every pin that
-    moved and every force that grew beyond the threshold."""
-    from dxfcheck.files import atomic_target
-    from dxfcheck.markup import marked_document, plan_markup
-
-    sol = comp.new.nominal
-    mech = sol.mechanism
-    doc = marked_document(sol, [plan_markup(sol)], cfg)
-    k = 1.0 / mech.drawing.mm_per_unit
-    h = 0.03 * (2 * mech.drum.radius_mm if mech.drum else mech.length_scale_mm / 4)
-    msp = doc.modelspace()
-    for c in comp.changes:
-        if c.kind not in ("moved", "pin") or (c.kind == "pin" and not c.crossed):
-            continue
-        pin = next((p for p in mech.pins if p.name == c.name), None)
-        if pin is None:
-            continue
-        x, y = pin.center
-        text = c.note if c.kind == "moved" else f"{c.name} {c.direction}: force {100 * (c.rel_change or 0):+.1f}%"
-        msp.add_circle((x * k, y * k), 1.5 * pin.diameter_mm * k, dxfattribs={"layer": cfg.note_layer})
-        msp.add_text(text, height=h * k, dxfattribs={"layer": cfg.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)})
-    with atomic_target(out, force=force, protect=(mech.drawing.path, comp.old.mechanism.drawing.path)) as tmp:
-        doc.saveas(tmp)
 
 
 def _batch(args: argparse.Namespace) -> int:

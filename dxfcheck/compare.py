@@ -24,10 +24,12 @@ References
 from __future__ import annotations
 
 import math
+import os
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
+from dxfcheck.config import Config
 from dxfcheck.geometry import Affine, Point, dist
 from dxfcheck.mechanism import Mechanism
 from dxfcheck.rules import Judgement, Verdict
@@ -40,6 +42,7 @@ __all__ = [
     "Thresholds",
     "compare_judgements",
     "history_svg",
+    "mark_revision",
     "rigid_motion",
 ]
 
@@ -457,3 +460,31 @@ def history_svg(names: Sequence[str], series: dict[str, list[float]], unit: str)
         parts.append(f'<text x="{w - pad + 4}" y="{pad + 14 * k}" font-size="11" fill="{col}">{label}</text>')
     parts.append("</svg>")
     return "\n".join(parts) + "\n"
+
+
+def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config, *, force: bool = False) -> None:
+    """Write the newer revision marked up (as ``annotate`` does), plus a ring
+    and a note at every pin that moved and every pin force that crossed the
+    threshold.  Neither revision's file is written."""
+    from dxfcheck.files import atomic_target
+    from dxfcheck.markup import TEXT_FRACTION, TEXT_MIN_MM, marked_document, plan_markup
+
+    sol = comp.new.nominal
+    mech = sol.mechanism
+    doc = marked_document(sol, [plan_markup(sol)], config)
+    k = 1.0 / mech.drawing.mm_per_unit
+    h = max(TEXT_MIN_MM, TEXT_FRACTION * (2 * mech.drum.radius_mm if mech.drum else mech.length_scale_mm / 4))
+    msp = doc.modelspace()
+    pins = {p.name: p for p in mech.pins}
+    for c in comp.changes:
+        pin = pins.get(c.name)
+        if pin is None or not (c.kind == "moved" or (c.kind == "pin" and c.crossed)):
+            continue
+        x, y = pin.center
+        text = c.note if c.kind == "moved" else f"{c.name} {c.direction}: force {100 * (c.rel_change or 0):+.1f}%"
+        msp.add_circle((x * k, y * k), 1.5 * pin.diameter_mm * k, dxfattribs={"layer": config.note_layer})
+        msp.add_text(
+            text, height=h * k, dxfattribs={"layer": config.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)}
+        )
+    with atomic_target(out, force=force, protect=(mech.drawing.path, comp.old.mechanism.drawing.path)) as tmp:
+        doc.saveas(tmp)

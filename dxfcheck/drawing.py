@@ -620,7 +620,9 @@ def precheck(path: Path, max_bytes: int | None = None) -> int:
     return size
 
 
-def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, list[Finding]]:
+def load_document(
+    path: Path, *, max_bytes: int | None = None, checked_size: int | None = None
+) -> tuple[Any, list[Finding]]:
     """Open a DXF file with ezdxf, falling back to its recover mode for a
     damaged file; returns the document and what the recovery repaired (as
     findings).
@@ -630,6 +632,9 @@ def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, lis
     path : Path
     max_bytes : int, optional
         Refuse files larger than this (default :data:`MAX_INPUT_BYTES`).
+    checked_size : int, optional
+        The size :func:`precheck` already found [bytes]; the checks are not
+        run again.
 
     Raises
     ------
@@ -641,7 +646,7 @@ def load_document(path: Path, *, max_bytes: int | None = None) -> tuple[Any, lis
     from ezdxf.filemanagement import readfile
 
     spath = str(path)
-    size = precheck(path, max_bytes)
+    size = precheck(path, max_bytes) if checked_size is None else checked_size
     findings: list[Finding] = []
     try:
         doc = readfile(spath)
@@ -675,16 +680,15 @@ def _open(path: Path, config: Config, max_bytes: int | None, reader: str) -> tup
     on anything it does not follow."""
     if reader not in ("auto", "fast", "full"):
         raise ValueError(f"reader must be auto, fast or full, got {reader!r}")
-    if reader != "full":
-        size = precheck(path, max_bytes)
-        if reader == "fast" or size >= FAST_READER_MIN_BYTES:
-            from dxfcheck.fastread import load_fast
+    size = precheck(path, max_bytes)
+    if reader == "fast" or (reader == "auto" and size >= FAST_READER_MIN_BYTES):
+        from dxfcheck.fastread import load_fast
 
-            try:
-                return load_fast(path, config.role_of_layer()), []
-            except Exception:  # anything the fast reader does not follow: the full reader decides
-                pass
-    return load_document(path, max_bytes=max_bytes)
+        try:
+            return load_fast(path, config.role_of_layer()), []
+        except Exception:  # anything the fast reader does not follow: the full reader decides
+            pass
+    return load_document(path, max_bytes=max_bytes, checked_size=size)
 
 
 def read_drawing(

@@ -149,7 +149,11 @@ class _Parts:
         self.mu_k = {j: self.mu_part[self.keep, j] for j in self.mu_cols}
         self.exp_k = {j: self.exp_part[self.keep, j] for j in self.exp_theta}
         self.pin_terms_k = [(k, rows[r], c, axis) for k, r, c, axis in self.pin_terms if r in rows]
-        self.pivoted_k = [(j, model, rows[row], rows[row + 1], rows.get(row + 2)) for j, model, row in self.pivoted]
+        pin_index = {p.center: i for i, p in enumerate(self.mech.pins)}
+        self.pivoted_k = [
+            (j, model, pin_index[model.pin_center], rows[row], rows[row + 1], rows.get(row + 2))
+            for j, model, row in self.pivoted
+        ]
         self._local = threading.local()  # one work buffer per thread
 
     def solve(
@@ -174,8 +178,7 @@ class _Parts:
             else:
                 a[:, r, c] += dpin[:, k, 0] / self.L
         pins = self.mech.pins
-        for j, model, r0, r1, r2 in self.pivoted_k:
-            k = next(i for i, p in enumerate(pins) if p.center == model.pin_center)
+        for j, model, k, r0, r1, r2 in self.pivoted_k:
             fx, fy, px_c, py_c = _pivoted_contact(model, mu, dpin[:, k, :], self.direction)
             a[:, r0, j] = fx
             a[:, r1, j] = fy
