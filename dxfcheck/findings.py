@@ -66,6 +66,7 @@ class Code(enum.Enum):
     BAND_OFF_DRUM = ("M219", Severity.ERROR, "band-off-drum")
     BAND_OPEN = ("M220", Severity.ERROR, "band-open")
     BAND_END_OFF = ("M221", Severity.ERROR, "band-end-off")
+    TEXT_AMBIGUOUS = ("M222", Severity.ERROR, "text-ambiguous")
     # --- statics -------------------------------------------------------
     FREE_MOTION = ("S301", Severity.ERROR, "free-motion")
     REDUNDANT = ("S302", Severity.ERROR, "redundant")
