@@ -264,12 +264,15 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
     from dxfcheck.report import print_sensitivity, sensitivity_to_dict, write_json
     from dxfcheck.units import UnitError, parse_quantity
 
+    option = "--pin-tolerance"
     try:
         tol = parse_quantity(args.pin_tolerance, "length", default_unit="mm").value
+        option = "--required-torque"
         req = parse_quantity(args.required_torque, "torque").value if args.required_torque else None
+        option = "--effort"
         effort = parse_quantity(args.effort, "force").value if args.effort else None
     except UnitError as exc:
-        raise ConfigError(str(exc)) from exc
+        raise ConfigError(f"{option}: {exc}") from exc
     if args.svg:
         from dxfcheck.files import check_target
 
