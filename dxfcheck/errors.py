@@ -23,6 +23,7 @@ __all__ = [
     "MechanismError",
     "OutputError",
     "SolveError",
+    "VerificationError",
 ]
 
 
@@ -73,6 +74,11 @@ class SolveError(DxfcheckError):
 
 class OutputError(DxfcheckError):
     """An output (marked-up copy, picture, report file) cannot be written."""
+
+
+class VerificationError(DxfcheckError, AssertionError):
+    """A solution failed one of the checks every solve runs on its own answer
+    (:mod:`dxfcheck.verify`): an internal error, never a result."""
 
 
 class LimitError(DxfcheckError):

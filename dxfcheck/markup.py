@@ -5,7 +5,7 @@ geometry and header; blocks and paper-space layouts untouched) and adds, on
 two new layers,
 
 * the force layer: an arrow for every pin force (the force on the first part
-  the pin joins), each shoe's normal and friction force at its contact point,
+  the pin joins), each shoe's normal and friction resultants on their lines of action,
   each applied load, and a pair of arrowheads at the middle of each
   two-force member (pointing out for tension, in for compression);
 * the note layer: a label with name and magnitude beside each arrow, each
@@ -205,33 +205,24 @@ def plan_markup(
     for p in case.pins:
         forces.append(("pin", p.name, (p.x_mm, p.y_mm), (p.fx_N, p.fy_N), f"{p.name} {_fmt_force(p.force_N)}"))
     for s in case.shoes:
-        w_n = (s.force[0], s.force[1])
-        # split the resultant into its normal (radial) and friction parts
-        if mech.drum is not None:
-            cx, cy = mech.drum.center
-            r = math.hypot(s.contact[0] - cx, s.contact[1] - cy)
-            ux, uy = (s.contact[0] - cx) / r, (s.contact[1] - cy) / r
-            fn = w_n[0] * ux + w_n[1] * uy
-            normal = (fn * ux, fn * uy)
-            friction = (w_n[0] - normal[0], w_n[1] - normal[1])
-            forces.append(("normal", s.name, s.contact, normal, f"N {s.name} {_fmt_force(s.normal_N)}"))
-            forces.append(("friction", s.name, s.contact, friction, f"μN {s.name} {_fmt_force(s.friction_N)}"))
+        # the solver's normal and friction resultants on the shoe, each on its own line of action
+        forces.append(("normal", s.name, s.normal_at, s.normal_force, f"N {s.name} {_fmt_force(s.normal_N)}"))
+        forces.append(
+            ("friction", s.name, s.friction_at, s.friction_force, f"F {s.name} {_fmt_force(s.friction_resultant_N)}")
+        )
     for ld in case.loads:
         forces.append(("load", ld.name, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N), f"{ld.name} {_fmt_force(ld.force_N)}"))
     for br in case.bands:
-        band = next(b for b in mech.bands if b.name == br.name)
-        for pin_name, u in ((band.start_pin, band.start_dir), (band.end_pin, band.end_dir)):
-            t = br.tight_N if pin_name == br.tight_pin else br.slack_N
-            side = "T1" if pin_name == br.tight_pin else "T2"
-            at = mech.pin(pin_name).center
-            forces.append(("band", br.name, at, (t * u[0], t * u[1]), f"{br.name} {side} {_fmt_force(t)}"))
-    for sp in mech.springs:
-        for end in (0, 1):
-            if sp.parts[end] is None:
+        for end in br.ends:
+            side = "T1" if end.tight else "T2"
+            at = mech.pin(end.pin).center
+            forces.append(("band", br.name, at, end.pull, f"{br.name} {side} {_fmt_force(end.tension_N)}"))
+    for sr in case.springs:
+        for e in sr.ends:
+            if e.part is None:
                 continue
-            f = sp.force_on(end)
-            state = "T" if sp.tension else "C"
-            forces.append(("spring", sp.name, sp.ends[end], f, f"{sp.name} {_fmt_force(sp.force_N or 0.0)} {state}"))
+            state = "T" if sr.state == "tension" else "C"
+            forces.append(("spring", sr.name, e.point, e.force, f"{sr.name} {_fmt_force(sr.force_N)} {state}"))
     fmax = max([math.hypot(*f[3]) for f in forces] + [1e-300])
     mm_per_N, scale_text = _nice_scale(ARROW_FRACTION * drum_d / fmax)
     arrows = tuple(

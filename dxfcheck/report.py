@@ -46,7 +46,7 @@ CAUTION = (
 )
 
 #: Versioned name of the ``solve --json`` document.
-SOLVE_SCHEMA = "dxfcheck.solve/1"
+SOLVE_SCHEMA = "dxfcheck.solve/2"
 
 
 #: Width of the report when the output is not a terminal [characters].
@@ -67,6 +67,7 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
         "direction": str(c.direction),
         "mu": c.mu,
         "torque_Nm": c.torque_Nm,
+        "short_shoe_torque_Nm": c.short_shoe_torque_Nm,
         "critical_mu": c.critical_mu,
         "residual": c.residual,
         "condition": c.condition,
@@ -78,10 +79,15 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
                 "mounting": s.mounting,
                 "contact_angle_deg": s.contact_angle_deg,
                 "normal_N": s.normal_N,
-                "friction_N": s.friction_N,
+                "friction_resultant_N": s.friction_resultant_N,
+                "friction_lining_N": s.friction_lining_N,
                 "torque_Nm": s.torque_Nm,
                 "contact_mm": list(s.contact),
                 "force_N": list(s.force),
+                "normal_force_N": list(s.normal_force),
+                "normal_at_mm": list(s.normal_at),
+                "friction_force_N": list(s.friction_force),
+                "friction_at_mm": list(s.friction_at),
                 "peak_line_load_N_per_mm": s.peak_line_load_N_per_mm,
                 "peak_at_deg": s.peak_at_deg,
                 "mu_equivalent": s.mu_equivalent,
@@ -122,10 +128,28 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
                 "wrap_deg": b.wrap_deg,
                 "torque_Nm": b.torque_Nm,
                 "peak_line_load_N_per_mm": b.peak_line_load_N_per_mm,
+                "ends": [
+                    {
+                        "pin": e.pin,
+                        "tight": e.tight,
+                        "tension_N": e.tension_N,
+                        "tangent_mm": list(e.tangent),
+                        "pull_N": list(e.pull),
+                    }
+                    for e in b.ends
+                ],
             }
             for b in c.bands
         ],
-        "springs": [{"name": s.name, "force_N": s.force_N, "state": s.state} for s in c.springs],
+        "springs": [
+            {
+                "name": s.name,
+                "force_N": s.force_N,
+                "state": s.state,
+                "ends": [{"part": e.part, "at_mm": list(e.point), "force_N": list(e.force)} for e in s.ends],
+            }
+            for s in c.springs
+        ],
         "effort_scale": c.effort_scale,
         "loads": [
             {
@@ -143,7 +167,7 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
 
 
 def solution_to_dict(sol: Solution) -> dict[str, Any]:
-    """The ``dxfcheck.solve/1`` JSON document (schema in the README)."""
+    """The ``dxfcheck.solve/2`` JSON document (schema in the README)."""
     from dxfcheck import __version__
 
     mech = sol.mechanism
@@ -262,18 +286,28 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
             f"[bold]drum {c.direction}[/]  μ = {c.mu:g}   braking torque [bold]{c.torque_Nm:.1f} N·m[/]   "
             f"self-locking μ: {crit}   residual {c.residual:.1e}"
         )
+        if c.short_shoe_torque_Nm is not None:
+            console.print(
+                f"  beside it, short-shoe theory on every shoe: {c.short_shoe_torque_Nm:.1f} N·m "
+                "(the torque above uses long-shoe theory where the shoes table says long)"
+            )
         ts = Table(
-            title="shoes (peak p·b: peak pressure × lining width; μ': equivalent μ, a cross-check)",
+            title=(
+                "shoes (N, F: resultants of the normal and friction forces; F lining: friction summed over the "
+                "lining, × r = torque; peak p·b: peak pressure × lining width; μ': equivalent μ, a cross-check)"
+            ),
             title_justify="left",
         )
-        for col in ("shoe", "model", "normal N", "friction N", "torque N·m", "peak p·b N/mm", "at °", "μ'"):
+        cols = ("shoe", "model", "N N", "F N", "F lining N", "torque N·m", "peak p·b N/mm", "at °", "μ'")
+        for col in cols:
             ts.add_column(col, justify="left" if col in ("shoe", "model") else "right")
         for sr in c.shoes:
             ts.add_row(
                 sr.name,
                 sr.model,
                 f"{sr.normal_N:.1f}",
-                f"{sr.friction_N:.1f}",
+                f"{sr.friction_resultant_N:.1f}",
+                f"{sr.friction_lining_N:.1f}",
                 f"{sr.torque_Nm:.2f}",
                 f"{sr.peak_line_load_N_per_mm:.2f}",
                 f"{sr.peak_at_deg:.1f}",
@@ -344,7 +378,7 @@ def print_error(exc: DxfcheckError, err: IO[str] | None = None) -> None:
 
 
 #: Versioned name of the ``check --json`` document.
-CHECK_SCHEMA = "dxfcheck.check/1"
+CHECK_SCHEMA = "dxfcheck.check/2"
 
 
 def _num(x: float | None) -> float | None:
@@ -371,7 +405,7 @@ def rule_to_dict(r: RuleResult) -> dict[str, Any]:
 
 
 def judgement_to_dict(j: Judgement) -> dict[str, Any]:
-    """The ``dxfcheck.check/1`` JSON document: the solve document at the
+    """The ``dxfcheck.check/2`` JSON document: the solve document at the
     nominal μ plus the verdict, the rules and the spec with its sources."""
     doc = solution_to_dict(j.nominal)
     doc["schema"] = CHECK_SCHEMA

@@ -56,9 +56,11 @@ from dxfcheck.errors import SolveError
 from dxfcheck.findings import Code, Finding, Severity, has_errors
 from dxfcheck.geometry import Point, dist
 from dxfcheck.mechanism import FRAME, Band, Mechanism, Mounting, Part
+from dxfcheck.verify import verify_case
 
 __all__ = [
     "Attachment",
+    "BandEnd",
     "BandResult",
     "CaseSolution",
     "LoadResult",
@@ -66,6 +68,7 @@ __all__ = [
     "PinResult",
     "ShoeResult",
     "Solution",
+    "SpringEnd",
     "SpringResult",
     "critical_mu",
     "solve",
@@ -142,14 +145,25 @@ class PinResult:
 class ShoeResult:
     """One shoe's forces.
 
+    Every vector is the drum's action on the shoe (the shoe's action on the
+    drum is its opposite, along the same line).
+
     Attributes
     ----------
     model : str
         The contact model used (``short-fixed``, ``short-pivoted``,
         ``long-hinged``, ``long-pivoted``).
-    normal_N, friction_N : float
-        Resultants of the normal and of the friction forces between drum and
+    normal_N : float
+        Magnitude of the resultant of the normal forces between drum and
         lining [N] (negative when the shoe would have to pull).
+    friction_resultant_N : float
+        Magnitude of the resultant of the friction forces [N] (μ × the normal
+        resultant; negative when the shoe would have to pull).
+    friction_lining_N : float
+        The friction force summed over the lining, ∫μ·p·b·r dφ [N]: its
+        product with the drum radius is the shoe's torque.  For a short shoe
+        it equals ``friction_resultant_N``; for a long shoe it is larger,
+        since the friction along a curved lining does not all point one way.
     torque_Nm : float
         Braking torque the shoe puts on the drum [N·m], positive against the
         drum's motion.
@@ -157,6 +171,13 @@ class ShoeResult:
         Where the resultant's line of action meets the drum surface [mm].
     force : Point
         Resultant force of the drum on the shoe [N].
+    normal_force, normal_at : Point
+        The normal resultant [N] and a point of its line of action [mm] on
+        the drum surface (the line runs through the drum axis).
+    friction_force, friction_at : Point
+        The friction resultant [N] and a point of its line of action [mm]:
+        the foot of the perpendicular from the drum axis, at r for a short
+        shoe and beyond r for a long one.
     peak_line_load_N_per_mm : float
         Largest lining pressure × width [N/mm]; divide by the width for the
         pressure.  Short shoes: N over the chord (uniform).
@@ -179,10 +200,16 @@ class ShoeResult:
     mounting: str
     contact_angle_deg: float
     normal_N: float
-    friction_N: float
+    friction_resultant_N: float
+    friction_lining_N: float
     torque_Nm: float
     contact: Point
     force: Point
+    normal_force: Point
+    normal_at: Point
+    friction_force: Point
+    friction_at: Point
+    internal: bool = False
     peak_line_load_N_per_mm: float = math.nan
     peak_at_deg: float = math.nan
     mu_equivalent: float = math.nan
@@ -194,6 +221,32 @@ class ShoeResult:
     def peak_pressure_MPa(self, width_mm: float) -> float:
         """Peak lining pressure [MPa] for a lining ``width_mm`` [mm] wide."""
         return self.peak_line_load_N_per_mm / width_mm
+
+
+@dataclass(frozen=True)
+class BandEnd:
+    """One end of a band as solved.
+
+    Attributes
+    ----------
+    pin : str
+        The pin the end's straight piece runs to.
+    tight : bool
+        True at the tight end (where the drum surface moves away from it).
+    tension_N : float
+        Its tension [N].
+    tangent : Point
+        Where the band leaves the drum [mm].
+    pull : Point
+        The band's force on the pin [N], along the straight piece towards the
+        drum; the band's force on the drum at ``tangent`` is its opposite.
+    """
+
+    pin: str
+    tight: bool
+    tension_N: float
+    tangent: Point
+    pull: Point
 
 
 @dataclass(frozen=True)
@@ -214,6 +267,8 @@ class BandResult:
         Largest pressure × band width, T1/r [N/mm], at the tight end.
     kind : str
         ``simple``, ``differential`` or ``two-lever``.
+    ends : tuple of BandEnd
+        The wrap's start end, then its end end, as solved.
     """
 
     name: str
@@ -225,16 +280,28 @@ class BandResult:
     wrap_deg: float
     torque_Nm: float
     peak_line_load_N_per_mm: float
+    ends: tuple[BandEnd, ...] = ()
+
+
+@dataclass(frozen=True)
+class SpringEnd:
+    """The force ``force`` [N] a spring exerts at ``point`` [mm] on ``part``
+    (None: the frame)."""
+
+    part: str | None
+    point: Point
+    force: Point
 
 
 @dataclass(frozen=True)
 class SpringResult:
     """A spring's force ``force_N`` [N] as used; ``state`` is tension or
-    compression."""
+    compression; ``ends`` the force at each end as applied."""
 
     name: str
     force_N: float
     state: str
+    ends: tuple[SpringEnd, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -287,6 +354,13 @@ class CaseSolution:
     condition : float
         Condition number of the equilibrium equations [-].
     findings : tuple of Finding
+    effort_scale : float or None
+        The factor applied to the drawing's efforts (the effort for a
+        torque), else None.
+    short_shoe_torque_Nm : float or None
+        Where any shoe was solved by long-shoe theory: the braking torque of
+        the same drawing and case with short-shoe theory on every shoe
+        [N·m], for comparison; None otherwise (or when that solve fails).
     """
 
     direction: Direction
@@ -303,6 +377,7 @@ class CaseSolution:
     bands: tuple[BandResult, ...] = ()
     springs: tuple[SpringResult, ...] = ()
     effort_scale: float | None = None
+    short_shoe_torque_Nm: float | None = None
 
     def shoe(self, name: str) -> ShoeResult:
         return next(s for s in self.shoes if s.name == name)
@@ -344,6 +419,20 @@ def band_ratio(band: Band, mu: float) -> float:
     (Euler–Eytelwein; Mott, *Machine Elements in Mechanical Design*, 4th ed.,
     §22-15)."""
     return math.exp(mu * math.radians(band.wrap_deg))
+
+
+def tight_at_end(direction: Direction) -> bool:
+    """Whether a band's tight end is the wrap's ``end`` (else its ``start``).
+
+    Friction drags the band along with the drum surface, so along the
+    surface's motion the band element's balance gives dT/dφ = −μT: the
+    tension is highest where the surface *leaves* (moves away from) and
+    lowest where it arrives.  The wrap runs counter-clockwise from ``start``
+    to ``end``: a clockwise drum's surface moves from ``end`` towards
+    ``start``, so ``end`` is tight; a counter-clockwise drum's, the other
+    way round.  The tight end's pull then turns the drum against its motion.
+    """
+    return direction is Direction.CW
 
 
 def _ref_point(mech: Mechanism, part: Part) -> Point:
@@ -442,12 +531,12 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
             c += 1
     # bands: unknown slack-side tension; each end pulls its pin towards the drum
     pin_row = {p.name: 3 * len(bodies) + 2 * k for k, p in enumerate(pins)}
+    at_end = tight_at_end(direction)
     for band in mech.bands:
         ratio = band_ratio(band, mu)
-        tight_at_end = direction is Direction.CCW  # the drum drags the band towards its tight end
         for pin_name, u, tight in (
-            (band.start_pin, band.start_dir, not tight_at_end),
-            (band.end_pin, band.end_dir, tight_at_end),
+            (band.start_pin, band.start_dir, not at_end),
+            (band.end_pin, band.end_dir, at_end),
         ):
             share = ratio if tight else 1.0
             r = pin_row[pin_name]
@@ -694,6 +783,8 @@ def solve_case(
     mu: float,
     direction: Direction | str,
     options: ContactOptions = DEFAULT_OPTIONS,
+    *,
+    locking: bool = True,
 ) -> CaseSolution:
     """Solve the statics of one drum direction.
 
@@ -707,6 +798,9 @@ def solve_case(
         ``"cw"`` or ``"ccw"``, as seen in the drawing.
     options : ContactOptions
         Shoe theory (short, long or auto) and the auto threshold.
+    locking : bool
+        Search for the self-locking limit (``critical_mu``); False skips the
+        search and reports none.
 
     Returns
     -------
@@ -769,7 +863,9 @@ def solve_case(
     residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale
     if residual > RESIDUAL_LIMIT:
         findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
-    return _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options)
+    case = _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options if locking else None)
+    verify_case(mech, case)
+    return case
 
 
 def _shoe_result(
@@ -778,8 +874,9 @@ def _shoe_result(
     s = next(sh for sh in mech.shoes if sh.name == ws[0].model or sh is getattr(model, "shoe", None))
     force, normal, friction, torque = combine(ws, coeffs)
     assert mech.drum is not None
-    m_o = moment_about_center(ws, coeffs, mech.drum.center)
-    point = line_of_action_point(mech.drum.center, mech.drum.radius_mm, force, m_o, s.arc.mid_deg)
+    center, radius = mech.drum.center, mech.drum.radius_mm
+    m_o = moment_about_center(ws, coeffs, center)
+    point = line_of_action_point(center, radius, force, m_o, s.arc.mid_deg)
     total = sum(c * w.torque_per_unit_Nmm for c, w in zip(coeffs, ws, strict=True))
     sign = 1.0 if total >= 0 else -1.0
     peak, peak_deg = model.peak(coeffs)
@@ -793,6 +890,10 @@ def _shoe_result(
         if isinstance(model, LongPivotedShoe)
         else (s.arc.start_deg, s.arc.end_deg)
     )
+    # the normal forces are radial: their resultant runs through the axis and
+    # the whole moment about the axis is the friction's
+    normal_at = line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg)
+    friction_at = _foot_of_line(center, friction, m_o, point)
     return ShoeResult(
         name=s.name,
         part=s.part,
@@ -800,10 +901,16 @@ def _shoe_result(
         mounting=str(s.mounting),
         contact_angle_deg=s.contact_angle_deg,
         normal_N=sign * math.hypot(*normal),
-        friction_N=sign * math.hypot(*friction),
+        friction_resultant_N=sign * math.hypot(*friction),
+        friction_lining_N=torque / radius,
         torque_Nm=torque / 1000.0,
         contact=point,
         force=force,
+        normal_force=normal,
+        normal_at=normal_at,
+        friction_force=friction,
+        friction_at=friction_at,
+        internal=s.internal,
         peak_line_load_N_per_mm=peak,
         peak_at_deg=peak_deg,
         mu_equivalent=equivalent_mu(mu, s.contact_angle_deg),
@@ -811,6 +918,43 @@ def _shoe_result(
         contact_from_deg=patch[0],
         contact_to_deg=patch[1],
         line_load=load,
+    )
+
+
+def _foot_of_line(center: Point, force: Point, moment: float, fallback: Point) -> Point:
+    """The foot of the perpendicular from ``center`` to the line of action of
+    ``force`` [N] whose moment about ``center`` is ``moment`` [N·mm]."""
+    f2 = force[0] ** 2 + force[1] ** 2
+    if f2 == 0.0:
+        return fallback
+    return (center[0] + moment * force[1] / f2, center[1] - moment * force[0] / f2)
+
+
+def _band_result(band: Band, slack: float, mu: float, direction: Direction) -> BandResult:
+    tight = slack * band_ratio(band, mu)
+    at_end = tight_at_end(direction)
+    ends = []
+    for pin, u, deg, is_tight in (
+        (band.start_pin, band.start_dir, band.start_deg, not at_end),
+        (band.end_pin, band.end_dir, band.end_deg, at_end),
+    ):
+        t = tight if is_tight else slack
+        tangent = (
+            band.center[0] + band.radius_mm * math.cos(math.radians(deg)),
+            band.center[1] + band.radius_mm * math.sin(math.radians(deg)),
+        )
+        ends.append(BandEnd(pin, is_tight, t, tangent, (t * u[0], t * u[1])))
+    return BandResult(
+        name=band.name,
+        kind=band.kind,
+        tight_N=tight,
+        slack_N=slack,
+        tight_pin=band.end_pin if at_end else band.start_pin,
+        slack_pin=band.start_pin if at_end else band.end_pin,
+        wrap_deg=band.wrap_deg,
+        torque_Nm=(tight - slack) * band.radius_mm / 1000.0,
+        peak_line_load_N_per_mm=tight / band.radius_mm,
+        ends=tuple(ends),
     )
 
 
@@ -824,8 +968,10 @@ def _results(
     residual: float,
     cond: float,
     findings: list[Finding],
-    options: ContactOptions,
+    options: ContactOptions | None,
 ) -> CaseSolution:
+    """The results of one solve; ``options`` None skips the self-locking
+    search."""
     att: dict[str, list[Attachment]] = {}
     j = 0
     while j < len(sys_.col_owner):
@@ -874,24 +1020,9 @@ def _results(
         if kind != "band":
             continue
         band = next(b for b in mech.bands if b.name == name)
-        slack = float(x[j])
-        tight = slack * band_ratio(band, mu)
-        at_end = direction is Direction.CCW
-        bands.append(
-            BandResult(
-                name=name,
-                kind=band.kind,
-                tight_N=tight,
-                slack_N=slack,
-                tight_pin=band.end_pin if at_end else band.start_pin,
-                slack_pin=band.start_pin if at_end else band.end_pin,
-                wrap_deg=band.wrap_deg,
-                torque_Nm=(tight - slack) * band.radius_mm / 1000.0,
-                peak_line_load_N_per_mm=tight / band.radius_mm,
-            )
-        )
+        bands.append(_band_result(band, float(x[j]), mu, direction))
     torque = sum(s.torque_Nm for s in shoes) + sum(b.torque_Nm for b in bands)
-    mu_c = critical_mu(mech, direction, options)
+    mu_c = critical_mu(mech, direction, options) if options is not None else None
     fmax = max(
         [abs(s.normal_N) for s in shoes] + [abs(b.tight_N) for b in bands] + [ld.force_N for ld in loads] + [1e-300]
     )
@@ -944,7 +1075,13 @@ def _results(
         findings=tuple(findings),
         bands=tuple(bands),
         springs=tuple(
-            SpringResult(sp.name, sp.force_N or 0.0, "tension" if sp.tension else "compression") for sp in mech.springs
+            SpringResult(
+                sp.name,
+                sp.force_N or 0.0,
+                "tension" if sp.tension else "compression",
+                tuple(SpringEnd(sp.parts[k], sp.ends[k], sp.force_on(k)) for k in (0, 1)),
+            )
+            for sp in mech.springs
         ),
     )
 
@@ -962,8 +1099,21 @@ def solve(
     SolveError
         As :func:`solve_case`.
     """
-    cases = tuple(solve_case(mech, mu, d, options) for d in directions)
+    cases = tuple(_beside_short(mech, solve_case(mech, mu, d, options), options) for d in directions)
     return _solution(mech, cases, options)
+
+
+def _beside_short(mech: Mechanism, case: CaseSolution, options: ContactOptions) -> CaseSolution:
+    """``case`` with the short-shoe torque of the same drawing beside it,
+    where any of its shoes was solved by long-shoe theory."""
+    if not any(s.model.startswith("long") for s in case.shoes):
+        return case
+    short = ContactOptions(ShoeModelChoice.SHORT, options.long_threshold_deg)
+    try:
+        other = solve_case(mech, case.mu, case.direction, short, locking=False)
+    except SolveError:
+        return case
+    return replace(case, short_shoe_torque_Nm=other.torque_Nm)
 
 
 def _solution(mech: Mechanism, cases: tuple[CaseSolution, ...], options: ContactOptions) -> Solution:
@@ -1006,6 +1156,6 @@ def solve_for_torque(
                 path=mech.drawing.path,
             )
         k = torque_Nm / base.torque_Nm
-        case = solve_case(mech.scaled(k), mu, d, options)
+        case = _beside_short(mech.scaled(k), solve_case(mech.scaled(k), mu, d, options), options)
         cases.append(replace(case, effort_scale=k))
     return _solution(mech.scaled(1.0), tuple(cases), options)

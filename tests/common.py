@@ -202,8 +202,9 @@ def differential_band(*, r: float, wrap_deg: float, a: float, c: float, arm: flo
     of the wrap's start piece is ``a`` and to the end piece ``c``, with the
     two tensions turning the lever opposite ways (the geometry of the
     differential-band formula W·L = T2·a − T1·c, Mott §22-15); the effort
-    pushes down at ``arm`` from O.  For a counter-clockwise drum the wrap's
-    end (the left side) is the tight side."""
+    pushes down at ``arm`` from O.  For a clockwise drum the wrap's end (the
+    left side, pin C, arm ``c``) is the tight side: there the drum's top
+    surface moves away from it, to the right, and drags the band away from C."""
     half = wrap_deg / 2
     s_deg, e_deg = 90 - half, 90 + half
     ps, pe = _tangent_point(r, s_deg), _tangent_point(r, e_deg)
@@ -241,7 +242,8 @@ def simple_band(
     *, r: float, wrap_deg: float, anchor_run: float, arm: float, effort: str | None, units: str = "mm"
 ) -> Sketch:
     """A simple band brake: the wrap symmetric about the top of the drum,
-    its end (left, tight for a counter-clockwise drum) anchored at the
+    its end (left; tight for a clockwise drum, whose top surface moves right,
+    away from it) anchored at the
     lever's fulcrum O, ``anchor_run`` down the band's line from the drum; the
     start piece runs to a pin A on the lever, which runs horizontally from O
     through A; the effort pushes down at ``arm`` from O."""

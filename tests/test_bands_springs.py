@@ -47,13 +47,20 @@ def test_mott_example_22_10(tmp_path):
     Problem 22-10 [seen]: r = 6 in, wrap 225°, b = 2 in, p_max = 25 psi,
     μ = 0.25 -> T1 = p_max·b·r = 300 lb, T2 = 112 lb, T = 1128 lb·in
     (1125.6 unrounded).  Drawn in inches; the effort is set for T1 = 300 lb
-    in the direction where the anchored end is tight."""
+    in the direction where the anchored end is tight.
+
+    Direction: the simple band's lever carries the slack end only (W = T2·a/L,
+    Mott §22-15), so the anchor O must be the tight end.  The figure's drum
+    direction was not re-read (from memory); it follows from the physics.
+    The anchor is at the wrap's left end; a clockwise drum's top surface
+    moves right, away from O, dragging the band away from it: O is tight in
+    the clockwise case, A (the lever end) in the counter-clockwise one."""
     w, t2 = _simple_band_effort(300.0, 0.25, 225, 6.0, 4.0, 20.0)
     sk = simple_band(r=6, wrap_deg=225, anchor_run=4, arm=20, effort=f"{w!r} lbf", units="inch")
     sol = _solve(tmp_path, sk, 0.25)
     assert sol.mechanism.drawing.units == "inch"
     assert sol.mechanism.family == "simple band brake"
-    (band,) = sol.case("ccw").bands
+    (band,) = sol.case("cw").bands
     assert band.tight_pin == "O" and band.wrap_deg == pytest.approx(225)
     assert band.tight_N / LBF_N == pytest.approx(300.0, rel=1e-9)
     assert band.slack_N / LBF_N == pytest.approx(112, abs=0.5)  # printed as a whole number
@@ -62,9 +69,11 @@ def test_mott_example_22_10(tmp_path):
     # p_max = T1/(b·r) at the tight end
     assert band.peak_line_load_N_per_mm / (2 * 25.4) / (LBF_N / 25.4**2) == pytest.approx(25.0, rel=1e-9)
     # the other direction: the lever end is tight, W·L = T1·a
-    (other,) = sol.case("cw").bands
+    (other,) = sol.case("ccw").bands
     assert other.tight_pin == "A"
     assert other.tight_N == pytest.approx(band.slack_N, rel=1e-9)
+    # both cases brake: the torque opposes the drum's motion
+    assert sol.case("cw").torque_Nm > 0 and sol.case("ccw").torque_Nm > 0
 
 
 def test_jindal_example_23_2(tmp_path):
@@ -72,7 +81,9 @@ def test_jindal_example_23_2(tmp_path):
     μ = 0.22, wrap 225°, r = 200 -> T2 = 4046.4 N, T = 1110.72 N·m."""
     w, _ = _simple_band_effort(9600.0, 0.22, 225, 200.0, 150.0, 700.0)
     sk = simple_band(r=200, wrap_deg=225, anchor_run=150, arm=700, effort=f"{w!r} N")
-    (band,) = _solve(tmp_path, sk, 0.22).case("ccw").bands
+    # the anchored end O tight: the clockwise drum (see the Mott test above)
+    (band,) = _solve(tmp_path, sk, 0.22).case("cw").bands
+    assert band.tight_pin == "O"
     assert band.tight_N == pytest.approx(9600, rel=1e-9)
     assert band.slack_N == pytest.approx(4046.4, rel=2e-5)
     assert band.torque_Nm == pytest.approx(1110.72, rel=2e-5)
@@ -83,7 +94,12 @@ def test_book764_differential_band_example_12_10(tmp_path):
     T1 = 15000 N, μ = 0.25, r = 300, wrap 240°, a = 200, c = 50, L = 950 ->
     T2 = 5263.8 N, W = 318.69 N, T = 2920.86 N·m; not self-locking.
     Differential band W·L = T2·a − T1·c; self-locks when a/c ≤ e^(μθ)
-    (Mott 4th ed., §22-15)."""
+    (Mott 4th ed., §22-15).
+
+    Direction: the formula has the tight end on the short arm c (pin C, the
+    wrap's left end), whose pull helps the effort.  The drum surface moves
+    away from C when the drum turns clockwise (its top moves right): the
+    clockwise case.  Counter-clockwise, A is tight and the brake is weaker."""
     mu, theta = 0.25, math.radians(240)
     t1 = 15000.0
     t2 = t1 / math.exp(mu * theta)
@@ -91,8 +107,9 @@ def test_book764_differential_band_example_12_10(tmp_path):
     assert w == pytest.approx(318.69, rel=2e-5)
     sol = _solve(tmp_path, differential_band(r=300, wrap_deg=240, a=200, c=50, arm=950, effort=f"{w!r} N"), mu)
     assert sol.mechanism.family == "differential band brake"
-    case = sol.case("ccw")
+    case = sol.case("cw")
     (band,) = case.bands
+    assert (band.tight_pin, band.slack_pin) == ("C", "A")
     assert band.tight_N == pytest.approx(t1, rel=1e-9)
     assert band.slack_N == pytest.approx(5263.8, rel=2e-5)
     assert case.torque_Nm == pytest.approx(2920.86, rel=2e-5)
@@ -102,12 +119,17 @@ def test_book764_differential_band_example_12_10(tmp_path):
 
 def test_self_locking_differential_band(tmp_path):
     """a/c = 2 < e^(0.25·240°) = 2.85: the band self-locks in the direction
-    whose tight end has the short arm; critical μ = ln(a/c)/θ (Mott §22-15)."""
+    whose tight end has the short arm; critical μ = ln(a/c)/θ (Mott §22-15).
+    The short arm c is at pin C, the wrap's left end, tight when the drum
+    turns clockwise (its surface moves away from C): the clockwise case
+    locks, the counter-clockwise one (A tight, its pull against the effort)
+    cannot."""
     theta = math.radians(240)
     sol = _solve(tmp_path, differential_band(r=300, wrap_deg=240, a=100, c=50, arm=950, effort="300 N"), 0.25)
-    assert sol.case("ccw").critical_mu == pytest.approx(math.log(2) / theta, rel=1e-9)
+    assert sol.case("cw").critical_mu == pytest.approx(math.log(2) / theta, rel=1e-9)
+    assert sol.case("ccw").critical_mu is None
     locked = [f for f in sol.findings if f.code is Code.SELF_LOCKING]
-    assert len(locked) == 1 and "ccw" in locked[0].message
+    assert len(locked) == 1 and locked[0].message.startswith("cw:")
 
 
 def test_spring_set_double_block(tmp_path):
@@ -121,7 +143,7 @@ def test_spring_set_double_block(tmp_path):
     assert "spring-set" in sol.mechanism.family
     assert not [f for f in sol.findings if f.code is Code.OPEN_END]
     for c in sol.cases:
-        ft = sorted(s.friction_N for s in c.shoes)
+        ft = sorted(s.friction_lining_N for s in c.shoes)
         assert ft == [pytest.approx(2690, rel=5e-4), pytest.approx(5156, rel=5e-4)]
         assert c.torque_Nm == pytest.approx(1412.2, rel=2e-4)
         assert [(s.force_N, s.state) for s in c.springs] == [(3500.0, "tension")]
@@ -224,16 +246,16 @@ def test_band_rules_and_effort_margin(tmp_path):
             ("lining_width", "80 mm"),
             ("lining_pressure_max", f"{p * 1.0001} MPa"),
             ("required_torque", "1110.72 N*m"),
-            ("directions", "ccw"),
+            ("directions", "cw"),  # the anchor O tight (see test_mott_example_22_10)
         ],
     )
     rules = {r.rule: r for r in j.rules}
     assert rules["band.pressure.band1"].value == pytest.approx(p, rel=1e-9)
     assert str(rules["band.pressure.band1"].verdict) == "pass"
     assert str(rules["band.taut.band1"].verdict) == "pass"
-    eff = rules["effort.ccw"]
+    eff = rules["effort.cw"]
     assert eff.limit == pytest.approx(w, rel=1e-12)
-    assert eff.value == pytest.approx(w * 1110.72 / j.solutions[0.22].case("ccw").torque_Nm, rel=1e-12)
+    assert eff.value == pytest.approx(w * 1110.72 / j.solutions[0.22].case("cw").torque_Nm, rel=1e-12)
     assert eff.margin == pytest.approx(1.0, rel=3e-5)
 
 
@@ -241,7 +263,7 @@ def test_marked_copy_shows_band_and_spring_forces(tmp_path):
     from dxfcheck.markup import plan_markup
 
     sol = _solve(tmp_path, differential_band(r=300, wrap_deg=240, a=200, c=50, arm=950, effort="300 N"), 0.25)
-    kinds = {a.kind for a in plan_markup(sol, "ccw").arrows}
+    kinds = {a.kind for a in plan_markup(sol, "cw").arrows}
     assert "band" in kinds
     sk = double_block_spring_pair(r=180, l=450, x=200, a=140, spring=None)
     sk.items = [it for it in sk.items if not (it[0] == "path" and it[1] == "load")]

@@ -49,7 +49,8 @@ def test_lever_equation_both_directions(tmp_path, l, x, a, mu):
     assert normals == pytest.approx(expected, rel=1e-9)
     for c in sol.cases:
         s = c.shoes[0]
-        assert s.friction_N == pytest.approx(mu * s.normal_N, rel=1e-12)
+        assert s.friction_resultant_N == pytest.approx(mu * s.normal_N, rel=1e-12)
+        assert s.friction_lining_N == pytest.approx(s.friction_resultant_N, rel=1e-12)  # a short shoe
         assert c.torque_Nm == pytest.approx(mu * s.normal_N * 200 / 1000, rel=1e-12)  # T = μ·N·r
     if a == 0:
         # with the friction line through the pivot both directions are equal
@@ -105,7 +106,7 @@ def test_exam_single_block_with_equivalent_mu(tmp_path):
     sol = _solve(tmp_path, sk, mu_eq, shoe_model="short")
     aiding = max(sol.cases, key=lambda c: c.shoes[0].normal_N)
     assert aiding.shoes[0].normal_N == pytest.approx(1742.7, rel=3e-4)
-    assert aiding.shoes[0].friction_N == pytest.approx(671.0, rel=3e-4)
+    assert aiding.shoes[0].friction_lining_N == pytest.approx(671.0, rel=3e-4)
     assert aiding.torque_Nm == pytest.approx(83.87, rel=3e-4)
 
 
@@ -118,10 +119,12 @@ def test_sarkar_double_block(tmp_path):
     sk = double_block_spring_pair(r=180, l=450, x=200, a=140, spring="3500 N")
     sol = _solve(tmp_path, sk, 0.4489)
     for c in sol.cases:
-        ft = sorted(s.friction_N for s in c.shoes)
+        ft = sorted(s.friction_lining_N for s in c.shoes)
         assert ft[0] == pytest.approx(2690, rel=5e-4)
         assert ft[1] == pytest.approx(5156, rel=5e-4)
         assert c.torque_Nm == pytest.approx(1412.2, rel=2e-4)
     # the two directions swap the roles of the shoes
     cw, ccw = sol.case("cw"), sol.case("ccw")
-    assert cw.shoe("left block").friction_N == pytest.approx(ccw.shoe("right block").friction_N, rel=1e-12)
+    assert cw.shoe("left block").friction_lining_N == pytest.approx(
+        ccw.shoe("right block").friction_lining_N, rel=1e-12
+    )

@@ -288,7 +288,7 @@ def test_junit_parses_and_counts_rules(brake, tmp_path):
     r = cli("check", brake, "--mu", MU, "--set", "pin_shear_allow=1MPa", "--junit", out, "--json")
     assert r.returncode == 1
     doc = json.loads(r.stdout)
-    assert doc["schema"] == "dxfcheck.check/1" and doc["verdict"] == "fail"
+    assert doc["schema"] == "dxfcheck.check/2" and doc["verdict"] == "fail"
     suite = ET.parse(out).getroot().find("testsuite")
     cases = suite.findall("testcase")
     assert len(cases) == len(doc["rules"]) == int(suite.get("tests"))

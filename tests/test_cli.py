@@ -31,12 +31,12 @@ def test_solve_json_schema():
     r = run("solve", DEMO, "--mu", "0.35", "--json")
     assert r.returncode == 0, r.stderr
     doc = json.loads(r.stdout)
-    assert doc["schema"] == "dxfcheck.solve/1"
+    assert doc["schema"] == "dxfcheck.solve/2"
     assert doc["units"]["name"] == "mm"
     assert [c["direction"] for c in doc["cases"]] == ["cw", "ccw"]
     case = doc["cases"][0]
     assert case["mu"] == 0.35
-    for key in ("name", "normal_N", "friction_N", "torque_Nm"):
+    for key in ("name", "normal_N", "friction_resultant_N", "friction_lining_N", "torque_Nm", "friction_at_mm"):
         assert all(key in s for s in case["shoes"])
     for key in ("name", "x_mm", "y_mm", "fx_N", "fy_N", "force_N", "parts"):
         assert all(key in p for p in case["pins"])

@@ -68,9 +68,12 @@ def test_symmetric_pivoted_shoe(tmp_path, given_, published, direction):
         assert s.pressure_offset_deg == pytest.approx(0.0, abs=1e-7)  # ψ = 0 at the ideal pin distance
         assert s.peak_line_load_N_per_mm / b == pytest.approx(pa, rel=1e-9)
         assert s.normal_N == pytest.approx(published["rx"], rel=5e-5)
-        assert s.friction_N == pytest.approx(mu * s.normal_N, rel=1e-9)  # Ry = μN
+        assert s.friction_resultant_N == pytest.approx(mu * s.normal_N, rel=1e-9)  # Ry = μN
         if published["ry"] is not None:
-            assert s.friction_N == pytest.approx(published["ry"], rel=2e-4)
+            assert s.friction_resultant_N == pytest.approx(published["ry"], rel=2e-4)
+        # the friction summed over the lining is T/r = (a/r)·μN, larger than the resultant Ry
+        assert s.friction_lining_N == pytest.approx(a / r * mu * s.normal_N, rel=1e-9)
+        assert s.friction_lining_N * r / 1000 == pytest.approx(s.torque_Nm, rel=1e-12)
         # T = a·μ·N = 2μ·pa·b·r²·sinθ2 per shoe
         assert s.torque_Nm == pytest.approx(2 * mu * pa * b * r**2 * math.sin(semi) / 1000, rel=1e-9)
         assert s.torque_Nm == pytest.approx(a * mu * s.normal_N / 1000, rel=1e-9)
