@@ -23,14 +23,15 @@ from __future__ import annotations
 
 import enum
 import math
+import re
 from collections.abc import Sequence
 from dataclasses import dataclass, field, replace
 
 from dxfcheck.config import Role
 from dxfcheck.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source, TextGeom
-from dxfcheck.findings import Code, Finding
+from dxfcheck.findings import Code, Finding, Severity
 from dxfcheck.geometry import Point, angle_in_arc, dist, point_segment_distance, unit
-from dxfcheck.units import UnitError, parse_quantity
+from dxfcheck.units import FORCE_N, AmbiguousTextError, UnitError, quantity_in_text
 
 __all__ = [
     "FRAME",
@@ -637,29 +638,19 @@ def build_mechanism(
                 )
         magnitude: float | None = None
         text: str | None = None
+        read: _TextForce | None = None
         if j in text_for:
-            t = text_for[j]
-            text = t.text
-            try:
-                magnitude = parse_quantity(t.text, "force").value
-            except UnitError as exc:
-                findings.append(
-                    _f(Code.TEXT_UNREAD, f"load text {t.text!r} is not a force: {exc}", [t.source], t.position)
-                )
+            text = text_for[j].text
+            read = _text_force(f"load {name}", text_for[j], findings, used=effort_N is None)
+            magnitude = read.force_N
         if effort_N is not None:
             magnitude = effort_N
             text = None
         if magnitude is None and default_magnitude_N is not None:
             magnitude = default_magnitude_N
-        if magnitude is None:
-            findings.append(
-                _f(
-                    Code.LOAD_NO_MAGNITUDE,
-                    f"load {name} has no magnitude; put a text such as '1.2 kN' beside it or pass --effort",
-                    [lp.source],
-                    start,
-                )
-            )
+        if magnitude is None and not (read and read.ambiguous):  # an ambiguous text is its own error, M222
+            msg = _no_magnitude(f"load {name}", read, "1.2 kN")
+            findings.append(_f(Code.LOAD_NO_MAGNITUDE, msg, [lp.source], start))
         loads.append(Load(name, part, start, direction, magnitude, text, lp.source))
     if not load_paths and not drawing.paths_of(Role.SPRING):
         findings.append(
@@ -672,7 +663,9 @@ def build_mechanism(
     # -- springs -----------------------------------------------------------------
     given = effort_N if effort_N is not None else default_magnitude_N
     pivots = [g.center for g in pin_geoms if g.role is Role.PIVOT]
-    springs = _springs(drawing, group_list, links, part_names, pivots, tol, findings, given is not None)
+    springs = _springs(
+        drawing, group_list, links, part_names, pivots, tol, findings, given is not None, text_used=effort_N is None
+    )
     if effort_N is not None:
         springs = [replace(sp, force_N=effort_N) for sp in springs]
     elif default_magnitude_N is not None:
@@ -774,22 +767,84 @@ def build_mechanism(
     )
 
 
+#: Words that give a spring's sense: False pushes (compression), True pulls
+#: (tension).
 _SENSE_WORDS = {"c": False, "comp": False, "compression": False, "t": True, "tens": True, "tension": True}
+#: A word of letters, not glued to a digit after it (``T1`` is a name).
+_WORD = re.compile(r"(?<![^\W\d_])[^\W\d_]+(?!\w)")
 
 
-def _spring_text(text: str) -> tuple[float | None, bool | None, str | None]:
-    """``"4.2 kN C"`` -> (4200.0, False, None): the last word (bracketed or
-    not) says compression (C) or tension (T)."""
-    words = text.replace("(", " ").replace(")", " ").split()
-    sense: bool | None = None
-    if words and words[-1].lower() in _SENSE_WORDS:
-        sense = _SENSE_WORDS[words[-1].lower()]
-        words = words[:-1]
+def _text_finding(code: Code, msg: str, t: TextGeom, used: bool) -> Finding:
+    """A finding on a text; an ambiguous text is an error only when its value
+    is used (not replaced by ``--effort``)."""
+    f = _f(code, msg, [t.source], t.position)
+    if code is Code.TEXT_AMBIGUOUS and not used:
+        return replace(f, severity=Severity.WARNING)
+    return f
+
+
+@dataclass(frozen=True)
+class _TextForce:
+    """What a load's or spring's text gave: the force [N], or why not."""
+
+    force_N: float | None
+    why_not: str | None = None
+    ambiguous: bool = False
+
+
+def _text_force(who: str, t: TextGeom, findings: list[Finding], *, used: bool, glued: str = "") -> _TextForce:
+    """The force a load's or spring's text gives, or a finding that quotes
+    the text: M222 when it could be read two ways, M216 when it holds no
+    force or a signed one (the line gives the direction)."""
     try:
-        value = parse_quantity(" ".join(words), "force").value
+        q = quantity_in_text(t.text, "force", glued=glued)
+    except AmbiguousTextError as exc:
+        findings.append(_text_finding(Code.TEXT_AMBIGUOUS, f"{who}: {exc}", t, used))
+        return _TextForce(None, str(exc), ambiguous=True)
     except UnitError as exc:
-        return None, sense, str(exc)
-    return value, sense, None
+        findings.append(_text_finding(Code.TEXT_UNREAD, f"{who}: {exc}", t, used))
+        return _TextForce(None, str(exc))
+    if q.value < 0:
+        why = (
+            f"{t.text!r} gives a negative force {q.text!r}; the line gives the direction: "
+            "write the magnitude without a sign and draw the line the way the force acts"
+        )
+        findings.append(_text_finding(Code.TEXT_UNREAD, f"{who}: {why}", t, used))
+        return _TextForce(None, why)
+    return _TextForce(q.value)
+
+
+def _no_magnitude(who: str, read: _TextForce | None, example: str) -> str:
+    """The M209 message, with why a text that was there gave no force."""
+    if read is None:
+        return f"{who} has no magnitude; put a text such as {example!r} beside it or pass --effort"
+    return f"{who} has no magnitude: {read.why_not}; or pass --effort"
+
+
+def _spring_sense(who: str, t: TextGeom, findings: list[Finding]) -> tuple[bool | None, bool]:
+    """Whether a spring's text says tension (True) or compression (False):
+    a word C, T, compression, tension anywhere in it, or C/T glued to the
+    unit (``1.2kNT``); None when it says neither.  The second value is True
+    when it says both (an M222 finding is added)."""
+    said: dict[bool, str] = {}
+    for m in _WORD.finditer(t.text):
+        word = m[0].lower()
+        if word in _SENSE_WORDS:
+            said.setdefault(_SENSE_WORDS[word], m[0])
+        elif word[-1] in "ct" and word[:-1] in FORCE_N:
+            said.setdefault(_SENSE_WORDS[word[-1]], m[0])
+    if len(said) > 1:
+        findings.append(
+            _f(
+                Code.TEXT_AMBIGUOUS,
+                f"{who}: {t.text!r} says both compression ({said[False]!r}) and tension ({said[True]!r}); "
+                "keep the one that applies",
+                [t.source],
+                t.position,
+            )
+        )
+        return None, True
+    return next(iter(said), None), False
 
 
 def _springs(
@@ -801,6 +856,8 @@ def _springs(
     tol: float,
     findings: list[Finding],
     magnitude_given: bool,
+    *,
+    text_used: bool = True,
 ) -> list[Spring]:
     paths = drawing.paths_of(Role.SPRING)
     text_for: dict[int, TextGeom] = {}
@@ -840,29 +897,30 @@ def _springs(
         force: float | None = None
         sense: bool | None = None
         text: str | None = None
+        read: _TextForce | None = None
         if j in text_for:
             t = text_for[j]
             text = t.text
-            force, sense, err = _spring_text(t.text)
-            if err:
-                findings.append(
-                    _f(Code.TEXT_UNREAD, f"{name}: text {t.text!r} is not a force: {err}", [t.source], t.position)
-                )
+            read = _text_force(name, t, findings, used=text_used, glued="CTct")
+            force = read.force_N
+            sense, both = _spring_sense(name, t, findings)
+            if both:
+                continue
         if sense is None:
+            what = "it has no text" if text is None else f"its text {text!r} says neither"
             findings.append(
                 _f(
                     Code.SPRING_NO_SENSE,
-                    f"{name}: say whether it pushes or pulls: end its text with C "
-                    "(compression) or T (tension), e.g. '4.2 kN C'",
+                    f"{name}: say whether it pushes or pulls ({what}): write C (compression) or T (tension) "
+                    "in its text, e.g. '4.2 kN C'",
                     [sp.source],
                     a,
                 )
             )
             continue
-        if force is None and not magnitude_given:
-            findings.append(
-                _f(Code.LOAD_NO_MAGNITUDE, f"{name} has no force; write e.g. '4.2 kN C' beside it", [sp.source], a)
-            )
+        if force is None and not magnitude_given and not (read and read.ambiguous):
+            msg = _no_magnitude(name, read, "4.2 kN C")
+            findings.append(_f(Code.LOAD_NO_MAGNITUDE, msg, [sp.source], a))
         out.append(Spring(name, (a, b), (ends[0], ends[1]), force, sense, text, sp.source))
     return out
 

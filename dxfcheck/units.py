@@ -25,10 +25,13 @@ __all__ = [
     "FORCE_N",
     "INSUNITS_MM",
     "LENGTH_MM",
+    "SPACES",
+    "AmbiguousTextError",
     "Quantity",
     "UnitError",
     "length_unit_factor",
     "parse_quantity",
+    "quantity_in_text",
 ]
 
 INCH_MM = 25.4
@@ -155,12 +158,39 @@ DIMENSIONS: dict[str, tuple[dict[str, float], str]] = {
     "pv": (PV_MPA_M_S, "MPa*m/s"),
 }
 
-_NUMBER = r"[-+]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][-+]?\d+)?"
-_QUANTITY = re.compile(rf"^\s*(?P<num>{_NUMBER})\s*(?P<unit>[^\s\d].*?)?\s*$")
+#: Spaces that may group a number's digits in threes: space, no-break space,
+#: thin space, narrow no-break space, figure space.
+SPACES = " \u00a0\u2009\u202f\u2007"
+_SP = f"[{SPACES}]"
+_MANTISSA = (
+    rf"\d{{1,3}}(?:{_SP}\d{{3}})+(?!\d)(?:[.,]\d+)?"  # 1 200, 1 200,5: spaces group, the mark is decimal
+    r"|\d{1,3}(?:,\d{3})+\.\d+"  # 1,200.5: both marks, the last one is decimal
+    r"|\d{1,3}(?:\.\d{3})+,\d+"  # 1.200,5
+    r"|\d{1,3}(?:,\d{3}){2,}(?![\d.,])"  # 1,200,000: a mark twice is no decimal mark
+    r"|\d{1,3}(?:\.\d{3}){2,}(?![\d.,])"  # 1.200.000
+    r"|\d+(?:[.,]\d*)?|[.,]\d+"  # one mark or none
+)
+_NUMBER = rf"(?P<sign>[-+\u2212])?(?P<mant>{_MANTISSA})(?P<exp>[eE][-+]?\d+)?"
+_QUANTITY = re.compile(rf"^\s*{_NUMBER}\s*(?P<unit>[^\s\d].*?)?\s*$")
+#: A single mark with one to three digits before it (not a lone 0) and
+#: exactly three after it: a decimal mark or a thousands mark.
+_AMBIGUOUS = re.compile(r"^(?P<int>[1-9]\d{0,2})(?P<mark>[.,])(?P<frac>\d{3})$")
+#: In a text with words around: a number not glued to a word before it
+#: (``F1``, ``M12`` are names), then perhaps the word after it.
+_UNIT_CHARS = r"[^\s\d()\[\]{},;:=\-\u2013×*]"
+_IN_TEXT = re.compile(rf"(?<![\w.,]){_NUMBER}(?:[{SPACES}]*(?P<unit>{_UNIT_CHARS}[^\s()\[\]{{}},;:=\-\u2013]*))?")
+#: Words after a number that make it a factor or a range start (``2 x 600 N``,
+#: ``1.2 to 1.5 kN``): the text does not say one force.
+_FACTOR_WORDS = {"x", "×", "*", "to", "bis", "..."}
 
 
 class UnitError(ValueError):
     """A text could not be read as a quantity of the expected dimension."""
+
+
+class AmbiguousTextError(UnitError):
+    """A text that could be read two ways: a number such as ``1,200`` (a
+    decimal or a thousands mark), or a text holding more than one value."""
 
 
 @dataclass(frozen=True)
@@ -212,13 +242,72 @@ def length_unit_factor(name: str) -> float:
     return table[key]
 
 
+def _decimal_hint(int_part: str, mark: str, frac: str) -> str:
+    """How to write the decimal reading of ``int_part mark frac`` unambiguously:
+    trailing zeros dropped (``1,200`` -> ``1,2``), or a zero added when all
+    three digits count (``1,234`` -> ``1,2340``)."""
+    short = frac.rstrip("0")
+    if not short:
+        return int_part
+    return f"{int_part}{mark}{short}" if len(short) < 3 else f"{int_part}{mark}{frac}0"
+
+
+def _ambiguous(text: str, mant: str) -> AmbiguousTextError | None:
+    """The error for a number whose single mark may be a decimal or a
+    thousands mark, or None."""
+    m = _AMBIGUOUS.match(mant)
+    if m is None:
+        return None
+    dec = _decimal_hint(m["int"], m["mark"], m["frac"])
+    thou = m["int"] + m["frac"]
+    mark = "comma" if m["mark"] == "," else "point"
+    as_dec, as_thou = (text.strip().replace(mant, alt, 1) for alt in (dec, thou))
+    return AmbiguousTextError(
+        f"{text.strip()!r} is ambiguous: in {mant!r} the {mark} may be a decimal mark ({dec}) or a "
+        f"thousands mark ({thou}); write {as_dec!r} or {as_thou!r} (a space may group thousands: "
+        f"{m['int']} {m['frac']})"
+    )
+
+
+def _number(text: str, sign: str | None, mant: str, exp: str | None) -> float:
+    """The value of a number matched by ``_NUMBER``.
+
+    Spaces group thousands (the mark left is decimal); with both a comma and
+    a point the last one is the decimal mark; a mark that appears twice
+    groups thousands; a single mark is decimal unless it has one to three
+    digits (not a lone 0) before it and exactly three after it, which is
+    refused as ambiguous.
+    """
+    if any(c in SPACES for c in mant):
+        digits = "".join(c for c in mant if c not in SPACES).replace(",", ".")
+    elif "," in mant and "." in mant:
+        thousands = "," if mant.rindex(".") > mant.rindex(",") else "."
+        digits = mant.replace(thousands, "").replace(",", ".")
+    elif mant.count(",") > 1 or mant.count(".") > 1:
+        digits = mant.replace(",", "").replace(".", "")
+    else:
+        err = _ambiguous(text, mant)
+        if err is not None:
+            raise err
+        digits = mant.replace(",", ".")
+    value = float(digits + (exp or ""))
+    return -value if sign in ("-", "\u2212") else value
+
+
 def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None) -> Quantity:
     """Read a number with a unit, e.g. ``"1.2 kN"`` or ``"450 N*m"``.
 
     Parameters
     ----------
     text : str
-        The text.  A decimal comma is accepted (``"1,2 kN"``).
+        The text: the number and its unit only.  A decimal comma is accepted
+        (``"1,2 kN"``), spaces may group thousands (``"1 200 N"``), and so may
+        commas or points when the other mark is the decimal one
+        (``"1,200.5 N"``, ``"1.200,5 N"``) or when they appear more than once
+        (``"1,200,000 N"``).  A single comma or point with one to three
+        digits before it (not a lone 0) and exactly three after it
+        (``"1,200 N"``, ``"1.200 N"``) is refused as ambiguous;
+        ``"0,250 kN"`` is a decimal.
     dimension : str
         One of ``length``, ``force``, ``torque``, ``pressure``, ``speed``,
         ``power``, ``area``, ``pv``.
@@ -233,6 +322,8 @@ def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None
 
     Raises
     ------
+    AmbiguousTextError
+        When the number could be read two ways (see ``text``).
     UnitError
         When the text is not a number, has no unit and no default is given,
         or its unit belongs to another dimension.
@@ -241,7 +332,7 @@ def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None
     m = _QUANTITY.match(text)
     if m is None:
         raise UnitError(f"{text!r} is not a number with a unit")
-    num = float(m.group("num").replace(",", "."))
+    num = _number(text, m["sign"], m["mant"], m["exp"])
     unit = m.group("unit")
     if not unit:
         if default_unit is None:
@@ -255,3 +346,87 @@ def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None
     if not math.isfinite(value):
         raise UnitError(f"{text!r} is not a finite number")
     return Quantity(value=value, unit=internal, text=text.strip())
+
+
+def _unit_of(word: str | None) -> str | None:
+    """The dimension whose unit ``word`` is, ``"factor"`` for a multiplier
+    or range word, ``"word"`` for any other word, None for no word."""
+    if not word:
+        return None
+    if word.lower() in _FACTOR_WORDS or (word[0] in "xX×*" and word[1:2].isdigit()):
+        return "factor"
+    key = _normalise_unit(word)
+    for name, (table, _) in DIMENSIONS.items():
+        if key in table:
+            return name
+    return "word"
+
+
+def quantity_in_text(text: str, dimension: str, *, glued: str = "") -> Quantity:
+    """Read the one quantity of ``dimension`` in a short text with words
+    around it: ``"F=1.2kN"``, ``"1.2 kN (set)"``, ``"PRELOAD 1.2 kN"``.
+
+    Numbers are read as by :func:`parse_quantity`; a number glued to a word
+    before it (``F1``, ``M12``) is part of a name and not read.  Numbers with
+    units of other dimensions (``250 mm``) or followed by another word
+    (``12 coils``) are passed over.
+
+    Parameters
+    ----------
+    text : str
+        The text.
+    dimension : str
+        As for :func:`parse_quantity`.
+    glued : str, optional
+        Letters that may follow a unit without a space and are not part of
+        it (a spring's sense letter: ``"1.2kNT"`` with ``glued="CTct"``).
+
+    Returns
+    -------
+    Quantity
+        The value in the internal unit; its ``text`` is the quantity as
+        written (``"1.2kN"``).
+
+    Raises
+    ------
+    AmbiguousTextError
+        When a number could be read two ways (``1,200``), the text holds two
+        different quantities of the dimension, or a number without a unit, a
+        factor or a range start besides the quantity (``2 x 600 N``,
+        ``1.2-1.5 kN``): the text does not say one value.
+    UnitError
+        When the text holds no quantity of the dimension.
+    """
+    table, internal = DIMENSIONS[dimension]
+    found: list[Quantity] = []
+    loose: list[str] = []
+    for m in _IN_TEXT.finditer(text):
+        num = _number(text, m["sign"], m["mant"], m["exp"])
+        word = (m["unit"] or "").rstrip(".")
+        if glued and len(word) > 1 and word[-1] in glued and _unit_of(word[:-1]) == dimension:
+            word = word[:-1]
+        kind = _unit_of(word)
+        if kind == dimension:
+            value = num * table[_normalise_unit(word)]
+            if not math.isfinite(value):
+                raise UnitError(f"{text.strip()!r}: {m[0].strip()!r} is not a finite number")
+            written = text[m.start() : m.end() - len(m["unit"]) + len(word)]
+            found.append(Quantity(value=value, unit=internal, text=written.strip()))
+        elif kind in (None, "factor"):
+            loose.append(m[0].strip())
+    example = "1.2 kN" if dimension == "force" else f"1.2 {internal}"
+    values = list(dict.fromkeys(q.value for q in found))
+    if len(values) > 1:
+        raise AmbiguousTextError(
+            f"{text.strip()!r} holds {len(found)} different {dimension}s "
+            f"({', '.join(repr(q.text) for q in found)}); write only the one that applies"
+        )
+    if found and loose:
+        raise AmbiguousTextError(
+            f"{text.strip()!r} holds {', '.join(repr(w) for w in loose)} besides the {dimension} "
+            f"{found[0].text!r} (a factor, a range or a number without a unit); write the one value "
+            f"that applies, e.g. {example!r}"
+        )
+    if not found:
+        raise UnitError(f"{text.strip()!r} holds no {dimension}: write a number with its unit, e.g. {example!r}")
+    return found[0]

@@ -317,3 +317,35 @@ def test_shoe_pin_at_the_drum_axis(tmp_path):
     with pytest.raises(dxfcheck.SolveError) as info:
         dxfcheck.analyse(path, mu=0.3, shoe_model="short")
     assert Code.NO_CONTACT_LINE in {f.code for f in info.value.findings}
+
+
+# --- texts that cannot be read one way ----------------------------------------------
+
+
+@pytest.mark.parametrize(
+    ("role", "text"),
+    [
+        ("load", "1,200 N"),  # a decimal or a thousands comma (read as 1.2 N before)
+        ("load", "1.200 N"),
+        ("load", "2 x 600 N"),  # a factor beside the force
+        ("load", "1.2 kN / 2.4 kN"),  # two forces
+        ("load", "-420 N"),  # a sign: the line gives the direction
+        ("load", "F"),  # no force at all
+        ("spring", "1,500 N C"),
+        ("spring", "0.5 kN C T"),  # both senses
+        ("spring", "0.5 kN"),  # no sense
+    ],
+)
+def test_texts_read_two_ways_or_not_at_all(capsys, tmp_path, role, text):
+    """A load or spring text that could be read two ways, or not at all:
+    every command exits 2 and the message quotes the text (issue 13)."""
+    from common import capstan_band
+
+    sk = conveyor_block() if role == "load" else capstan_band()
+    sk.items = [(it[0], it[1], text, *it[3:]) if it[:2] == ("text", role) else it for it in sk.items]
+    path = tmp_path / "text.dxf"
+    sk.save(path)
+    rc, _, err = run(capsys, "solve", path)
+    assert rc == 2 and repr(text) in err, err
+    assert set(_all_commands(capsys, path, tmp_path)) == {2}
+    TRIED[f"{role} text"] += 1
