@@ -179,6 +179,9 @@ _AMBIGUOUS = re.compile(r"^(?P<int>[1-9]\d{0,2})(?P<mark>[.,])(?P<frac>\d{3})$")
 #: (``F1``, ``M12`` are names), then perhaps the word after it.
 _UNIT_CHARS = r"[^\s\d()\[\]{},;:=\-\u2013×*]"
 _IN_TEXT = re.compile(rf"(?<![\w.,]){_NUMBER}(?:[{SPACES}]*(?P<unit>{_UNIT_CHARS}[^\s()\[\]{{}},;:=\-\u2013]*))?")
+#: A character written as a DXF escape, ``\\U+2009`` (how DXF R2000 and older
+#: files carry characters outside their code page).
+_DXF_ESCAPE = re.compile(r"\\[Uu]\+([0-9A-Fa-f]{4})")
 #: Words after a number that make it a factor or a range start (``2 x 600 N``,
 #: ``1.2 to 1.5 kN``): the text does not say one force.
 _FACTOR_WORDS = {"x", "×", "*", "to", "bis", "..."}
@@ -240,6 +243,12 @@ def length_unit_factor(name: str) -> float:
         known = ", ".join(sorted(k for k in LENGTH_MM if k.isalpha()))
         raise UnitError(f"unknown length unit {name!r} (known: {known})")
     return table[key]
+
+
+def _unescape(text: str) -> str:
+    """Decode DXF ``\\U+XXXX`` escapes: ``"1\\U+2009200 N"`` is 1, a thin
+    space, 200 N."""
+    return _DXF_ESCAPE.sub(lambda m: chr(int(m[1], 16)), text)
 
 
 def _decimal_hint(int_part: str, mark: str, frac: str) -> str:
@@ -329,6 +338,7 @@ def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None
         or its unit belongs to another dimension.
     """
     table, internal = DIMENSIONS[dimension]
+    text = _unescape(text)
     m = _QUANTITY.match(text)
     if m is None:
         raise UnitError(f"{text!r} is not a number with a unit")
@@ -398,6 +408,7 @@ def quantity_in_text(text: str, dimension: str, *, glued: str = "") -> Quantity:
         When the text holds no quantity of the dimension.
     """
     table, internal = DIMENSIONS[dimension]
+    text = _unescape(text)
     found: list[Quantity] = []
     loose: list[str] = []
     for m in _IN_TEXT.finditer(text):

@@ -143,6 +143,19 @@ def test_spaced_thousands_solve_alike_on_the_winch_demo(tmp_path):
     assert all(c.torque_Nm > 0 for c in sols[0].cases)
 
 
+@pytest.mark.parametrize("version", ["R2000", "R12"])
+def test_thin_space_escaped_in_older_dxf_versions(tmp_path, version):
+    """An R2000 or R12 file carries a thin space outside its code page as the
+    escape \\U+2009 (DXF Reference, "Unicode characters"; from memory):
+    decoded, it groups thousands like any space."""
+    path = tmp_path / "old.dxf"
+    block_brake(r=R, l=L, x=X, a=A, effort="1\u2009200 N").save(path, dxfversion=version)
+    drawing = dxfcheck.read_drawing(path, units="mm")
+    assert any("\\U+2009" in t.text for t in drawing.texts)
+    (load,) = dxfcheck.build_mechanism(drawing).loads
+    assert load.magnitude_N == 1200.0
+
+
 def test_spaced_thousands_solve_alike_on_the_block_brake(tmp_path):
     sols = []
     for text in ("1200 N", "1 200 N"):
