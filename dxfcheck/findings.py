@@ -44,6 +44,8 @@ class Code(enum.Enum):
     CURVED_LINK = ("D107", Severity.WARNING, "curved-link")
     DUPLICATE_ENTITY = ("D108", Severity.WARNING, "duplicate-entity")
     REPAIRED = ("D109", Severity.WARNING, "repaired")
+    UNITS_IMPLAUSIBLE = ("D110", Severity.WARNING, "units-implausible")
+    PROPORTION_IMPLAUSIBLE = ("D111", Severity.WARNING, "proportion-implausible")
     # --- topology ------------------------------------------------------
     NO_DRUM = ("M201", Severity.ERROR, "no-drum")
     MANY_DRUMS = ("M202", Severity.ERROR, "many-drums")
@@ -79,6 +81,7 @@ class Code(enum.Enum):
     PARTIAL_CONTACT = ("S309", Severity.WARNING, "partial-contact")
     SHORT_FALLBACK = ("S310", Severity.INFO, "short-shoe-fallback")
     BAND_SLACK = ("S311", Severity.ERROR, "band-slack")
+    RESULT_IMPLAUSIBLE = ("S312", Severity.WARNING, "result-implausible")
 
     @property
     def id(self) -> str:
