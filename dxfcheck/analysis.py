@@ -2,8 +2,10 @@
 
 from __future__ import annotations
 
+import math
 import os
 from collections.abc import Sequence
+from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
@@ -18,6 +20,7 @@ from dxfcheck.statics import Solution, solve, solve_for_torque
 if TYPE_CHECKING:
     from dxfcheck.rules import Judgement
     from dxfcheck.sensitivity import SensitivityResult
+    from dxfcheck.spec import Spec
 
 __all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config", "sensitivity"]
 
@@ -37,9 +40,12 @@ def _mechanism(
 ) -> Mechanism:
     """Build the mechanism, or raise :class:`MechanismError` with every error
     finding."""
+    from dxfcheck.plausibility import check_mechanism
+
     mech = build_mechanism(
         drawing, tolerance_mm=tolerance_mm, effort_N=effort_N, default_magnitude_N=default_magnitude_N
     )
+    mech = replace(mech, findings=(*mech.findings, *check_mechanism(mech)))  # sizes against real brakes
     if has_errors(list(mech.findings)):
         errors = [f for f in mech.findings if f.severity is Severity.ERROR]
         raise MechanismError(
@@ -124,8 +130,12 @@ def analyse(
     )
     options = contact_options(shoe_model, long_threshold_deg)
     if torque_Nm is not None:
-        return solve_for_torque(mech, torque_Nm, mu, directions, options)
-    return solve(mech, mu, directions, options)
+        sol = solve_for_torque(mech, torque_Nm, mu, directions, options)
+    else:
+        sol = solve(mech, mu, directions, options)
+    from dxfcheck.plausibility import check_solution
+
+    return replace(sol, findings=(*sol.findings, *check_solution(sol)))  # loads as used against real brakes
 
 
 def contact_options(shoe_model: ShoeModelChoice | str, long_threshold_deg: float) -> ContactOptions:
@@ -188,9 +198,32 @@ def check(
         custom_properties=drawing.custom_properties,
         overrides=overrides,
     )
+    drawing = _spec_units(drawing, spec, path, cfg, units=units, max_bytes=max_bytes)
     effort = spec.num("effort")
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort)
     return judge(mech, spec)
+
+
+def _spec_units(
+    drawing: Drawing,
+    spec: Spec,
+    path: str | os.PathLike[str],
+    cfg: Config,
+    *,
+    units: str | None,
+    max_bytes: int | None,
+) -> Drawing:
+    """The drawing in the spec's ``units`` (source ``spec``) when the spec
+    names one and ``--units`` does not; a header that agrees is kept."""
+    from dxfcheck.units import length_unit_factor
+
+    named = spec.get("units")
+    if units is not None or named is None:
+        return drawing
+    unit = str(named.value)
+    if drawing.units_source == "$INSUNITS" and math.isclose(length_unit_factor(unit), drawing.mm_per_unit):
+        return drawing
+    return replace(read_drawing(path, cfg, units=unit, max_bytes=max_bytes), units_source="spec")
 
 
 def sensitivity(

@@ -181,7 +181,8 @@ class Drawing:
         Size of one drawing unit [mm].
     units_source : str
         Where the unit came from: ``$INSUNITS``, ``$MEASUREMENT``,
-        ``default`` or ``option``.
+        ``default``, ``option`` (``--units``) or ``spec`` (the spec key
+        ``units``, applied by :func:`dxfcheck.analysis.check`).
     dxfversion : str
         The file's DXF version (``AC1009`` for R12 ...).
     circles, arcs, paths, texts : tuple
@@ -519,7 +520,19 @@ def _take_band_polyline(col: _Collector, e: Any, m: Affine, src: Source) -> None
         col.arcs.append(ArcGeom(Role.BAND, c, radius * scale, s_deg, e_deg, src))
 
 
+#: How a user confirms an assumed drawing unit (``check`` fails until then).
+_CONFIRM_UNITS = (
+    "Set $INSUNITS in the drawing (4 mm, 1 inch, 6 m), pass --units, or give the spec key units "
+    '(e.g. units = "mm"); `check` fails its units rule until the unit is confirmed'
+)
+
+
 def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, list[Finding]]:
+    """The drawing unit: (name, [mm] per unit, where it came from, D101
+    findings).  ``--units`` wins; then ``$INSUNITS``; where that is 0 or
+    unknown, ``$MEASUREMENT`` (0 inch, 1 mm); else millimetres.  Both
+    fallbacks are assumptions (D101) that ``check`` does not pass until the
+    unit is confirmed (see :mod:`dxfcheck.plausibility`)."""
     findings: list[Finding] = []
     if override is not None:
         try:
@@ -538,15 +551,14 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
         findings.append(
             Finding(
                 Code.UNITS_ASSUMED,
-                f"$INSUNITS is unset; {name} assumed from $MEASUREMENT={int(measurement)}. "
-                "Set $INSUNITS in the drawing or pass --units",
+                f"$INSUNITS is unset; {name} assumed from $MEASUREMENT = {int(measurement)}. {_CONFIRM_UNITS}",
             )
         )
         return name, factor, "$MEASUREMENT", findings
     findings.append(
         Finding(
             Code.UNITS_ASSUMED,
-            "$INSUNITS and $MEASUREMENT are unset; millimetres assumed. Set $INSUNITS in the drawing or pass --units",
+            f"$INSUNITS and $MEASUREMENT are unset; millimetres assumed. {_CONFIRM_UNITS}",
         )
     )
     return "mm", 1.0, "default", findings

@@ -30,7 +30,7 @@ from __future__ import annotations
 import enum
 import math
 from collections.abc import Iterable
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 from dxfcheck.analysis import DEFAULT_MU, contact_options
@@ -38,8 +38,18 @@ from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction
 from dxfcheck.errors import ConfigError
 from dxfcheck.findings import Code, Finding, Severity
 from dxfcheck.mechanism import Mechanism
+from dxfcheck.plausibility import (
+    DRUM_DIAMETER_MM,
+    check_mechanism,
+    check_rules,
+    check_solution,
+    drum_diameter,
+    how_read,
+    plausible_units,
+)
 from dxfcheck.spec import Spec
 from dxfcheck.statics import CaseSolution, Solution, critical_mu, solve
+from dxfcheck.units import length_unit_factor
 
 __all__ = ["Judgement", "RuleResult", "Verdict", "hoist_factor", "judge"]
 
@@ -134,6 +144,10 @@ SRC_TORQUE = "braking torque T = Σ μN·r at mu_min against the duty"
 SRC_MOTOR = "duty from the motor: T = factor·P/ω, ω = 2πn/60"
 SRC_HOIST = "OSHA 29 CFR 1910.179(f)(2): holding brake ≥ 125 % / 100 % of full-load hoisting torque"
 SRC_SELF_LOCK = "critical μ where the equilibrium equations turn singular (self-locking limit) vs mu_max × margin"
+SRC_UNITS = (
+    "units from $INSUNITS, --units or the spec key units; drum Ø within the range of industrial drum brakes "
+    "(dxfcheck.plausibility.DRUM_DIAMETER_MM: DIN 15435 series widened, from memory / common practice)"
+)
 SRC_ASYM = "torque difference between drum directions (the weaker direction sets the holding duty)"
 
 
@@ -217,7 +231,6 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     dirs_v = spec.get("directions")
     required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
     rules: list[RuleResult] = []
-    rules += _hygiene([f for sol in solutions.values() for f in sol.findings])
     rules += _duty(spec, solutions[mu_min], required, mu_min)
     rules += _self_lock(spec, mech, mu_max, options)
     rules += _asymmetry(spec, nominal)
@@ -227,7 +240,89 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     rules += _bands(spec, mech, solutions, valid)
     rules += _pins(spec, mech, valid)
     rules += _members(spec, mech, valid)
-    return Judgement(mech, spec, nominal, solutions, tuple(rules), mu, mu_min, mu_max)
+    nominal = replace(nominal, findings=(*nominal.findings, *_implausible(mech, nominal, rules)))
+    solutions[mu] = nominal
+    head = _hygiene([f for sol in solutions.values() for f in sol.findings]) + _units(mech, spec)
+    return Judgement(mech, spec, nominal, solutions, tuple(head + rules), mu, mu_min, mu_max)
+
+
+def _implausible(mech: Mechanism, nominal: Solution, rules: list[RuleResult]) -> list[Finding]:
+    """Plausibility findings not yet in the nominal solution: the sizes (when
+    the mechanism came without them), the loads, pressures and margins."""
+    found = [*check_mechanism(mech), *check_solution(nominal), *check_rules(mech, rules)]
+    return [f for f in dict.fromkeys(found) if f not in nominal.findings]
+
+
+def _units(mech: Mechanism, spec: Spec) -> list[RuleResult]:
+    """The drawing's unit is confirmed or plausible.
+
+    Fails while the unit is assumed (D101: ``$INSUNITS`` unset) or the drum
+    read in it is implausible (D110), until ``--units`` or the spec key
+    ``units`` confirms it; warns when a confirmed unit still gives an
+    implausible drum.  A plausible ``$INSUNITS`` passes.
+    """
+    d = mech.drawing
+    named = spec.get("units")
+    spec_unit = None if named is None else str(named.value)
+    spec_agrees = spec_unit is not None and math.isclose(length_unit_factor(spec_unit), d.mm_per_unit)
+    confirmed = d.units_source in ("option", "spec") or spec_agrees
+    assumed = d.units_source in ("$MEASUREMENT", "default")
+    drum_d = 2.0 * mech.drum.radius_mm if mech.drum is not None else None
+    bad = drum_diameter(mech)
+    inputs: dict[str, Any] = {
+        "units": d.units,
+        "units_source": d.units_source,
+        "mm_per_unit": d.mm_per_unit,
+        "drum_diameter_mm": drum_d,
+        "plausible_drum_mm": list(DRUM_DIAMETER_MM),
+        "spec_units": spec_unit,
+    }
+    if drum_d is not None:
+        inputs["plausible_units"] = [u for u, _ in plausible_units(drum_d / d.mm_per_unit)]
+    if bad and confirmed:
+        verdict, msg = Verdict.WARN, f"{d.units} confirmed ({how_read(d)}) but {bad[0].message}"
+    elif bad:
+        verdict, msg = Verdict.FAIL, bad[0].message
+    elif assumed and not confirmed:
+        verdict, msg = Verdict.FAIL, _assumed_message(mech, drum_d)
+    elif spec_unit is not None and not confirmed:
+        verdict = Verdict.FAIL
+        msg = (
+            f"the spec says units = {spec_unit!r} but the drawing was read in {d.units} ({d.units_source}); "
+            f"pass --units {spec_unit} or set $INSUNITS to match"
+        )
+    else:
+        verdict = Verdict.PASS
+        how = "confirmed" if confirmed else "plausible"
+        size = f": drum Ø{drum_d:.4g} mm" if drum_d is not None else ""
+        msg = f"{d.units} {how_read(d)}, {how}{size}"
+    return [
+        RuleResult(
+            "drawing.units",
+            "drawing units",
+            verdict,
+            drum_d,
+            None,
+            "mm",
+            None,
+            inputs,
+            SRC_UNITS,
+            msg,
+        )
+    ]
+
+
+def _assumed_message(mech: Mechanism, drum_d: float | None) -> str:
+    d = mech.drawing
+    why = "from $MEASUREMENT ($INSUNITS unset)" if d.units_source == "$MEASUREMENT" else "($INSUNITS unset)"
+    size = ""
+    if drum_d is not None:
+        alts = [u for u, _ in plausible_units(drum_d / d.mm_per_unit)]
+        size = f"; drum Ø{drum_d:.4g} mm as {d.units}; plausible as {' or '.join(alts) or 'no common unit'}"
+    return (
+        f"{d.units} assumed {why}{size}. Confirm the unit: --units, the spec key units "
+        '(e.g. units = "mm"), or $INSUNITS in the drawing'
+    )
 
 
 def _hygiene(findings: list[Finding]) -> list[RuleResult]:

@@ -110,6 +110,12 @@ KEYS: dict[str, Key] = {
     # revision compare
     "max_torque_drop": Key(Kind.NUMBER, "compare: fail when torque drops by more than this fraction", minimum=0.0),
     "max_force_rise": Key(Kind.NUMBER, "compare: fail when a force rises by more than this fraction", minimum=0.0),
+    # drawing
+    "units": Key(
+        Kind.CHOICE,
+        "the drawing's unit, confirming or overriding $INSUNITS (check reads the drawing in it)",
+        choices=("mm", "cm", "dm", "m", "inch", "in", "ft", "foot"),
+    ),
     # report
     "torque_asymmetry_max": Key(Kind.NUMBER, "warn above this relative torque difference between directions"),
 }
