@@ -349,3 +349,71 @@ def test_texts_read_two_ways_or_not_at_all(capsys, tmp_path, role, text):
     assert rc == 2 and repr(text) in err, err
     assert set(_all_commands(capsys, path, tmp_path)) == {2}
     TRIED[f"{role} text"] += 1
+
+
+# --- drawings read in the wrong unit (issue 13) --------------------------------------
+
+
+def _drum_315_mm(units):
+    """A block brake on a Ø315 mm drum (a DIN 15435 size, from memory) whose
+    numbers are millimetres, saved with the header unit ``units``."""
+    from common import block_brake
+
+    return block_brake(r=157.5, l=600, x=250, a=50, effort="1 kN", units=units)
+
+
+def _mott_inch(units):
+    """Mott, *Machine Elements in Mechanical Design*, 4th ed., Example
+    Problem 22-10 (from memory): a band brake on a 12 in drum, its numbers
+    inches, saved with the header unit ``units``."""
+    from common import simple_band
+
+    return simple_band(r=6, wrap_deg=225, anchor_run=4, arm=20, effort="120 lbf", units=units)
+
+
+#: name -> (sketch, $MEASUREMENT or None, extra check options, exit code,
+#: codes that must be reported, codes that must not, phrase in the findings).
+#: Ranges: drum Ø 100-1250 mm (DIN 15435 series 160-710 mm widened, from
+#: memory / common practice), see dxfcheck.plausibility.
+UNIT_SLIPS = {
+    "mm drawing, $INSUNITS = 6 (m)": (_drum_315_mm("m"), None, ("--strict",), 1, {"D110"}, set(), "as millimetres"),
+    "mm drawing, $INSUNITS = 1 (inch)": (_drum_315_mm("inch"), None, (), 1, {"D110"}, set(), "as millimetres"),
+    "mm drawing, $INSUNITS = 0, $MEASUREMENT = 0": (
+        _drum_315_mm(None),
+        0,
+        (),
+        1,
+        {"D101", "D110"},
+        set(),
+        "as millimetres it would be Ø315 mm",
+    ),
+    "the same, confirmed with --units mm": (_drum_315_mm(None), 0, ("--units", "mm"), 0, set(), {"D101", "D110"}, ""),
+    "mm drawing, no unit at all": (_drum_315_mm(None), None, (), 1, {"D101"}, {"D110"}, "millimetres assumed"),
+    "inch drawing, $INSUNITS = 4 (mm)": (_mott_inch("mm"), None, (), 1, {"D110"}, set(), "as inches it would be"),
+    "inch drawing, $INSUNITS = 1": (_mott_inch("inch"), None, ("--mu", "0.25"), 0, set(), {"D101", "D110", "D111"}, ""),
+}
+
+
+@pytest.mark.parametrize("case", list(UNIT_SLIPS))
+def test_units_misread(capsys, tmp_path, case):
+    """A drawing read in the wrong unit never passes check; the finding says
+    which unit makes it plausible; a confirmed or plausible unit passes."""
+    import json
+
+    sketch, measurement, options, code, must, must_not, phrase = UNIT_SLIPS[case]
+    path = tmp_path / "units.dxf"
+    doc = sketch.to_doc()
+    if measurement is not None:
+        doc.header["$MEASUREMENT"] = measurement
+    doc.saveas(path)
+    rc, out, _ = run(capsys, "check", path, "--json", *options)
+    TRIED["units misread"] += 1
+    report = json.loads(out)
+    codes = {f["code"] for f in report["findings"]}
+    units_rule = next(r for r in report["rules"] if r["rule"] == "drawing.units")
+    assert rc == code, units_rule
+    assert must <= codes and not codes & must_not, codes
+    assert (units_rule["verdict"] == "fail") == bool(must), units_rule
+    assert phrase in " ".join(f["message"] for f in report["findings"])
+    if code:
+        assert run(capsys, "check", path, "--strict", *options)[0] == 1
