@@ -18,13 +18,16 @@ import sys
 from collections.abc import Sequence
 from typing import Any
 
-from dxfcheck.errors import ConfigError, DxfcheckError, LimitError
+from dxfcheck.errors import ConfigError, DxfcheckError, LimitError, VerificationError
 
-__all__ = ["EXIT_CHECK_FAILED", "EXIT_OK", "EXIT_UNUSABLE", "main"]
+__all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
 EXIT_OK = 0
 EXIT_CHECK_FAILED = 1
 EXIT_UNUSABLE = 2
+#: dxfcheck itself went wrong: a solution failed its own checks, or an
+#: unexpected error; no result was reported.
+EXIT_INTERNAL = 3
 
 #: Tests set this to see internal errors as exceptions instead of one line.
 INTERNAL_ERRORS_RAISE = False
@@ -556,6 +559,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     try:
         with _TimeLimit(args.timeout):
             return commands[args.command](args)
+    except VerificationError as exc:
+        if INTERNAL_ERRORS_RAISE:
+            raise
+        sys.stderr.write(f"dxfcheck: {exc.path or _subject(args)}: internal error: {exc.message}; please report it\n")
+        return EXIT_INTERNAL
     except DxfcheckError as exc:
         print_error(exc)
         return EXIT_UNUSABLE
@@ -575,4 +583,4 @@ def main(argv: Sequence[str] | None = None) -> int:
             f"dxfcheck: {_subject(args)}: internal error ({type(exc).__name__}: {exc}); please report it with the "
             "drawing\n"
         )
-        return EXIT_UNUSABLE
+        return EXIT_INTERNAL

@@ -82,6 +82,7 @@ class Code(enum.Enum):
     SHORT_FALLBACK = ("S310", Severity.INFO, "short-shoe-fallback")
     BAND_SLACK = ("S311", Severity.ERROR, "band-slack")
     RESULT_IMPLAUSIBLE = ("S312", Severity.WARNING, "result-implausible")
+    CONTACT_UNSETTLED = ("S313", Severity.ERROR, "contact-unsettled")
 
     @property
     def id(self) -> str:

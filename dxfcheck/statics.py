@@ -774,6 +774,57 @@ def _solve_system(sys_: _System) -> NDArray[np.float64]:
     )
 
 
+def _settle_contact(
+    mech: Mechanism, models: dict[str, ContactModel], sys_: _System, mu: float, direction: Direction
+) -> tuple[_System, NDArray[np.float64]]:
+    """Solve, then trim each pivoted long shoe's contact patch to where the
+    pressure is not negative and solve again, until no patch changes.
+
+    Raises
+    ------
+    SolveError
+        With S313 when the patches do not settle, or the equations become
+        singular on a trimmed patch: no contact with positive pressure
+        everywhere balances the loads.
+    """
+    changed: list[str] = []
+    for k in range(PATCH_ITERATIONS + 1):
+        try:
+            x = _solve_system(sys_)
+        except np.linalg.LinAlgError:
+            if k == 0:
+                raise SolveError(
+                    f"{direction}: the equilibrium equations are singular", path=mech.drawing.path
+                ) from None
+            break
+        changed = [s.name for s in mech.shoes if models[s.name].refine(_coeffs(sys_, x, s.name), mu, direction)]
+        edge = [s.name for s in mech.shoes if getattr(models[s.name], "on_edge", False)]
+        if edge:
+            changed = edge
+            break
+        if not changed:
+            return sys_, x
+        sys_ = _assemble(mech, models, mu, direction)
+    names = changed or [s.name for s in mech.shoes if getattr(models[s.name], "partial", False)]
+    shoes = [s for s in mech.shoes if s.name in names] or list(mech.shoes)
+    raise SolveError(
+        f"{direction}: the shoes' contact cannot be settled",
+        path=mech.drawing.path,
+        findings=[
+            Finding(
+                Code.CONTACT_UNSETTLED,
+                f"{direction}: shoe {s.name}: no contact patch with a positive pressure everywhere balances the "
+                "loads (the patch keeps moving, shrinks to the lining's edge, or the linkage locks on it); check the "
+                "shoe pin's position against the lining, and the lining's extent",
+                (s.arc.source.ref,),
+                (s.arc.source.layer,),
+                s.arc.point_at(s.arc.mid_deg),
+            )
+            for s in shoes
+        ],
+    )
+
+
 def _coeffs(sys_: _System, x: NDArray[np.float64], shoe: str) -> list[float]:
     return [float(x[j]) for j, o in enumerate(sys_.col_owner) if o[0] == "shoe" and o[1] == shoe]
 
@@ -850,14 +901,7 @@ def solve_case(
             path=mech.drawing.path,
             findings=[f for f in findings if f.severity is Severity.ERROR],
         )
-    x = _solve_system(sys_)
-    # pivoted long shoes: trim each contact patch to where p >= 0, solve again
-    for _ in range(PATCH_ITERATIONS):
-        changed = [models[s.name].refine(_coeffs(sys_, x, s.name), mu, direction) for s in mech.shoes]
-        if not any(changed):
-            break
-        sys_ = _assemble(mech, models, mu, direction)
-        x = _solve_system(sys_)
+    sys_, x = _settle_contact(mech, models, sys_, mu, direction)
     findings = list(dict.fromkeys([*notes, *sys_.findings, *findings]))
     fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(sys_.b).max(initial=0.0)), 1e-300)
     residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale

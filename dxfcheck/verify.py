@@ -16,8 +16,12 @@ contact models' own bookkeeping:
     to the drum equals the reported braking torque, and in a braking case
     (no error finding) it opposes the drum's motion;
 ``shoe friction``
-    each pressing shoe's friction acts on the drum against its motion, and
-    its normal resultant runs through the drum axis;
+    each shoe's normal resultant runs through the drum axis; a shoe whose
+    pressure distribution is positive is reported as pressing, and its
+    friction acts on the drum against the drum's motion with the shoe's
+    reported torque;
+``shoe pressure``
+    a pressing lining's pressure is nowhere negative (a lining only pushes);
 ``band tight end``
     each taut band is tightest at the end the drum surface moves away from,
     and tighter there than at the other end.
@@ -44,7 +48,7 @@ from dxfcheck.geometry import Point
 
 if TYPE_CHECKING:
     from dxfcheck.mechanism import Mechanism
-    from dxfcheck.statics import CaseSolution
+    from dxfcheck.statics import CaseSolution, ShoeResult
 
 __all__ = ["VERIFY_RTOL", "drum_moment_Nmm", "verify_case"]
 
@@ -159,14 +163,49 @@ def _check_drum(mech: Mechanism, case: CaseSolution, mtol: float) -> None:
         raise _fail(mech, case, "drum torque", f"the torque {m / 1000:.6g} N·m turns the drum with its motion")
 
 
+def _presses(s: ShoeResult, c: Point) -> bool:
+    """Whether the lining presses on the drum: its line load (the pressure
+    distribution) is positive, or, without samples, the drum pushes an
+    external shoe outwards and an internal one inwards."""
+    if s.line_load:
+        return sum(q for _, q in s.line_load) > 0
+    outward = (s.normal_at[0] - c[0]) * s.normal_force[0] + (s.normal_at[1] - c[1]) * s.normal_force[1]
+    return (outward < 0) if s.internal else (outward > 0)
+
+
+def _check_pressure(mech: Mechanism, case: CaseSolution, s: ShoeResult) -> None:
+    """A lining can only push: where it presses, its line load is nowhere
+    negative."""
+    q = [v for _, v in s.line_load]
+    if q and min(q) < -VERIFY_RTOL * max(abs(v) for v in q):
+        raise _fail(
+            mech,
+            case,
+            "shoe pressure",
+            f"shoe {s.name}: the lining would pull on the drum somewhere (line load {min(q):.4g} N/mm)",
+        )
+
+
 def _check_shoes(mech: Mechanism, case: CaseSolution, ftol: float, mtol: float) -> None:
     assert mech.drum is not None
     c = mech.drum.center
     for s in case.shoes:
         if abs(_moment(s.normal_at, s.normal_force, c)) > mtol:
             raise _fail(mech, case, "shoe friction", f"shoe {s.name}: the normal resultant misses the drum axis")
-        if s.normal_N <= ftol:
+        if math.hypot(*s.normal_force) <= ftol:
             continue
+        presses = _presses(s, c)
+        if presses != (s.normal_N > 0):
+            raise _fail(
+                mech,
+                case,
+                "shoe friction",
+                f"shoe {s.name}: its normal force {'presses on' if presses else 'pulls from'} the drum, "
+                f"but its torque {s.torque_Nm:.6g} N·m says otherwise: friction and motion disagree",
+            )
+        if not presses:
+            continue
+        _check_pressure(mech, case, s)
         on_drum = -_moment(s.friction_at, s.friction_force, c)
         if on_drum * case.direction.sign >= 0 or abs(on_drum + case.direction.sign * s.torque_Nm * 1000) > mtol:
             raise _fail(

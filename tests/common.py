@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 import sys
+from collections.abc import Callable
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
@@ -18,6 +19,7 @@ from build import capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
 from dxfcheck.sketch import Sketch  # noqa: E402
 
 __all__ = [
+    "CATALOGUE",
     "ROOT",
     "block_brake",
     "capstan_band",
@@ -264,3 +266,51 @@ def simple_band(
     sk.band(0, 0, r, s_deg, e_deg, a_pin, o)
     sk.load(end[0], end[1], 0, -1, effort, length=r / 3)
     return sk
+
+
+def _shigley_internal_pair() -> Sketch:
+    """Two internal shoes on one hinge, the geometry of Shigley's MED 10th
+    ed., Problem 16-1 (r = 150, hinge 125 below the axis, linings over 120°,
+    2.2 kN actuating forces)."""
+    sk = Sketch()
+    sk.drum(0, 0, 150)
+    sk.pivot(0, -125, 12, label="H")
+    for phi_from, phi_to, x, side, name in ((-90, 30, 20, 1, "right"), (150, 270, -20, -1, "left")):
+        internal_hinged_shoe(
+            sk,
+            r=150,
+            hinge=(0, -125),
+            phi_from=phi_from,
+            phi_to=phi_to,
+            act=(x, 91.5),
+            push=(side, 0),
+            effort="2.2 kN",
+            name=name,
+            hinge_drawn=False,
+        )
+    return sk
+
+
+#: Every kind of brake the project solves, each with the friction
+#: coefficient it is solved at: the property tests run over all of them.
+CATALOGUE: dict[str, tuple[Callable[[], Sketch], float]] = {
+    "winch two-shoe (pivoted shoes, floating crank)": (winch_two_shoe, 0.35),
+    "conveyor block": (conveyor_block, 0.35),
+    "capstan band (spring-set)": (capstan_band, 0.35),
+    "block a>0": (lambda: block_brake(r=200, l=500, x=200, a=50, effort="1 kN"), 0.35),
+    "block a<0": (lambda: block_brake(r=200, l=500, x=200, a=-50, effort="1 kN"), 0.35),
+    "block a=0": (lambda: block_brake(r=200, l=500, x=200, a=0, effort="1 kN"), 0.35),
+    "double block": (lambda: double_block_spring_pair(r=180, l=450, x=200, a=140, spring="3500 N"), 0.4),
+    "push rod block": (push_rod_block, 0.3),
+    "pivoted long pair": (lambda: pivoted_long_shoes(r=250, semi_deg=50, a=280.59, effort_N=4000, pair=True), 0.2),
+    "pivoted long, pin off the ideal": (
+        lambda: pivoted_long_shoes(r=250, semi_deg=50, a=330, effort_N=4000, pair=True),
+        0.3,
+    ),
+    "internal hinged pair": (_shigley_internal_pair, 0.28),
+    "simple band": (lambda: simple_band(r=200, wrap_deg=225, anchor_run=150, arm=700, effort="2 kN"), 0.25),
+    "differential band": (
+        lambda: differential_band(r=300, wrap_deg=240, a=200, c=50, arm=950, effort="300 N"),
+        0.25,
+    ),
+}

@@ -67,8 +67,10 @@ LINE_LOAD_SAMPLES = 72
 #: A contact patch that changes by less than this between iterations has
 #: converged [rad].
 PATCH_TOL_RAD = 1e-12
-#: Narrowest contact patch kept before the shoe counts as lifted [rad].
-MIN_PATCH_RAD = 1e-9
+#: A contact patch narrower than this means the shoe bears on its lining's
+#: edge only, where no pressure law holds [rad] (0.5°, common practice for
+#: "a line contact", not a published limit).
+EDGE_PATCH_RAD = math.radians(0.5)
 
 _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(QUADRATURE_NODES)
 
@@ -274,6 +276,7 @@ class LongPivotedShoe:
     name: str = "long-pivoted"
     patch: tuple[float, float] = field(default=(0.0, 0.0))
     partial: bool = False
+    on_edge: bool = False
 
     def __post_init__(self) -> None:
         self.patch = _arc_span(self.shoe)
@@ -302,8 +305,11 @@ class LongPivotedShoe:
         psi = math.atan2(b, a)
         lo = max(full[0], self.mid + psi - math.pi / 2)
         hi = min(full[1], self.mid + psi + math.pi / 2)
-        if hi - lo < MIN_PATCH_RAD:
+        if hi - lo < 0.0:
             return False  # no contact left: the shoe lifts (reported by the statics)
+        if hi - lo < EDGE_PATCH_RAD:
+            self.on_edge = True  # the shoe bears on its lining's edge only (the statics refuses it)
+            return False
         new = (lo, hi)
         changed = abs(new[0] - self.patch[0]) > PATCH_TOL_RAD or abs(new[1] - self.patch[1]) > PATCH_TOL_RAD
         self.patch = new
