@@ -377,6 +377,23 @@ def print_error(exc: DxfcheckError, err: IO[str] | None = None) -> None:
         err.write(f"{prefix}{f.line()}\n")
 
 
+def _theory_lines(j: Judgement) -> list[str]:
+    """Which shoe theory the gate used, and the short-shoe torque beside a
+    long-shoe one (at ``mu_min``, where the torque rule is judged)."""
+    low = j.solutions[j.mu_min]
+    if not low.cases or not low.cases[0].shoes:
+        return []
+    opts = low.options
+    models = ", ".join(f"{s.name} {s.model}" for s in low.cases[0].shoes)
+    how = f"{opts.model}" + (f", long above {opts.long_threshold_deg:g}°" if str(opts.model) == "auto" else "")
+    out = [f"shoe theory ({how}): {models}; the rules use it"]
+    short = [c for c in low.cases if c.short_shoe_torque_Nm is not None]
+    if short:
+        beside = ", ".join(f"{c.direction} {c.short_shoe_torque_Nm:.1f} N·m (chosen {c.torque_Nm:.1f})" for c in short)
+        out.append(f"short-shoe theory at μ = {j.mu_min:g} would give: {beside}")
+    return out
+
+
 #: Versioned name of the ``check --json`` document.
 CHECK_SCHEMA = "dxfcheck.check/2"
 
@@ -454,6 +471,8 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
         + (" (strict: warnings fail)" if strict else "")
     )
     console.print(f"μ = {j.mu:g} (range {j.mu_min:g} to {j.mu_max:g})")
+    for line in _theory_lines(j):
+        console.print(line)
     t = Table(title="rules", title_justify="left")
     for col in ("verdict", "rule", "value", "limit", "margin", "note"):
         t.add_column(col, justify="right" if col in ("value", "limit", "margin") else "left")

@@ -328,3 +328,38 @@ def test_auto_threshold_and_floating_lever_fallback(tmp_path):
     s = sol.cases[0].shoes[0]
     assert s.model == "short-fixed"
     assert any(f.code is Code.SHORT_FALLBACK for f in sol.findings)
+
+
+def test_short_shoe_torque_beside_long(tmp_path):
+    """Where long-shoe theory is chosen, each case also carries the torque of
+    the same drawing with short-shoe theory on every shoe (the same solve
+    with shoe_model="short"); where short theory is chosen, none."""
+    from common import winch_two_shoe
+
+    path = tmp_path / "w.dxf"
+    winch_two_shoe().save(path)
+    auto = dxfcheck.analyse(path, mu=0.35)
+    short = dxfcheck.analyse(path, mu=0.35, shoe_model="short")
+    for d in ("cw", "ccw"):
+        assert all(s.model == "long-pivoted" for s in auto.case(d).shoes)
+        assert auto.case(d).short_shoe_torque_Nm == pytest.approx(short.case(d).torque_Nm, rel=1e-12)
+        assert short.case(d).short_shoe_torque_Nm is None
+        # 70° pivoted linings: the long-shoe torque is the larger (μ' > μ, Khurmi & Gupta)
+        assert auto.case(d).torque_Nm > auto.case(d).short_shoe_torque_Nm > 0
+
+
+def test_check_says_which_theory(tmp_path):
+    import subprocess
+    import sys
+
+    from common import ROOT
+
+    r = subprocess.run(
+        [sys.executable, "-m", "dxfcheck", "check", str(ROOT / "drawings" / "winch_two_shoe.dxf")],
+        capture_output=True,
+        text=True,
+        timeout=120,
+        cwd=tmp_path,
+    )
+    assert "shoe theory (auto, long above 60°): left shoe long-pivoted, right shoe long-pivoted" in r.stdout
+    assert "short-shoe theory at μ = 0.3 would give: cw" in r.stdout
