@@ -27,6 +27,7 @@ References
 
 from __future__ import annotations
 
+import difflib
 import enum
 import math
 from collections.abc import Iterable
@@ -47,11 +48,11 @@ from dxfcheck.plausibility import (
     how_read,
     plausible_units,
 )
-from dxfcheck.spec import Spec
+from dxfcheck.spec import Spec, SpecValue
 from dxfcheck.statics import CaseSolution, Solution, critical_mu, solve
 from dxfcheck.units import length_unit_factor
 
-__all__ = ["Judgement", "RuleResult", "Verdict", "hoist_factor", "judge"]
+__all__ = ["Duty", "Judgement", "RuleResult", "Verdict", "check_subjects", "duties", "hoist_factor", "judge"]
 
 
 class Verdict(enum.StrEnum):
@@ -228,6 +229,7 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     )
     solutions = {m: solve(mech, m, both, options) for m in sorted({mu_min, mu, mu_max})}
     nominal = solutions[mu]
+    check_subjects(spec, mech, [m.name for m in nominal.cases[0].members] if nominal.cases else [])
     dirs_v = spec.get("directions")
     required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
     rules: list[RuleResult] = []
@@ -244,6 +246,46 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     solutions[mu] = nominal
     head = _hygiene([f for sol in solutions.values() for f in sol.findings]) + _units(mech, spec)
     return Judgement(mech, spec, nominal, solutions, tuple(head + rules), mu, mu_min, mu_max)
+
+
+def check_subjects(spec: Spec, mech: Mechanism, members: Iterable[str]) -> None:
+    """Refuse per-pin and per-member spec values whose pin or member the
+    drawing does not have (a value meant for it would otherwise be dropped
+    and its rule judged on the general value, or skipped).
+
+    Raises
+    ------
+    ConfigError
+        Naming, for each such value, its source and key, the unknown name,
+        the names that exist, and a close match when there is one.
+    """
+    pins = [p.name for p in mech.pins]
+    member_names = list(members)
+    problems: list[str] = []
+    for name, values in spec.pins.items():
+        if name not in pins:
+            problems.append(_unknown_subject("pin", name, values, pins, "pins"))
+    for name, values in spec.members.items():
+        if name not in member_names:
+            why = ""
+            if name in {p.name for p in mech.parts}:
+                why = f" ('{name}' is a part, but not a two-force member: a rod pinned at its two ends only)"
+            problems.append(_unknown_subject("two-force member", name, values, member_names, "members", why))
+    if problems:
+        raise ConfigError("; ".join(problems), path=mech.drawing.path)
+
+
+def _unknown_subject(
+    what: str, name: str, values: dict[str, SpecValue], known: list[str], table: str, why: str = ""
+) -> str:
+    entries = ", ".join(f"{table}.{name}.{v.key} from {v.source}" for v in values.values())
+    close = difflib.get_close_matches(name, known, n=1) or [k for k in known if k.lower() == name.lower()]
+    hint = f"; did you mean {close[0]!r}?" if close else ""
+    have = ", ".join(repr(k) for k in known) if known else "none"
+    return (
+        f"the spec names {what} {name!r}, which the drawing does not have{why}: {entries}; "
+        f"the drawing's {what}s are {have}{hint}"
+    )
 
 
 def _implausible(mech: Mechanism, nominal: Solution, rules: list[RuleResult]) -> list[Finding]:
@@ -348,51 +390,108 @@ def _hygiene(findings: list[Finding]) -> list[RuleResult]:
     ]
 
 
-def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min: float) -> list[RuleResult]:
-    out: list[RuleResult] = []
+@dataclass(frozen=True)
+class Duty:
+    """One braking-torque duty the spec sets.
+
+    Attributes
+    ----------
+    name : str
+        ``required_torque`` or ``motor duty``.
+    torque_Nm : float
+        The torque the brake must hold [N·m].
+    source : str
+        Where its spec values came from.
+    basis : str
+        How it was found, for the report.
+    """
+
+    name: str
+    torque_Nm: float
+    source: str
+    basis: str
+
+
+MOTOR_KEYS = ("motor_power", "motor_speed", "torque_factor")
+
+
+def duties(spec: Spec) -> tuple[list[Duty], list[str]]:
+    """The duties the spec sets (``required_torque``, the motor duty
+    T = factor·P/ω) and the motor keys missing when the motor duty is
+    incomplete (empty when it is complete or not asked for at all)."""
+    out: list[Duty] = []
     req = spec.get("required_torque")
-    need: float | None = None
-    source = SRC_TORQUE
-    inputs: dict[str, Any] = {"mu_min": mu_min}
     if req is not None:
-        need = float(req.value)
-        inputs["required_torque_Nm"] = need
+        out.append(Duty("required_torque", float(req.value), req.source, f"required_torque = {req.text}"))
+    miss = _missing(spec, MOTOR_KEYS)
+    if miss and len(miss) < len(MOTOR_KEYS):
+        return out, miss
+    if not miss:
+        p_w = spec.num("motor_power") or 0.0
+        n_rpm = spec.num("motor_speed") or 0.0
+        factor = spec.num("torque_factor") or 0.0
+        omega = 2 * math.pi * n_rpm / 60.0
+        need = factor * p_w / omega if omega > 0 else math.inf
+        vals = [v for v in (spec.get(k) for k in MOTOR_KEYS) if v is not None]
+        sources = "; ".join(dict.fromkeys(v.source for v in vals))
+        texts = ", ".join(f"{v.key} = {v.text}" for v in vals)
+        out.append(Duty("motor duty", need, sources, f"factor·P/ω from {texts}"))
+    return out, []
+
+
+def _duty_inputs(found: list[Duty], governing: Duty, mu_min: float, spec: Spec) -> dict[str, Any]:
+    inputs: dict[str, Any] = {"mu_min": mu_min, "required_torque_Nm": governing.torque_Nm, "governs": governing.name}
+    inputs["duties"] = [
+        {"duty": d.name, "torque_Nm": d.torque_Nm, "source": d.source, "basis": d.basis, "governs": d is governing}
+        for d in found
+    ]
+    if any(d.name == "motor duty" for d in found):
+        inputs.update(
+            motor_power_W=spec.num("motor_power"),
+            motor_speed_rpm=spec.num("motor_speed"),
+            torque_factor=spec.num("torque_factor"),
+        )
+    return inputs
+
+
+def _duty_message(found: list[Duty], governing: Duty, miss: list[str]) -> str:
+    """Both duties with their sources and which governs; empty for a single
+    complete duty (the inputs carry it)."""
+    parts = []
+    if len(found) > 1:
+        head = f"{governing.name} {governing.torque_Nm:.4g} N·m ({governing.basis}; {governing.source}) governs"
+        others = [
+            f"{d.name} {d.torque_Nm:.4g} N·m ({d.basis}; {d.source}) is "
+            + ("smaller" if d.torque_Nm < governing.torque_Nm else "equal")
+            for d in found
+            if d is not governing
+        ]
+        parts.append("two duties, the larger governs: " + "; ".join([head, *others]))
+    if miss:
+        parts.append(f"motor duty not used: it needs {', '.join(miss)}")
+    return "; ".join(parts)
+
+
+def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min: float) -> list[RuleResult]:
+    """Braking torque at mu_min against the duty: the larger of
+    ``required_torque`` and the motor duty when both are given."""
+    out: list[RuleResult] = []
+    found, miss = duties(spec)
+    if not found:
+        why = f"motor duty needs {', '.join(miss)}" if miss else "no required_torque or motor duty in the spec"
+        out += [_skip(f"torque.{d}", f"braking torque, {d}", why) for d in required]
     else:
-        miss = _missing(spec, ("motor_power", "motor_speed", "torque_factor"))
-        if len(miss) < 3 and miss:
-            for d in required:
-                out.append(_skip(f"torque.{d}", f"braking torque, {d}", f"motor duty needs {', '.join(miss)}"))
-        elif not miss:
-            p_w = spec.num("motor_power") or 0.0
-            n_rpm = spec.num("motor_speed") or 0.0
-            factor = spec.num("torque_factor") or 0.0
-            omega = 2 * math.pi * n_rpm / 60.0
-            need = factor * p_w / omega if omega > 0 else math.inf
-            source = SRC_MOTOR
-            inputs.update(motor_power_W=p_w, motor_speed_rpm=n_rpm, torque_factor=factor, required_torque_Nm=need)
-        elif not out:
-            for d in required:
-                out.append(_skip(f"torque.{d}", f"braking torque, {d}", "no required_torque or motor duty in the spec"))
-    if need is not None:
+        governing = max(found, key=lambda d: d.torque_Nm)
+        need = governing.torque_Nm
+        inputs = _duty_inputs(found, governing, mu_min, spec)
+        message = _duty_message(found, governing, miss)
+        if len(found) > 1:
+            source = f"the larger duty: {SRC_TORQUE}; {SRC_MOTOR}"
+        else:
+            source = SRC_MOTOR if governing.name == "motor duty" else SRC_TORQUE
         for d in required:
             c = sol_min.case(d)
-            efforts = [(ld.name, ld.force_N) for ld in c.loads] + [(s.name, s.force_N) for s in c.springs]
-            if efforts and c.torque_Nm > 0:
-                name, available = efforts[0]
-                needed = available * need / c.torque_Nm
-                out.append(
-                    _ratio_rule(
-                        f"effort.{d}",
-                        f"effort margin, {d}",
-                        needed,
-                        available,
-                        "N",
-                        SRC_EFFORT,
-                        {"effort": name, "required_torque_Nm": need, "torque_Nm": c.torque_Nm, "mu_min": mu_min},
-                        at_most=True,
-                        message=f"{name} needs {needed:.4g} N for the duty at mu_min",
-                    )
-                )
+            out += _effort_rule(c, need, governing.name, mu_min)
             out.append(
                 _ratio_rule(
                     f"torque.{d}",
@@ -403,6 +502,7 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
                     source,
                     dict(inputs, direction=str(d)),
                     at_most=False,
+                    message=message,
                 )
             )
     hoist = spec.num("hoist_torque")
@@ -424,6 +524,28 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
                 )
             )
     return out
+
+
+def _effort_rule(c: CaseSolution, need: float, duty: str, mu_min: float) -> list[RuleResult]:
+    d = c.direction
+    efforts = [(ld.name, ld.force_N) for ld in c.loads] + [(s.name, s.force_N) for s in c.springs]
+    if not efforts or c.torque_Nm <= 0:
+        return []
+    name, available = efforts[0]
+    needed = available * need / c.torque_Nm
+    return [
+        _ratio_rule(
+            f"effort.{d}",
+            f"effort margin, {d}",
+            needed,
+            available,
+            "N",
+            SRC_EFFORT,
+            {"effort": name, "required_torque_Nm": need, "duty": duty, "torque_Nm": c.torque_Nm, "mu_min": mu_min},
+            at_most=True,
+            message=f"{name} needs {needed:.4g} N for the duty at mu_min",
+        )
+    ]
 
 
 def _self_lock(spec: Spec, mech: Mechanism, mu_max: float, options: ContactOptions) -> list[RuleResult]:

@@ -15,7 +15,8 @@ Every value with a dimension carries its unit in the text (``"450 N*m"``,
 rejected with a message naming the key and the file.  Per-pin and per-member
 values go in ``pins.NAME`` and ``members.NAME`` sub-tables
 (``[spec.pins.S1]``, ``dxfcheck.pins.S1.pin_length``,
-``--set pins.S1.pin_length=40mm``).
+``--set pins.S1.pin_length=40mm``); a name the drawing does not have is
+refused once the mechanism is known (:func:`dxfcheck.rules.check_subjects`).
 """
 
 from __future__ import annotations
