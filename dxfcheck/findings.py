@@ -69,6 +69,8 @@ class Code(enum.Enum):
     BAND_OPEN = ("M220", Severity.ERROR, "band-open")
     BAND_END_OFF = ("M221", Severity.ERROR, "band-end-off")
     TEXT_AMBIGUOUS = ("M222", Severity.ERROR, "text-ambiguous")
+    LAYER_NEAR_MISS = ("M223", Severity.WARNING, "layer-near-miss")
+    SHOE_MAYBE_PIVOTED = ("M224", Severity.WARNING, "shoe-maybe-pivoted")
     # --- statics -------------------------------------------------------
     FREE_MOTION = ("S301", Severity.ERROR, "free-motion")
     REDUNDANT = ("S302", Severity.ERROR, "redundant")
