@@ -48,10 +48,11 @@ def _mechanism(
     mech = replace(mech, findings=(*mech.findings, *check_mechanism(mech)))  # sizes against real brakes
     if has_errors(list(mech.findings)):
         errors = [f for f in mech.findings if f.severity is Severity.ERROR]
+        warnings = [f for f in mech.findings if f.severity is Severity.WARNING]  # they may explain the errors
         raise MechanismError(
             f"no mechanism can be built ({len(errors)} error{'s' if len(errors) > 1 else ''} in the drawing)",
             path=str(path),
-            findings=errors,
+            findings=[*errors, *warnings],
         )
     return mech
 

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import argparse
 import itertools
+import json
 import sys
 from collections.abc import Sequence
 from typing import Any
@@ -178,8 +179,12 @@ def _parser() -> argparse.ArgumentParser:
     m.add_argument("drawings", nargs="+", help="OLD.dxf NEW.dxf [MORE.dxf ...] or a folder (sorted by name)")
     m.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
     m.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS")
-    m.add_argument("--max-torque-drop", default=None, metavar="PCT", help="fail when torque drops more, e.g. 2%%")
-    m.add_argument("--max-force-rise", default=None, metavar="PCT", help="fail when a force rises more, e.g. 5%%")
+    m.add_argument(
+        "--max-torque-drop", default=None, metavar="PCT", help="fail when torque drops more (default 5%%; 'none': off)"
+    )
+    m.add_argument(
+        "--max-force-rise", default=None, metavar="PCT", help="fail when a force rises more (default 10%%; 'none': off)"
+    )
     m.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every revision")
     m.add_argument("--annotate", default=None, metavar="OUT.dxf", help="mark moved pins and grown forces on NEW")
     m.add_argument("--svg", default=None, metavar="OUT.svg", help="plot the trend across revisions")
@@ -190,7 +195,23 @@ def _parser() -> argparse.ArgumentParser:
 
     b = sub.add_parser("batch", help="check every drawing in folders or globs, in parallel, with a cache")
     b.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
-    b.add_argument("--jobs", type=int, default=None, help="worker processes (default: the CPU count)")
+    b.add_argument(
+        "--jobs", type=int, default=None, help="worker processes (default: the CPU cores; at most 4 per core)"
+    )
+    b.add_argument(
+        "--timeout-each",
+        type=float,
+        default=None,
+        metavar="S",
+        help="time limit of each drawing; over it the drawing is stopped and reported 'timeout' (default 120)",
+    )
+    b.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
+    b.add_argument("--units", default=None, help="drawing unit for every drawing, overriding $INSUNITS")
+    b.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
+    b.add_argument("--strict", action="store_true", help="warnings fail the batch too (exit 1)")
+    b.add_argument(
+        "--follow-symlinks", action="store_true", help="follow symbolic links that lead out of the folders given"
+    )
     b.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
     b.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
     b.add_argument("--no-cache", action="store_true", help="check every drawing again")
@@ -433,19 +454,6 @@ def _subject(args: argparse.Namespace) -> str:
     return str(getattr(args, "drawing", None) or " ".join(many))
 
 
-def _fraction(text: str | None, what: str) -> float | None:
-    if text is None:
-        return None
-    t = text.strip()
-    try:
-        value = float(t[:-1]) / 100 if t.endswith("%") else float(t)
-    except ValueError:
-        raise ConfigError(f"{what}: {text!r} is not a fraction or a percentage such as 2%") from None
-    if not value >= 0:
-        raise ConfigError(f"{what} must not be negative")
-    return value
-
-
 def _revisions(items: Sequence[str]) -> list[str]:
     from pathlib import Path
 
@@ -461,7 +469,7 @@ def _revisions(items: Sequence[str]) -> list[str]:
 
 def _compare(args: argparse.Namespace) -> int:
     from dxfcheck.analysis import check, resolve_config
-    from dxfcheck.compare import Thresholds, compare_judgements, history_svg, mark_revision
+    from dxfcheck.compare import compare_judgements, mark_revision, parse_fraction, resolve_thresholds, trend_svg
     from dxfcheck.files import check_target, write_atomic
     from dxfcheck.report import comparisons_to_dict, print_comparisons, write_json
     from dxfcheck.spec import parse_assignment
@@ -472,26 +480,21 @@ def _compare(args: argparse.Namespace) -> int:
     for target in (args.annotate, args.svg):
         if target:
             check_target(target, force=args.force, protect=tuple(names))
+    for text, option in ((args.max_torque_drop, "--max-torque-drop"), (args.max_force_rise, "--max-force-rise")):
+        if text is not None:
+            parse_fraction(text, option)  # refused before any drawing is read
     overrides = [parse_assignment(s) for s in args.set]
     judgements = []
     for name in names:
         cfg = resolve_config(name, args.config)
         judgements.append(check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args)))
     spec = judgements[-1].spec
-    drop = _fraction(args.max_torque_drop, "--max-torque-drop")
-    rise = _fraction(args.max_force_rise, "--max-force-rise")
-    thresholds = Thresholds(
-        drop if drop is not None else spec.num("max_torque_drop"),
-        rise if rise is not None else spec.num("max_force_rise"),
-    )
+    thresholds = resolve_thresholds(args.max_torque_drop, args.max_force_rise, spec)
     comps = [compare_judgements(a, b, thresholds) for a, b in itertools.pairwise(judgements)]
     if args.annotate:
         mark_revision(comps[-1], args.annotate, resolve_config(names[-1], args.config), force=args.force)
     if args.svg:
-        trend = comparisons_to_dict(comps, names)["trend"]
-        series = {k: [row[k] for row in trend] for k in trend[0] if k.startswith("torque_")}
-        labels = [__import__("pathlib").Path(n).stem for n in names]
-        write_atomic(args.svg, history_svg(labels, series, "N·m"), force=args.force, protect=tuple(names))
+        write_atomic(args.svg, trend_svg(comps), force=args.force, protect=tuple(names))
     if args.json:
         write_json(comparisons_to_dict(comps, names))
     else:
@@ -499,20 +502,33 @@ def _compare(args: argparse.Namespace) -> int:
     return EXIT_CHECK_FAILED if any(c.failed for c in comps) else EXIT_OK
 
 
-def _batch(args: argparse.Namespace) -> int:
-    from dxfcheck.batch import discover, results_csv, results_json, run_batch
-    from dxfcheck.report import print_batch, write_json
+def _batch_options(args: argparse.Namespace) -> Any:
+    from dxfcheck.batch import CheckOptions
     from dxfcheck.spec import parse_assignment
 
-    overrides = [parse_assignment(s) for s in args.set]
-    paths = discover(args.paths)
-    if not paths:
-        raise ConfigError(f"no drawings found in {' '.join(args.paths)}")
-    if args.jobs is not None and args.jobs < 1:
-        raise ConfigError("--jobs must be at least 1")
-    quiet = args.json or args.csv
-    from dxfcheck.report import batch_progress
+    return CheckOptions(
+        config=args.config,
+        overrides=tuple(parse_assignment(s) for s in args.set),
+        units=args.units,
+        tolerance_mm=_tolerance(args),
+        max_bytes=_max_bytes(args),
+    )
 
+
+def _batch(args: argparse.Namespace) -> int:
+    from dxfcheck.batch import DEFAULT_TIMEOUT_EACH_S, check_inputs, find_drawings, results_csv, results_json, run_batch
+    from dxfcheck.report import batch_progress, print_batch, write_json
+
+    options = _batch_options(args)
+    timeout_each = DEFAULT_TIMEOUT_EACH_S if args.timeout_each is None else args.timeout_each
+    check_inputs(options, jobs=args.jobs, timeout_each_s=timeout_each)  # before the folders are searched
+    found = find_drawings(args.paths, follow_symlinks=args.follow_symlinks)
+    for s in found.skipped:
+        sys.stderr.write(f"dxfcheck: {s.path}: skipped: {s.reason}\n")
+    if not found.drawings:
+        raise ConfigError(f"no drawings found in {' '.join(args.paths)}" + (" (some skipped)" if found.skipped else ""))
+    paths = list(found.drawings)
+    quiet = args.json or args.csv
     with batch_progress(len(paths), enabled=not quiet) as on_result:
         if args.scheduler:
             from dxfcheck.batch import run_on_cluster
@@ -520,8 +536,7 @@ def _batch(args: argparse.Namespace) -> int:
             result = run_on_cluster(
                 paths,
                 args.scheduler,
-                config=args.config,
-                overrides=overrides,
+                options=options,
                 use_cache=not args.no_cache,
                 cache_dir=args.cache_dir,
                 on_result=on_result,
@@ -530,24 +545,46 @@ def _batch(args: argparse.Namespace) -> int:
             result = run_batch(
                 paths,
                 jobs=args.jobs,
-                config=args.config,
-                overrides=overrides,
+                options=options,
                 use_cache=not args.no_cache,
                 cache_dir=args.cache_dir,
                 on_result=on_result,
+                timeout_each_s=timeout_each,
             )
+    result.skipped = found.skipped
+    for note in result.notes:
+        sys.stderr.write(f"dxfcheck: note: {note}\n")
+    if result.interrupted:
+        sys.stderr.write(f"dxfcheck: interrupted by {result.signal}: {len(result.results)} of {len(paths)} checked\n")
     if args.json:
         write_json(results_json(result))
     elif args.csv:
         sys.stdout.write(results_csv(result))
     else:
         print_batch(result)
+    return _batch_exit(result, strict=args.strict)
+
+
+def _batch_exit(result: Any, *, strict: bool) -> int:
+    import signal
+
     counts = result.counts()
     if result.interrupted:
-        return 130
-    if counts["error"]:
+        return 128 + int(getattr(signal, result.signal or "SIGINT", signal.SIGINT))
+    if counts["error"] or counts["timeout"]:
         return EXIT_UNUSABLE
-    return EXIT_CHECK_FAILED if counts["fail"] else EXIT_OK
+    return EXIT_CHECK_FAILED if counts["fail"] or (strict and counts["warn"]) else EXIT_OK
+
+
+def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool = False) -> None:
+    """With ``--json``, a refusal still prints one JSON document on stdout."""
+    if not getattr(args, "json", False) or args.command not in ("solve", "check"):
+        return
+    from dxfcheck.report import CHECK_SCHEMA, SOLVE_SCHEMA, error_document
+
+    schema = CHECK_SCHEMA if args.command == "check" else SOLVE_SCHEMA
+    drawing = str(args.drawing) if getattr(args, "drawing", None) else None
+    print(json.dumps(error_document(exc, schema, drawing, internal=internal), indent=2, allow_nan=False))
 
 
 def main(argv: Sequence[str] | None = None) -> int:
@@ -563,9 +600,11 @@ def main(argv: Sequence[str] | None = None) -> int:
         if INTERNAL_ERRORS_RAISE:
             raise
         sys.stderr.write(f"dxfcheck: {exc.path or _subject(args)}: internal error: {exc.message}; please report it\n")
+        _json_error(args, exc, internal=True)
         return EXIT_INTERNAL
     except DxfcheckError as exc:
         print_error(exc)
+        _json_error(args, exc)
         return EXIT_UNUSABLE
     except KeyboardInterrupt:
         sys.stderr.write("dxfcheck: interrupted\n")

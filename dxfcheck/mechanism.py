@@ -22,6 +22,7 @@ Every problem the user can fix in the drawing becomes a :class:`Finding`.
 from __future__ import annotations
 
 import enum
+import itertools
 import math
 import re
 from collections.abc import Sequence
@@ -31,6 +32,7 @@ from dxfcheck.config import Role
 from dxfcheck.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source, TextGeom
 from dxfcheck.findings import Code, Finding, Severity
 from dxfcheck.geometry import Point, angle_in_arc, dist, point_segment_distance, unit
+from dxfcheck.layers import layer_findings, missing_role_note, searched
 from dxfcheck.units import FORCE_N, AmbiguousTextError, UnitError, quantity_in_text
 
 __all__ = [
@@ -339,6 +341,28 @@ class Mechanism:
         return next(p for p in self.parts if p.name == name)
 
 
+#: A gap up to this many times the tolerance is reported as a near miss.
+NEAR_MISS_FACTOR = 200.0
+
+
+def _near_miss(at: Point, circles: Sequence[CircleGeom], paths: Sequence[PathGeom], tol: float) -> str:
+    """``"; it is 0.50 mm from ..."``: the nearest pin circle or centreline
+    within :data:`NEAR_MISS_FACTOR` × ``tol`` of ``at``, with the gap and
+    the tolerance, or ``""``."""
+    best: tuple[float, str] | None = None
+    for g in circles:
+        d = dist(at, g.center)
+        if best is None or d < best[0]:
+            best = (d, f"the pin circle at {_fmt(g.center)} [entity {g.source.ref}]")
+    for q in paths:
+        d = min(point_segment_distance(at, a, b) for a, b in itertools.pairwise(q.points))
+        if best is None or d < best[0]:
+            best = (d, f"the centreline [entity {q.source.ref}; layer {q.source.layer}]")
+    if best is None or best[0] > NEAR_MISS_FACTOR * tol:
+        return ""
+    return f"; it is {best[0]:.2f} mm from {best[1]} (tolerance {tol:.3g} mm): a near miss, close the gap"
+
+
 class _UnionFind:
     def __init__(self, n: int) -> None:
         self.parent = list(range(n))
@@ -424,7 +448,11 @@ def build_mechanism(
     drum: Drum | None = None
     if not drums:
         findings.append(
-            Finding(Code.NO_DRUM, "no drum circle found on the drum layer; draw the drum's braking surface")
+            Finding(
+                Code.NO_DRUM,
+                f"no drum circle found on the {searched(drawing, Role.DRUM)}; draw the drum's braking surface"
+                + missing_role_note(drawing, Role.DRUM, tol),
+            )
         )
     else:
         d0 = drums[0]
@@ -469,7 +497,8 @@ def build_mechanism(
             findings.append(
                 _f(
                     Code.OPEN_END,
-                    f"centreline end at {_fmt(end)} meets no pin, part, shoe or load",
+                    f"centreline end at {_fmt(end)} meets no pin, part, shoe or load"
+                    + _near_miss(end, pin_geoms, [q for j, q in enumerate(links) if j != i], tol),
                     [path.source],
                     end,
                 )
@@ -572,7 +601,8 @@ def build_mechanism(
             findings.append(
                 _f(
                     Code.ORPHAN_PIN,
-                    f"{'pivot' if grounded else 'pin'} {name} lies on no part's centreline",
+                    f"{'pivot' if grounded else 'pin'} {name} lies on no part's centreline"
+                    + _near_miss(g.center, [], links, tol),
                     [g.source],
                     g.center,
                 )
@@ -582,7 +612,8 @@ def build_mechanism(
             findings.append(
                 _f(
                     Code.LONELY_PIN,
-                    f"pin {name} lies on one part only ({part_names[on[0]]}); it joins nothing and is left out",
+                    f"pin {name} lies on one part only ({part_names[on[0]]}); it joins nothing and is left out"
+                    + _near_miss(g.center, [], [q for q in links if not _on_path(g.center, q, tol)], tol),
                     [g.source],
                     g.center,
                 )
@@ -656,7 +687,8 @@ def build_mechanism(
         findings.append(
             Finding(
                 Code.NO_LOAD,
-                "no load line on the load layer and no spring; draw the effort as a line from its point of application",
+                f"no load line on the {searched(drawing, Role.LOAD)} and no spring; draw the effort as a line "
+                "from its point of application" + missing_role_note(drawing, Role.LOAD, tol),
             )
         )
 
@@ -739,7 +771,11 @@ def build_mechanism(
         shoes.append(Shoe(sname, pname, arc, mounting, pin, internal))
     if drum is not None and not arcs and not bands:
         findings.append(
-            Finding(Code.NO_SHOE, "no shoe arc on the shoe layer (and no band); draw each lining's contact arc")
+            Finding(
+                Code.NO_SHOE,
+                f"no shoe arc on the {searched(drawing, Role.SHOE)} (and no band); draw each lining's contact arc"
+                + missing_role_note(drawing, Role.SHOE, tol),
+            )
         )
 
     parts = tuple(
@@ -751,7 +787,7 @@ def build_mechanism(
         )
         for gi, members in enumerate(group_list)
     )
-    return Mechanism(
+    mech = Mechanism(
         drawing=drawing,
         tolerance_mm=tol,
         length_scale_mm=drawing.extent_mm(),
@@ -765,6 +801,7 @@ def build_mechanism(
         bands=tuple(bands),
         labelled_names=frozenset(t.text for _, t in named.values()),
     )
+    return replace(mech, findings=(*mech.findings, *layer_findings(mech)))  # layers that look like a role's
 
 
 #: Words that give a spring's sense: False pushes (compression), True pulls

@@ -28,6 +28,7 @@ __all__ = [
     "SOLVE_SCHEMA",
     "batch_progress",
     "comparisons_to_dict",
+    "error_document",
     "judgement_to_dict",
     "junit_xml",
     "print_batch",
@@ -177,6 +178,7 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "tool": {"name": "dxfcheck", "version": __version__},
         "drawing": d.path,
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
+        "layers": layers_json(d),
         "tolerance_mm": mech.tolerance_mm,
         "family": mech.family,
         "mechanism": {
@@ -240,6 +242,7 @@ def _severity_style(sev: Severity) -> str:
 
 def print_findings(console: Any, findings: tuple[Finding, ...] | list[Finding]) -> None:
     """The findings table (words carry the meaning; colour only helps)."""
+    from rich.markup import escape
     from rich.table import Table
 
     if not findings:
@@ -249,7 +252,7 @@ def print_findings(console: Any, findings: tuple[Finding, ...] | list[Finding]) 
     for col in ("code", "severity", "message", "where"):
         t.add_column(col)
     for f in findings:
-        t.add_row(f.code.id, f"[{_severity_style(f.severity)}]{f.severity}[/]", f.message, f.where())
+        t.add_row(f.code.id, f"[{_severity_style(f.severity)}]{f.severity}[/]", escape(f.message), escape(f.where()))
     console.print(t)
 
 
@@ -267,6 +270,7 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
         if mech.drum
         else f"units: {d.units}"
     )
+    console.print(searched_line(d), markup=False)
     console.print(
         f"inferred: {mech.family}: {len(mech.parts)} parts, {len(mech.pins)} pins "
         f"({sum(p.grounded for p in mech.pins)} pivots), {len(mech.shoes)} shoes, {len(mech.bands)} bands, "
@@ -364,6 +368,22 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
     print_findings(console, sol.findings)
     console.print()
     console.print(CAUTION)
+
+
+def error_document(exc: DxfcheckError, schema: str, drawing: str | None, *, internal: bool = False) -> dict[str, Any]:
+    """The JSON document of a refusal (exit 2) or an internal error (exit
+    3): the command's schema, the drawing, ``"error"`` and every finding, so
+    that ``--json`` always prints one document."""
+    from dxfcheck import __version__
+
+    return {
+        "schema": schema,
+        "tool": {"name": "dxfcheck", "version": __version__},
+        "drawing": exc.path or drawing,
+        "error": {"kind": "internal" if internal else "unusable", "message": exc.message},
+        "findings": [f.as_dict() for f in exc.findings],
+        "caution": CAUTION,
+    }
 
 
 def print_error(exc: DxfcheckError, err: IO[str] | None = None) -> None:
@@ -471,6 +491,7 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
         + (" (strict: warnings fail)" if strict else "")
     )
     console.print(f"μ = {j.mu:g} (range {j.mu_min:g} to {j.mu_max:g})")
+    console.print(searched_line(j.mechanism.drawing), markup=False)
     for line in _theory_lines(j):
         console.print(line)
     t = Table(title="rules", title_justify="left")
@@ -535,17 +556,24 @@ def junit_xml(j: Judgement, *, strict: bool = False) -> str:
 
 
 #: Versioned name of the ``compare --json`` document.
-COMPARE_SCHEMA = "dxfcheck.compare/1"
+COMPARE_SCHEMA = "dxfcheck.compare/2"
 
 
 def comparisons_to_dict(comps: list[Any], names: list[str]) -> dict[str, Any]:
-    """The ``dxfcheck.compare/1`` JSON document."""
-    from dxfcheck.compare import change_to_dict
+    """The ``dxfcheck.compare/2`` JSON document."""
+    from dxfcheck.compare import Thresholds, change_to_dict
 
+    th = comps[0].thresholds if comps else Thresholds()
     return {
         "schema": COMPARE_SCHEMA,
         "drawings": names,
         "failed": any(c.failed for c in comps),
+        "thresholds": {
+            "max_torque_drop": th.max_torque_drop,
+            "max_torque_drop_source": th.torque_drop_source,
+            "max_force_rise": th.max_force_rise,
+            "max_force_rise_source": th.force_rise_source,
+        },
         "steps": [
             {
                 "old": c.old.mechanism.drawing.path,
@@ -560,6 +588,15 @@ def comparisons_to_dict(comps: list[Any], names: list[str]) -> dict[str, Any]:
                     "found_from": c.motion_source,
                 },
                 "pin_map": c.pin_map,
+                "part_map": c.part_map,
+                "matched": {
+                    "pins": len(c.pin_map),
+                    "old_pins": len(c.old.mechanism.pins),
+                    "new_pins": len(c.new.mechanism.pins),
+                    "parts": len(c.part_map),
+                    "old_parts": len(c.old.mechanism.parts),
+                    "new_parts": len(c.new.mechanism.parts),
+                },
                 "failed": c.failed,
                 "changes": [change_to_dict(x) for x in c.changes],
             }
@@ -571,12 +608,15 @@ def comparisons_to_dict(comps: list[Any], names: list[str]) -> dict[str, Any]:
 
 
 def _trend(comps: list[Any]) -> list[dict[str, Any]]:
+    from dxfcheck.compare import required_torque
+
     if not comps:
         return []
     judgements = [comps[0].old] + [c.new for c in comps]
     out = []
     for j in judgements:
         row: dict[str, Any] = {"drawing": j.mechanism.drawing.path, "verdict": str(j.verdict)}
+        row["required_torque_Nm"] = required_torque(j)
         for c in j.nominal.cases:
             row[f"torque_{c.direction}_Nm"] = c.torque_Nm
             row[f"max_pin_force_{c.direction}_N"] = max((p.max_force_N for p in c.pins), default=0.0)
@@ -601,10 +641,16 @@ def print_comparisons(comps: list[Any], out: IO[str] | None = None) -> None:
         f"{len(comps)} revision step{'s' if len(comps) != 1 else ''}"
         + (": a threshold is crossed or a verdict went from pass to fail" if failed else "")
     )
+    if comps:
+        console.print(comps[0].thresholds.describe())
     for c in comps:
         console.print()
         console.print(f"[bold]{c.old.mechanism.drawing.path}[/] -> [bold]{c.new.mechanism.drawing.path}[/]")
-        console.print(f"rigid motion found from {c.motion_source}; {len(c.pin_map)} pins matched")
+        mo, mn = c.old.mechanism, c.new.mechanism
+        console.print(
+            f"rigid motion found from {c.motion_source}; {len(c.pin_map)} of {len(mo.pins)} pins "
+            f"({len(mn.pins)} in the newer) and {len(c.part_map)} of {len(mo.parts)} parts matched"
+        )
         t = Table(title="changes (threshold crossings and verdict changes first)", title_justify="left")
         for col in ("flag", "what", "name", "dir", "old", "new", "change", "rel"):
             t.add_column(col, justify="right" if col in ("old", "new", "change", "rel") else "left")
@@ -663,7 +709,7 @@ def batch_progress(total: int, *, enabled: bool = True) -> Iterator[Callable[[An
         task = progress.add_task("batch", total=total, failures=0, rate="")
 
         def on_result(r: Any) -> None:
-            if r.status in ("fail", "error"):
+            if r.status in ("fail", "error", "timeout"):
                 failures["n"] += 1
             done = progress.tasks[0].completed + 1
             rate = done / max(time.perf_counter() - started, 1e-9)
@@ -677,12 +723,7 @@ def print_batch(batch: Any, out: IO[str] | None = None) -> None:
     from rich.table import Table
 
     console = _console(out)
-    counts = batch.counts()
-    worst = "error" if counts["error"] else "fail" if counts["fail"] else "warn" if counts["warn"] else "pass"
-    console.print(
-        f"{worst.upper()}  {len(batch.results)} drawings: {counts['pass']} passed, {counts['warn']} warnings, "
-        f"{counts['fail']} failed, {counts['error']} unusable" + (" (interrupted)" if batch.interrupted else "")
-    )
+    console.print(f"{batch.worst().upper()}  {batch.summary()}")
     t = Table(title="drawings", title_justify="left")
     for col in ("status", "drawing", "torque cw N·m", "torque ccw N·m", "failed rules / error", "s"):
         t.add_column(col, justify="right" if col in ("torque cw N·m", "torque ccw N·m", "s") else "left")
@@ -692,7 +733,7 @@ def print_batch(batch: Any, out: IO[str] | None = None) -> None:
             r.drawing,
             "-" if r.torque_cw_Nm is None else f"{r.torque_cw_Nm:.1f}",
             "-" if r.torque_ccw_Nm is None else f"{r.torque_ccw_Nm:.1f}",
-            r.message if r.status == "error" else ", ".join(r.failed_rules),
+            r.message if r.status in ("error", "timeout") else ", ".join(r.failed_rules),
             "cached" if r.cached else f"{r.seconds:.2f}",
         )
     console.print(t)

@@ -563,14 +563,45 @@ def _assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direc
     return _System(a, b, row_owner, col_owner, bases, dropped, findings)
 
 
-def _names_in(weights: Iterable[tuple[str, float]]) -> list[str]:
+def _names_in(weights: Iterable[tuple[str, float]], share: float = MODE_SHARE) -> list[str]:
+    """Names whose summed squared weights exceed ``share``² of the largest,
+    the largest first."""
     acc: dict[str, float] = {}
     for name, w in weights:
         acc[name] = acc.get(name, 0.0) + w * w
     if not acc:
         return []
     top = max(acc.values())
-    return [n for n, v in acc.items() if v > MODE_SHARE**2 * top]
+    return sorted((n for n, v in acc.items() if v > share**2 * top), key=lambda n: -acc[n])
+
+
+#: The parts named as moving in a free motion: those whose motion exceeds
+#: this fraction of the largest.
+MOVING_SHARE = 0.1
+#: Findings that explain a free motion when they sit on a part or pin that
+#: takes part in it.
+CAUSE_CODES = (Code.OPEN_END, Code.LONELY_PIN, Code.ORPHAN_PIN, Code.LOAD_AT_PIVOT)
+
+
+def _at_text(at: Point | None) -> str:
+    return f" at ({at[0]:.6g}, {at[1]:.6g}) mm" if at is not None else ""
+
+
+def _probable_causes(mech: Mechanism, null: NDArray[np.float64], owners: list[tuple[str, str]]) -> list[Finding]:
+    """The reading and topology findings on any part or pin that takes part
+    in any free motion (a column of ``null``, the left null space: the
+    motions the equations allow), most likely first."""
+    weight = np.sqrt(np.sum(null * null, axis=1))
+    top = float(weight.max(initial=0.0)) or 1.0
+    bodies = {name for i, (kind, name) in enumerate(owners) if kind == "body" and weight[i] > 1e-6 * top}
+    pins = {name for i, (kind, name) in enumerate(owners) if kind == "pin" and weight[i] > 1e-6 * top}
+    refs = {src.ref for p in mech.parts if p.name in bodies for src in p.sources}
+    refs |= {p.source.ref for p in mech.pins if p.name in pins or set(p.bodies) & bodies}
+    near = [f for f in mech.findings if f.code in CAUSE_CODES and set(f.handles) & refs]
+    others = [f for f in mech.findings if f.code in CAUSE_CODES and f not in near]
+    # a part left out of the linkage altogether (a lonely pin, an open end)
+    # is named even when it is not a moving part's
+    return near + [f for f in others if "near miss" in f.message]
 
 
 def _pin_srcs(mech: Mechanism, names: Sequence[str]) -> tuple[tuple[str, ...], tuple[str, ...], Point | None]:
@@ -639,19 +670,28 @@ def _diagnose(mech: Mechanism, sys_: _System, direction: Direction) -> tuple[lis
         bnorm = float(np.linalg.norm(b)) or 1.0
         excited = float(np.linalg.norm(proj)) > EXCITATION_RTOL * bnorm
         y = null @ proj if excited else null[:, 0]
-        body_names = _names_in((name, float(y[i])) for i, (kind, name) in enumerate(owners) if kind == "body")
+        body_names = _names_in(
+            ((name, float(y[i])) for i, (kind, name) in enumerate(owners) if kind == "body"), MOVING_SHARE
+        )
         pin_names = _names_in((name, float(y[i])) for i, (kind, name) in enumerate(owners) if kind == "pin")
         moving = [nm for nm in body_names if nm not in loose]
         if moving or not excited:
             h, lay, at = _part_srcs(mech, moving)
             verb = "can move under the loads" if excited else "can move freely (the loads do not drive it)"
             around = f" (around pins {', '.join(pin_names)})" if pin_names else ""
+            causes = _probable_causes(mech, null, owners)
             findings.append(
                 Finding(
                     Code.FREE_MOTION,
                     f"{direction}: part{'s' if len(moving) != 1 else ''} {', '.join(moving) or '?'} {verb}{around}: "
                     f"the linkage has {m - rank} free motion{'s' if m - rank > 1 else ''}; "
-                    "add the pin or link that holds it",
+                    + (
+                        "probable cause: "
+                        + ", ".join(f"{f.code.id} {f.code.slug}" + _at_text(f.at) for f in causes)
+                        + " (listed below)"
+                        if causes
+                        else "add the pin or link that holds it"
+                    ),
                     h,
                     lay,
                     at,
@@ -863,7 +903,27 @@ def solve_case(
         When the linkage has a free motion the loads drive, or is redundant;
         the error carries the findings that name the parts and pins.
     """
-    direction = Direction(direction)
+    try:
+        return _solve_case(mech, mu, Direction(direction), options, locking)
+    except SolveError as exc:
+        raise _with_warnings(mech, exc) from None
+
+
+def _with_warnings(mech: Mechanism, exc: SolveError) -> SolveError:
+    """``exc`` with the mechanism's warnings after its errors: a refusal
+    shows the reading and topology findings that may explain it (an open
+    end, a one-part pin) even though they are only warnings."""
+    errors = list(exc.findings)
+    warnings = [f for f in mech.findings if f.severity is Severity.WARNING and f not in errors]
+    # warnings on the entities an error names first
+    named = {h for f in errors for h in f.handles}
+    warnings.sort(key=lambda f: not (set(f.handles) & named))
+    return SolveError(exc.message, path=exc.path, findings=[*errors, *warnings])
+
+
+def _solve_case(
+    mech: Mechanism, mu: float, direction: Direction, options: ContactOptions, locking: bool
+) -> CaseSolution:
     if has_errors(list(mech.findings)):
         raise SolveError(
             "the mechanism has errors; fix the drawing first",

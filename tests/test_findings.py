@@ -132,9 +132,11 @@ def test_free_lever(tmp_path):
     _conveyor(pivot=False).save(path)
     with pytest.raises(dxfcheck.SolveError) as info:
         dxfcheck.analyse(path, mu=0.35)
-    (f,) = info.value.findings
+    f, *rest = info.value.findings
     assert f.code is Code.FREE_MOTION and "lever" in f.message
     assert f.layers and f.layers[0] == "LINK"
+    # the refusal also carries the warnings that may explain it, after the errors
+    assert all(w.severity is Severity.WARNING for w in rest)
 
 
 def test_pieces_that_cross_do_not_join(tmp_path):
