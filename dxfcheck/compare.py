@@ -13,7 +13,15 @@ Then, per drum direction, every comparable quantity (braking torque, pin
 forces, member forces, shoe forces and peak line loads, band tensions, rule
 verdicts and margins) is listed with its absolute and relative change, the
 verdict changes first and then the largest relative change.  Thresholds turn
-a torque drop or a force rise into a failure.
+a torque drop or a force rise into a failure; without one given, the stated
+defaults :data:`DEFAULT_MAX_TORQUE_DROP` and :data:`DEFAULT_MAX_FORCE_RISE`
+apply.  The geometry is compared too: pins moved, parts whose pins moved
+apart or whose centreline changed, loads moved, turned or changed in
+magnitude, spring ends moved, linings and bands re-drawn, the drum changed.
+
+Two drawings that share too little to be revisions of one brake (fewer than
+half of the smaller one's pins or parts matched) are refused
+(:class:`RevisionMismatch`) rather than compared.
 
 References
 ----------
@@ -30,20 +38,29 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from dxfcheck.config import Config
-from dxfcheck.geometry import Affine, Point, dist
-from dxfcheck.mechanism import Mechanism
+from dxfcheck.errors import ConfigError, DxfcheckError
+from dxfcheck.geometry import Affine, Point, dist, point_segment_distance
+from dxfcheck.mechanism import Load, Mechanism, Part, Spring
 from dxfcheck.rules import Judgement, Verdict
+from dxfcheck.spec import Spec
 from dxfcheck.statics import CaseSolution
 
 __all__ = [
+    "DEFAULT_MAX_FORCE_RISE",
+    "DEFAULT_MAX_TORQUE_DROP",
     "MATCH_RTOL",
     "Change",
     "Comparison",
+    "RevisionMismatch",
     "Thresholds",
     "compare_judgements",
     "history_svg",
     "mark_revision",
+    "parse_fraction",
+    "required_torque",
+    "resolve_thresholds",
     "rigid_motion",
+    "trend_svg",
 ]
 
 #: Pins match by position when within this fraction of the drawing's size
@@ -56,15 +73,95 @@ INLIER_TOL_FACTOR = 10.0
 TURN_STEP_DEG = 0.5
 #: Relative changes below this are reported as unchanged.
 UNCHANGED_RTOL = 1e-9
+#: A load's direction or a lining's position that turned by less than this
+#: is unchanged [degrees].
+ANGLE_TOL_DEG = 0.01
+#: Points sampled along each centreline segment when comparing shapes.
+SHAPE_SAMPLES = 16
+#: Revisions match when at least this fraction of the smaller revision's
+#: pins, and of its parts, are matched.
+MIN_MATCHED_FRACTION = 0.5
+
+#: Default limit on a revision's braking-torque drop [fraction]: 5 %
+#: (common practice for a design-review gate: a drop within the scatter of
+#: the friction coefficient passes, a larger one is looked at).
+DEFAULT_MAX_TORQUE_DROP = 0.05
+#: Default limit on a revision's rise of any pin, member, shoe or band force
+#: [fraction]: 10 % (common practice, in the order of the margins left by the
+#: usual safety factors on pins and links).
+DEFAULT_MAX_FORCE_RISE = 0.10
+#: Where the defaults come from, as the report says.
+DEFAULT_SOURCE = "default, common practice"
+
+
+class RevisionMismatch(DxfcheckError):
+    """The drawings share too little to be revisions of one brake."""
 
 
 @dataclass(frozen=True)
 class Thresholds:
-    """Limits on a revision [fractions]: ``max_torque_drop`` (0.02 is 2 %),
-    ``max_force_rise`` for pins, members, shoes and bands."""
+    """Limits on a revision [fractions]: ``max_torque_drop`` (0.05 is 5 %),
+    ``max_force_rise`` for pins, members, shoes and bands; None switches a
+    limit off.  The defaults are :data:`DEFAULT_MAX_TORQUE_DROP` and
+    :data:`DEFAULT_MAX_FORCE_RISE`; ``*_source`` say where each came from."""
 
-    max_torque_drop: float | None = None
-    max_force_rise: float | None = None
+    max_torque_drop: float | None = DEFAULT_MAX_TORQUE_DROP
+    max_force_rise: float | None = DEFAULT_MAX_FORCE_RISE
+    torque_drop_source: str = DEFAULT_SOURCE
+    force_rise_source: str = DEFAULT_SOURCE
+
+    def describe(self) -> str:
+        """One line for the report."""
+
+        def one(what: str, v: float | None, src: str) -> str:
+            return f"{what} {'off' if v is None else f'{100 * v:g} %'} ({src})"
+
+        return (
+            f"thresholds: {one('torque drop', self.max_torque_drop, self.torque_drop_source)}, "
+            f"{one('force rise', self.max_force_rise, self.force_rise_source)}"
+        )
+
+
+#: Option texts that switch a threshold off.
+OFF_WORDS = ("none", "off")
+
+
+def parse_fraction(text: str, what: str) -> float | None:
+    """``"5%"`` or ``"0.05"`` -> 0.05; ``"none"``/``"off"`` -> None.
+
+    Raises
+    ------
+    ConfigError
+        Naming ``what`` (the option) and the text.
+    """
+    t = text.strip()
+    if t.lower() in OFF_WORDS:
+        return None
+    try:
+        value = float(t[:-1]) / 100 if t.endswith("%") else float(t)
+    except ValueError:
+        raise ConfigError(f"{what}: {text!r} is not a fraction or a percentage such as 5% (or 'none')") from None
+    if not 0 <= value < math.inf:
+        raise ConfigError(f"{what}: {text!r} must be a finite fraction, not negative")
+    return value
+
+
+def resolve_thresholds(torque_drop: str | None, force_rise: str | None, spec: Spec) -> Thresholds:
+    """The thresholds of a compare run: the option text, else the newest
+    revision's spec key (``max_torque_drop``, ``max_force_rise``), else the
+    stated default; each with its source."""
+
+    def pick(text: str | None, option: str, key: str, default: float) -> tuple[float | None, str]:
+        if text is not None:
+            return parse_fraction(text, option), option
+        v = spec.get(key)
+        if v is not None:
+            return float(v.value), f"spec key {key}, {v.source}"
+        return default, DEFAULT_SOURCE
+
+    drop, drop_src = pick(torque_drop, "--max-torque-drop", "max_torque_drop", DEFAULT_MAX_TORQUE_DROP)
+    rise, rise_src = pick(force_rise, "--max-force-rise", "max_force_rise", DEFAULT_MAX_FORCE_RISE)
+    return Thresholds(drop, rise, drop_src, rise_src)
 
 
 @dataclass(frozen=True)
@@ -74,8 +171,13 @@ class Change:
     Attributes
     ----------
     kind : str
-        ``torque``, ``pin``, ``member``, ``shoe``, ``band``, ``rule``,
-        ``moved``, ``diameter``, ``added``, ``removed``.
+        Forces per direction: ``torque``, ``pin``, ``member``, ``shoe``,
+        ``band``; ``rule``; geometry: ``moved`` (a pin), ``diameter`` (a
+        pin's), ``part`` (a span between two of its pins, its centreline
+        length or shape), ``load`` (point, direction, force), ``spring``
+        (an end, its length, force, sense), ``lining`` (a shoe's contact
+        angle or position), ``wrap`` (a band's), ``drum``; ``added``,
+        ``removed``.
     name : str
     direction : str
         ``cw``, ``ccw`` or ``""`` for geometry.
@@ -86,6 +188,9 @@ class Change:
         True when this change crosses a threshold or turns a verdict from
         pass to fail.
     note : str
+    at : Point or None
+        Where the change is in the newer revision [mm] (a geometry change's
+        pin, load point, spring end, lining middle...), for the mark-up.
     """
 
     kind: str
@@ -98,6 +203,7 @@ class Change:
     rel_change: float | None = None
     crossed: bool = False
     note: str = ""
+    at: Point | None = None
 
 
 @dataclass(frozen=True)
@@ -110,6 +216,8 @@ class Comparison:
     motion_source: str
     pin_map: dict[str, str]
     changes: tuple[Change, ...] = field(default=())
+    thresholds: Thresholds = field(default_factory=Thresholds)
+    part_map: dict[str, str] = field(default_factory=dict)
 
     @property
     def failed(self) -> bool:
@@ -243,12 +351,17 @@ def _rel(old: float, new: float) -> float | None:
 
 
 def compare_judgements(old: Judgement, new: Judgement, thresholds: Thresholds = Thresholds()) -> Comparison:
-    """Match two solved revisions and list what changed."""
+    """Match two solved revisions and list what changed.
+
+    Raises
+    ------
+    RevisionMismatch
+        When fewer than half of the smaller revision's pins, or of its
+        parts, can be matched: the drawings are not revisions of one brake.
+    """
     mo, mn = old.mechanism, new.mechanism
     motion, how = rigid_motion(mo, mn)
     pin_map = _match_pins(mo, mn, motion)
-    changes: list[Change] = []
-    changes += _geometry_changes(mo, mn, motion, pin_map)
     part_map = _match_named(
         [p.name for p in mo.parts],
         [p.name for p in mn.parts],
@@ -257,8 +370,16 @@ def compare_judgements(old: Judgement, new: Judgement, thresholds: Thresholds = 
         pin_map,
         mo.labelled_names & mn.labelled_names,
     )
+    _require_related(mo, mn, pin_map, part_map, how)
+    changes: list[Change] = []
+    changes += _geometry_changes(mo, mn, motion, pin_map)
     changes += [Change("removed", p.name, "", "part", None, "") for p in mo.parts if p.name not in part_map]
     changes += [Change("added", p.name, "", None, "part", "") for p in mn.parts if p.name not in part_map.values()]
+    tol = max(mo.tolerance_mm, mn.tolerance_mm)
+    changes += _part_changes(mo, mn, motion, pin_map, part_map, tol)
+    changes += _load_changes(mo, mn, motion, part_map, tol)
+    changes += _spring_changes(mo, mn, motion, part_map, tol)
+    changes += _drum_changes(mo, mn, motion, part_map, tol)
     shoe_map = {s.name: t.name for s in mo.shoes for t in mn.shoes if part_map.get(s.part) == t.part}
     band_names = {b.name for b in mn.bands}
     for co in old.nominal.cases:
@@ -275,7 +396,31 @@ def compare_judgements(old: Judgement, new: Judgement, thresholds: Thresholds = 
         or c.crossed
     ]
     kept.sort(key=_order)
-    return Comparison(old, new, motion, how, pin_map, tuple(kept))
+    return Comparison(old, new, motion, how, pin_map, tuple(kept), thresholds, part_map)
+
+
+def _require_related(mo: Mechanism, mn: Mechanism, pin_map: dict[str, str], part_map: dict[str, str], how: str) -> None:
+    """Refuse two drawings that share too little to be one brake's
+    revisions (nothing would be compared but added and removed items)."""
+    short: list[str] = []
+    for what, n_old, n_new, n_matched in (
+        ("pins", len(mo.pins), len(mn.pins), len(pin_map)),
+        ("parts", len(mo.parts), len(mn.parts), len(part_map)),
+    ):
+        smaller = min(n_old, n_new)
+        if n_matched < MIN_MATCHED_FRACTION * smaller or (smaller and not n_matched):
+            short.append(f"{n_matched} of {n_old} {what} matched ({n_new} in the newer)")
+    if not short:
+        return
+    old_pins = ", ".join(p.name for p in mo.pins) or "none"
+    new_pins = ", ".join(p.name for p in mn.pins) or "none"
+    raise RevisionMismatch(
+        f"{mo.drawing.path} and {mn.drawing.path} do not look like revisions of one brake: "
+        f"{'; '.join(short)}, by label or by position after the rigid motion ({how}); "
+        f"pins {old_pins} against {new_pins}. Compare revisions of one drawing, or label the pins and parts "
+        f"alike in both (at least {100 * MIN_MATCHED_FRACTION:g} % of the smaller revision's must match)",
+        path=mn.drawing.path,
+    )
 
 
 def _geometry_changes(mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dict[str, str]) -> list[Change]:
@@ -290,7 +435,18 @@ def _geometry_changes(mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dic
         moved = dist(motion.apply(p.center), q.center)
         if moved > mn.tolerance_mm:
             out.append(
-                Change("moved", q.name, "", 0.0, moved, "mm", moved, None, note=f"{p.name} moved {moved:.4g} mm")
+                Change(
+                    "moved",
+                    q.name,
+                    "",
+                    0.0,
+                    moved,
+                    "mm",
+                    moved,
+                    None,
+                    note=f"{p.name} moved {moved:.4g} mm",
+                    at=q.center,
+                )
             )
         if abs(q.diameter_mm - p.diameter_mm) > mn.tolerance_mm:
             out.append(
@@ -303,6 +459,7 @@ def _geometry_changes(mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dic
                     "mm",
                     q.diameter_mm - p.diameter_mm,
                     _rel(p.diameter_mm, q.diameter_mm),
+                    at=q.center,
                 )
             )
     matched = set(pin_map.values())
@@ -311,6 +468,359 @@ def _geometry_changes(mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dic
         for q in mn.pins
         if q.name not in matched
     ]
+    return out
+
+
+def _mid(a: Point, b: Point) -> Point:
+    return (0.5 * (a[0] + b[0]), 0.5 * (a[1] + b[1]))
+
+
+def _far_end(part: Part) -> Point:
+    """A point to mark a part by: its centreline point farthest from its
+    first point (the other end, for a straight lever)."""
+    pts = part.points
+    return max(pts, key=lambda q: dist(q, pts[0]))
+
+
+def _part_length(part: Part) -> float:
+    return sum(dist(a, b) for a, b in part.segments)
+
+
+def _samples(segments: Sequence[tuple[Point, Point]]) -> list[Point]:
+    n = SHAPE_SAMPLES
+    return [(a[0] + (b[0] - a[0]) * k / n, a[1] + (b[1] - a[1]) * k / n) for a, b in segments for k in range(n + 1)]
+
+
+def _shape_distance(a: Sequence[tuple[Point, Point]], b: Sequence[tuple[Point, Point]]) -> float:
+    """How far two centrelines lie apart: the larger of the two one-sided
+    largest distances (Hausdorff distance), from points sampled along each
+    segment [mm]."""
+
+    def one_way(src: Sequence[tuple[Point, Point]], dst: Sequence[tuple[Point, Point]]) -> float:
+        return max(min(point_segment_distance(p, u, v) for u, v in dst) for p in _samples(src))
+
+    return max(one_way(a, b), one_way(b, a))
+
+
+def _part_changes(
+    mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dict[str, str], part_map: dict[str, str], tol: float
+) -> list[Change]:
+    """Per matched part: the span between each two of its matched pins, its
+    centreline length, and, when neither changed, its centreline's shape or
+    place (the largest distance between the old one, moved by the rigid
+    motion, and the new one)."""
+    out: list[Change] = []
+    new_pins = {p.name: p for p in mn.pins}
+    old_pins = {p.name: p for p in mo.pins}
+    for po in mo.parts:
+        name = part_map.get(po.name)
+        if name is None:
+            continue
+        pn = mn.part(name)
+        found: list[Change] = []
+        mapped = [(a, pin_map[a]) for a in po.pins if a in pin_map and pin_map[a] in pn.pins]
+        for i, (a, a2) in enumerate(mapped):
+            for b, b2 in mapped[i + 1 :]:
+                d_old = dist(old_pins[a].center, old_pins[b].center)
+                d_new = dist(new_pins[a2].center, new_pins[b2].center)
+                if abs(d_new - d_old) > tol:
+                    found.append(
+                        Change(
+                            "part",
+                            f"{name} {a2}–{b2}",
+                            "",
+                            d_old,
+                            d_new,
+                            "mm",
+                            d_new - d_old,
+                            _rel(d_old, d_new),
+                            note=f"{name}: {a2} to {b2} {d_old:.4g} -> {d_new:.4g} mm",
+                            at=_mid(new_pins[a2].center, new_pins[b2].center),
+                        )
+                    )
+        l_old, l_new = _part_length(po), _part_length(pn)
+        if abs(l_new - l_old) > tol:
+            found.append(
+                Change(
+                    "part",
+                    f"{name} length",
+                    "",
+                    l_old,
+                    l_new,
+                    "mm",
+                    l_new - l_old,
+                    _rel(l_old, l_new),
+                    note=f"{name}: centreline {l_old:.4g} -> {l_new:.4g} mm long",
+                    at=_far_end(pn),
+                )
+            )
+        if not found:
+            moved = [(motion.apply(a), motion.apply(b)) for a, b in po.segments]
+            h = _shape_distance(moved, pn.segments)
+            if h > tol:
+                found.append(
+                    Change(
+                        "part",
+                        f"{name} centreline",
+                        "",
+                        0.0,
+                        h,
+                        "mm",
+                        h,
+                        None,
+                        note=f"{name}: centreline moved or re-shaped, up to {h:.4g} mm",
+                        at=_far_end(pn),
+                    )
+                )
+        out += found
+    return out
+
+
+def _angle_deg(v: Point) -> float:
+    return math.degrees(math.atan2(v[1], v[0]))
+
+
+def _turn_deg(u: Point, v: Point) -> float:
+    """Signed angle from ``u`` to ``v`` [degrees], counter-clockwise positive."""
+    return math.degrees(math.atan2(u[0] * v[1] - u[1] * v[0], u[0] * v[0] + u[1] * v[1]))
+
+
+def _pair_up(
+    olds: Sequence[Any], news: Sequence[Any], key: Any, where_old: Any, where_new: Any, reach: float
+) -> list[tuple[Any, Any]]:
+    """Pairs of old and new items: same ``key`` first (nearest first), then
+    the nearest of the rest within ``reach`` [mm]."""
+    cands = []
+    for i, a in enumerate(olds):
+        for j, b in enumerate(news):
+            d = dist(where_old(a), where_new(b))
+            same = key(a) is not None and key(a) == key(b, new=True)
+            if same or d <= reach:
+                cands.append((0 if same else 1, d, i, j))
+    pairs: list[tuple[Any, Any]] = []
+    used_i: set[int] = set()
+    used_j: set[int] = set()
+    for _, _, i, j in sorted(cands):
+        if i not in used_i and j not in used_j:
+            pairs.append((olds[i], news[j]))
+            used_i.add(i)
+            used_j.add(j)
+    return pairs
+
+
+def _load_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[str, str], tol: float) -> list[Change]:
+    """Loads matched by their part, then by place: point moved, direction
+    turned, magnitude changed, part changed; the rest added or removed."""
+
+    def key(ld: Load, new: bool = False) -> str | None:
+        return ld.part if new else part_map.get(ld.part or "")
+
+    pairs = _pair_up(
+        mo.loads, mn.loads, key, lambda ld: motion.apply(ld.point), lambda ld: ld.point, MATCH_RTOL * mn.length_scale_mm
+    )
+    out: list[Change] = []
+    for lo, ln in pairs:
+        name = ln.name if lo.name == ln.name else f"{ln.name} (was {lo.name})"
+        d = dist(motion.apply(lo.point), ln.point)
+        if d > tol:
+            x, y = ln.point
+            out.append(
+                Change(
+                    "load",
+                    f"{name} point",
+                    "",
+                    0.0,
+                    d,
+                    "mm",
+                    d,
+                    None,
+                    note=f"{name}: moved {d:.4g} mm to ({x:.6g}, {y:.6g})",
+                    at=ln.point,
+                )
+            )
+        was = motion.apply_vector(lo.direction)
+        turn = _turn_deg(was, ln.direction)
+        if abs(turn) > ANGLE_TOL_DEG:
+            out.append(
+                Change(
+                    "load",
+                    f"{name} direction",
+                    "",
+                    _angle_deg(was),
+                    _angle_deg(ln.direction),
+                    "deg",
+                    turn,
+                    None,
+                    note=f"{name}: turned {turn:+.4g}° (counter-clockwise positive)",
+                    at=ln.point,
+                )
+            )
+        fo, fn = lo.magnitude_N, ln.magnitude_N
+        if fo is not None and fn is not None and abs(fn - fo) > UNCHANGED_RTOL * max(abs(fo), abs(fn)):
+            out.append(
+                Change(
+                    "load",
+                    f"{name} force",
+                    "",
+                    fo,
+                    fn,
+                    "N",
+                    fn - fo,
+                    _rel(fo, fn),
+                    note=f"{name}: {lo.text} -> {ln.text}",
+                    at=ln.point,
+                )
+            )
+        if key(lo) != ln.part:
+            out.append(
+                Change(
+                    "load", f"{name} part", "", lo.part, ln.part, "", note=f"{name}: now acts on {ln.part}", at=ln.point
+                )
+            )
+    paired_old = {id(a) for a, _ in pairs}
+    paired_new = {id(b) for _, b in pairs}
+    out += [Change("removed", ld.name, "", "load", None, "") for ld in mo.loads if id(ld) not in paired_old]
+    out += [Change("added", ld.name, "", None, "load", "") for ld in mn.loads if id(ld) not in paired_new]
+    return out
+
+
+def _spring_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[str, str], tol: float) -> list[Change]:
+    """Springs matched by the parts they join, then by place: each end
+    moved, the drawn length, the force and the sense; the rest added or
+    removed."""
+
+    def key(sp: Spring, new: bool = False) -> frozenset[str] | None:
+        names = [p or "frame" for p in sp.parts] if new else [part_map.get(p, "?") if p else "frame" for p in sp.parts]
+        return frozenset(names)
+
+    pairs = _pair_up(
+        mo.springs,
+        mn.springs,
+        key,
+        lambda sp: motion.apply(_mid(*sp.ends)),
+        lambda sp: _mid(*sp.ends),
+        MATCH_RTOL * mn.length_scale_mm,
+    )
+    out: list[Change] = []
+    for so, sn in pairs:
+        name = sn.name if so.name == sn.name else f"{sn.name} (was {so.name})"
+        a, b = (motion.apply(q) for q in so.ends)
+        ends = (
+            (a, b) if dist(a, sn.ends[0]) + dist(b, sn.ends[1]) <= dist(a, sn.ends[1]) + dist(b, sn.ends[0]) else (b, a)
+        )
+        for k in range(2):
+            d = dist(ends[k], sn.ends[k])
+            if d > tol:
+                on = sn.parts[k] or "frame"
+                x, y = sn.ends[k]
+                out.append(
+                    Change(
+                        "spring",
+                        f"{name} end on {on}",
+                        "",
+                        0.0,
+                        d,
+                        "mm",
+                        d,
+                        None,
+                        note=f"{name}: its end on {on} moved {d:.4g} mm to ({x:.6g}, {y:.6g})",
+                        at=sn.ends[k],
+                    )
+                )
+        l_old, l_new = dist(*so.ends), dist(*sn.ends)
+        if abs(l_new - l_old) > tol:
+            out.append(
+                Change(
+                    "spring",
+                    f"{name} length",
+                    "",
+                    l_old,
+                    l_new,
+                    "mm",
+                    l_new - l_old,
+                    _rel(l_old, l_new),
+                    note=f"{name}: drawn {l_old:.4g} -> {l_new:.4g} mm long",
+                    at=_mid(*sn.ends),
+                )
+            )
+        fo, fn = so.force_N, sn.force_N
+        if fo is not None and fn is not None and abs(fn - fo) > UNCHANGED_RTOL * max(abs(fo), abs(fn)):
+            out.append(
+                Change(
+                    "spring",
+                    f"{name} force",
+                    "",
+                    fo,
+                    fn,
+                    "N",
+                    fn - fo,
+                    _rel(fo, fn),
+                    note=f"{name}: {so.text} -> {sn.text}",
+                    at=_mid(*sn.ends),
+                )
+            )
+        if so.tension != sn.tension:
+            sense = {True: "tension", False: "compression"}
+            out.append(
+                Change(
+                    "spring",
+                    f"{name} sense",
+                    "",
+                    sense[so.tension],
+                    sense[sn.tension],
+                    "",
+                    note=f"{name}: sense changed",
+                    at=_mid(*sn.ends),
+                )
+            )
+    paired_old = {id(a) for a, _ in pairs}
+    paired_new = {id(b) for _, b in pairs}
+    out += [Change("removed", sp.name, "", "spring", None, "") for sp in mo.springs if id(sp) not in paired_old]
+    out += [Change("added", sp.name, "", None, "spring", "") for sp in mn.springs if id(sp) not in paired_new]
+    return out
+
+
+def _drum_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[str, str], tol: float) -> list[Change]:
+    """The drum's radius and axis, each shoe's contact angle and position on
+    the drum, each band's wrap."""
+    out: list[Change] = []
+    if mo.drum is not None and mn.drum is not None:
+        ro, rn, at = mo.drum.radius_mm, mn.drum.radius_mm, mn.drum.center
+        if abs(rn - ro) > tol:
+            out.append(Change("drum", "drum radius", "", ro, rn, "mm", rn - ro, _rel(ro, rn), at=at))
+        d = dist(motion.apply(mo.drum.center), at)
+        if d > tol:
+            out.append(
+                Change("drum", "drum axis", "", 0.0, d, "mm", d, None, note=f"drum axis moved {d:.4g} mm", at=at)
+            )
+    out += _lining_changes(mo, mn, motion, part_map)
+    new_bands = {b.name: b for b in mn.bands}
+    for bo in mo.bands:
+        bn = new_bands.get(bo.name)
+        if bn is not None and abs(bn.wrap_deg - bo.wrap_deg) > ANGLE_TOL_DEG:
+            w_old, w_new = bo.wrap_deg, bn.wrap_deg
+            out.append(Change("wrap", f"{bn.name} wrap", "", w_old, w_new, "deg", w_new - w_old, _rel(w_old, w_new)))
+    return out
+
+
+def _lining_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[str, str]) -> list[Change]:
+    """Each matched shoe's contact angle, and where its lining's middle sits
+    on the drum (after the rigid motion's turn) [degrees]."""
+    out: list[Change] = []
+    turn = _angle_deg(motion.apply_vector((1.0, 0.0)))
+    for so in mo.shoes:
+        sn = next((t for t in mn.shoes if part_map.get(so.part) == t.part), None)
+        if sn is None:
+            continue
+        at = sn.arc.point_at(sn.arc.mid_deg)
+        a_old, a_new = so.contact_angle_deg, sn.contact_angle_deg
+        if abs(a_new - a_old) > ANGLE_TOL_DEG:
+            name = f"{sn.name} contact angle"
+            out.append(Change("lining", name, "", a_old, a_new, "deg", a_new - a_old, _rel(a_old, a_new), at=at))
+        shift = (sn.arc.mid_deg - (so.arc.mid_deg + turn) + 180.0) % 360.0 - 180.0
+        if abs(shift) > ANGLE_TOL_DEG:
+            note = f"{sn.name}: lining's middle turned {shift:+.4g}° about the drum axis"
+            out.append(Change("lining", f"{sn.name} position", "", 0.0, shift, "deg", shift, None, note=note, at=at))
     return out
 
 
@@ -395,19 +905,31 @@ def _rule_changes(old: Judgement, new: Judgement) -> list[Change]:
     return out
 
 
+def _cell(v: object) -> str:
+    return f"{v:.5g}" if isinstance(v, float) else "-" if v is None else str(v)
+
+
 def _m(x: float | None) -> str:
     if x is None:
         return "-"
     return "∞" if x == math.inf else f"{x:.3g}"
 
 
+#: Kinds of geometry change: the causes, listed before the forces they change.
+GEOMETRY_KINDS = ("moved", "diameter", "part", "load", "spring", "lining", "wrap", "drum")
+
+
 def _order(c: Change) -> tuple[int, float]:
+    """Threshold crossings and verdict changes first, then what was added or
+    removed, then the geometry changes, then the rest by relative change."""
     if c.crossed or c.note == "verdict changed":
         return (0, 0.0)
     if c.kind in ("added", "removed"):
         return (1, 0.0)
+    if c.kind in GEOMETRY_KINDS:
+        return (2, 0.0)
     r = abs(c.rel_change) if c.rel_change is not None and math.isfinite(c.rel_change) else 0.0
-    return (2, -r)
+    return (3, -r)
 
 
 def change_to_dict(c: Change) -> dict[str, Any]:
@@ -425,47 +947,202 @@ def change_to_dict(c: Change) -> dict[str, Any]:
         "rel_change": num(c.rel_change),
         "crossed": c.crossed,
         "note": c.note,
+        "at_mm": None if c.at is None else [c.at[0], c.at[1]],
     }
 
 
-def history_svg(names: Sequence[str], series: dict[str, list[float]], unit: str) -> str:
-    """A small line plot of quantities across revisions, as SVG text."""
-    w, h, pad = 640, 320, 48
-    values = [v for vs in series.values() for v in vs if math.isfinite(v)]
-    lo, hi = (min(values), max(values)) if values else (0.0, 1.0)
-    if hi == lo:
-        hi = lo + 1.0
-    n = max(len(names) - 1, 1)
+#: Estimated advance width of a character in the plot's sans-serif font
+#: [em]: wider than Arial's digits (0.556 em) and most of its letters, so a
+#: text's estimated box holds the drawn one (from memory; common practice).
+CHAR_EM = 0.7
+#: Ascent and descent of the font [em] for the same estimate.
+ASCENT_EM, DESCENT_EM = 0.8, 0.25
+#: The value axis is broken (drawn from a round value below the data, with a
+#: break mark above zero) when the smallest value is above this fraction of
+#: the largest; otherwise it starts at zero.
+BREAK_FRACTION = 0.5
 
-    def xy(i: int, v: float) -> tuple[float, float]:
-        return pad + (w - 2 * pad) * i / n, h - pad - (h - 2 * pad) * (v - lo) / (hi - lo)
+
+def _nice_step(span: float, n: int = 5) -> float:
+    raw = span / n if span > 0 else 1.0
+    mag = 10.0 ** math.floor(math.log10(raw))
+    return next(m * mag for m in (1.0, 2.0, 2.5, 5.0, 10.0) if m * mag >= raw)
+
+
+def _ticks(lo: float, hi: float) -> list[float]:
+    step = _nice_step(hi - lo)
+    first = math.floor(lo / step) * step
+    out = [first]
+    while out[-1] < hi - 1e-9 * step:
+        out.append(first + len(out) * step)
+    return out
+
+
+def _text_width(text: str, size: float) -> float:
+    return CHAR_EM * size * len(text)
+
+
+def _esc(text: str) -> str:
+    from xml.sax.saxutils import escape
+
+    return escape(text, {'"': "&quot;"})
+
+
+def history_svg(
+    names: Sequence[str],
+    series: dict[str, list[float]],
+    unit: str,
+    *,
+    required: Sequence[float | None] | float | None = None,
+    title: str = "braking torque",
+) -> str:
+    """A line plot of quantities across revisions (or any labelled steps),
+    as SVG text.
+
+    The value axis starts at zero, or, when every value lies far above zero
+    (:data:`BREAK_FRACTION`), at a round value below them with a break mark
+    on the axis above a zero tick.  ``required`` (one value, or one per
+    step) is drawn as a dashed line.  The size of the picture follows its
+    texts, estimated at :data:`CHAR_EM` per character, so that no label is
+    clipped.
+    """
+    fs_tick, fs_name, fs_legend, fs_title = 12.0, 11.0, 11.0, 13.0
+    req = list(required) if isinstance(required, Sequence) else [required] * len(names)
+    req_vals = [v for v in req if v is not None and math.isfinite(v)]
+    values = [v for vs in series.values() for v in vs if math.isfinite(v)] + req_vals
+    hi_data = max(values, default=1.0)
+    lo_data = min(values, default=0.0)
+    broken = lo_data > 0 and lo_data > BREAK_FRACTION * hi_data
+    ticks = _ticks(lo_data if broken else min(0.0, lo_data), max(hi_data, lo_data + 1e-12))
+    lo, hi = ticks[0], ticks[-1]
+    if hi <= lo:
+        hi = lo + 1.0
+    labels = [f"{t:.6g}" for t in ticks]
+    legend = [f"{k} ({unit})" for k in series]
+    if req_vals:
+        same = max(req_vals) - min(req_vals) <= 1e-9 * max(abs(v) for v in req_vals)
+        legend.append(f"required {req_vals[0]:.5g} {unit}" if same else f"required ({unit})")
+    legend_w = max((_text_width(t, fs_legend) for t in legend), default=0.0)
+    name_w = [_text_width(n, fs_name) for n in names] or [0.0]
+    n = max(len(names) - 1, 1)
+    step_x = max(70.0, max(name_w) + 14.0)
+    plot_w = max(420.0, step_x * n)
+    plot_h, break_gap = 240.0, (18.0 if broken else 0.0)
+    left = max(12.0 + max(_text_width(t, fs_tick) for t in labels) + 8.0, name_w[0] / 2 + 8.0)
+    right = max(20.0 + 26.0 + legend_w + 10.0, name_w[-1] / 2 + 8.0)
+    top = 24.0 + fs_title + 8.0
+    bottom = 10.0 + (ASCENT_EM + DESCENT_EM) * fs_name + 10.0
+    w, h = left + plot_w + right, top + plot_h + break_gap + bottom
+    y0 = top + plot_h  # the bottom of the value scale (lo)
+
+    def x_at(i: int) -> float:
+        return left + (plot_w * i / n if len(names) > 1 else plot_w / 2)
+
+    def y_at(v: float) -> float:
+        return y0 - plot_h * (v - lo) / (hi - lo)
 
     colours = ["#1f4e9c", "#b3261e", "#1e7b34", "#7a4fa0", "#a86b00"]
+    desc = "; ".join(f"{k}: " + ", ".join(f"{v:.6g}" for v in vs) for k, vs in series.items())
+    if req_vals:
+        desc += "; required: " + ", ".join("-" if v is None else f"{v:.6g}" for v in req)
     parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{w}" height="{h}" viewBox="0 0 {w} {h}">',
-        f"<title>dxfcheck revision history ({unit})</title>",
-        f'<rect width="{w}" height="{h}" fill="white"/>',
-        f'<line x1="{pad}" y1="{h - pad}" x2="{w - pad}" y2="{h - pad}" stroke="black"/>',
-        f'<line x1="{pad}" y1="{pad}" x2="{pad}" y2="{h - pad}" stroke="black"/>',
-        f'<text x="4" y="{pad - 8}" font-size="12">{hi:.4g} {unit}</text>',
-        f'<text x="4" y="{h - pad + 4}" font-size="12">{lo:.4g}</text>',
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{w:.0f}" height="{h:.0f}" viewBox="0 0 {w:.1f} {h:.1f}" '
+        'font-family="sans-serif">',
+        f"<title>dxfcheck: {_esc(title)} across revisions ({_esc(unit)})</title>",
+        f"<desc>{_esc(desc)}</desc>",
+        f'<rect width="{w:.1f}" height="{h:.1f}" fill="white"/>',
+        f'<text x="{left:.1f}" y="{24.0:.1f}" font-size="{fs_title:g}">{_esc(title)} [{_esc(unit)}]</text>',
     ]
+    axis_bottom = y0 + break_gap
+    parts.append(
+        f'<line class="x-axis" x1="{left:.1f}" y1="{axis_bottom:.1f}" x2="{left + plot_w:.1f}" y2="{axis_bottom:.1f}" '
+        'stroke="black"/>'
+    )
+    parts.append(
+        f'<line class="y-axis" x1="{left:.1f}" y1="{top:.1f}" x2="{left:.1f}" y2="{axis_bottom:.1f}" stroke="black"/>'
+    )
+    for t, label in zip(ticks, labels, strict=True):
+        y = y_at(t)
+        parts.append(f'<line x1="{left - 4:.1f}" y1="{y:.1f}" x2="{left:.1f}" y2="{y:.1f}" stroke="black"/>')
+        parts.append(f'<line x1="{left:.1f}" y1="{y:.1f}" x2="{left + plot_w:.1f}" y2="{y:.1f}" stroke="#dddddd"/>')
+        parts.append(
+            f'<text class="tick" x="{left - 6:.1f}" y="{y + 0.35 * fs_tick:.1f}" font-size="{fs_tick:g}" '
+            f'text-anchor="end">{label}</text>'
+        )
+    if broken:
+        yb = y0 + break_gap / 2
+        zig = " ".join(f"{left + dx:.1f},{yb + dy:.1f}" for dx, dy in ((-6, 5), (6, 1), (-6, -1), (6, -5)))
+        parts.append(f'<rect x="{left - 7:.1f}" y="{yb - 4:.1f}" width="14" height="8" fill="white"/>')
+        parts.append(f'<polyline class="axis-break" points="{zig}" fill="none" stroke="black"/>')
+        parts.append(
+            f'<text class="tick" x="{left - 6:.1f}" y="{axis_bottom + 0.35 * fs_tick:.1f}" font-size="{fs_tick:g}" '
+            'text-anchor="end">0</text>'
+        )
     for i, name in enumerate(names):
-        x, _ = xy(i, lo)
-        parts.append(f'<text x="{x:.1f}" y="{h - pad + 18}" font-size="11" text-anchor="middle">{name}</text>')
-    for k, (label, vs) in enumerate(series.items()):
+        parts.append(
+            f'<text class="name" x="{x_at(i):.1f}" y="{axis_bottom + 10 + ASCENT_EM * fs_name:.1f}" '
+            f'font-size="{fs_name:g}" text-anchor="middle">{_esc(name)}</text>'
+        )
+    lx = left + plot_w + 20.0
+    for k, vs in enumerate(series.values()):
         col = colours[k % len(colours)]
-        pts = " ".join(f"{xy(i, v)[0]:.1f},{xy(i, v)[1]:.1f}" for i, v in enumerate(vs) if math.isfinite(v))
-        parts.append(f'<polyline points="{pts}" fill="none" stroke="{col}" stroke-width="2"/>')
-        parts.append(f'<text x="{w - pad + 4}" y="{pad + 14 * k}" font-size="11" fill="{col}">{label}</text>')
+        pts = " ".join(f"{x_at(i):.2f},{y_at(v):.2f}" for i, v in enumerate(vs) if math.isfinite(v))
+        parts.append(f'<polyline class="series" points="{pts}" fill="none" stroke="{col}" stroke-width="2"/>')
+        parts += _legend_entry(lx, top + 6 + 18 * k, legend[k], col, fs_legend, "")
+    if req_vals:
+        xs = [(x_at(i), v) for i, v in enumerate(req) if v is not None and math.isfinite(v)]
+        if len(xs) == len(names) and len({round(v, 9) for _, v in xs}) == 1:
+            pts = f"{left:.2f},{y_at(xs[0][1]):.2f} {left + plot_w:.2f},{y_at(xs[0][1]):.2f}"
+        else:
+            pts = " ".join(f"{x:.2f},{y_at(v):.2f}" for x, v in xs)
+        parts.append(f'<polyline class="required" points="{pts}" fill="none" stroke="black" stroke-dasharray="6 4"/>')
+        parts += _legend_entry(
+            lx, top + 6 + 18 * len(series), legend[-1], "black", fs_legend, ' stroke-dasharray="6 4"'
+        )
     parts.append("</svg>")
     return "\n".join(parts) + "\n"
 
 
+def _legend_entry(x: float, y: float, text: str, colour: str, size: float, dash: str) -> list[str]:
+    return [
+        f'<line x1="{x:.1f}" y1="{y:.1f}" x2="{x + 20:.1f}" y2="{y:.1f}" stroke="{colour}" stroke-width="2"{dash}/>',
+        f'<text class="legend" x="{x + 26:.1f}" y="{y + 0.35 * size:.1f}" font-size="{size:g}" '
+        f'fill="{colour}">{_esc(text)}</text>',
+    ]
+
+
+def required_torque(j: Judgement) -> float | None:
+    """The torque the revision's spec requires [N·m]: the largest limit of
+    its torque and hoist rules, None when the spec sets none."""
+    limits = [
+        r.limit
+        for r in j.rules
+        if r.rule.startswith(("torque.cw", "torque.ccw", "hoist."))
+        and r.limit is not None
+        and r.verdict is not Verdict.SKIP
+    ]
+    return max(limits, default=None)
+
+
+def trend_svg(comps: Sequence[Comparison]) -> str:
+    """The braking torque of each revision, per direction, with the required
+    torque, as SVG text."""
+    from pathlib import Path
+
+    judgements = [comps[0].old, *(c.new for c in comps)] if comps else []
+    names = [Path(j.mechanism.drawing.path).stem for j in judgements]
+    series: dict[str, list[float]] = {}
+    for j in judgements:
+        for c in j.nominal.cases:
+            series.setdefault(f"torque {c.direction}", []).append(c.torque_Nm)
+    return history_svg(names, series, "N·m", required=[required_torque(j) for j in judgements])
+
+
 def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config, *, force: bool = False) -> None:
     """Write the newer revision marked up (as ``annotate`` does), plus a ring
-    and a note at every pin that moved and every pin force that crossed the
-    threshold.  Neither revision's file is written."""
+    and a note at every geometry change that has a place (a pin moved, a
+    part's span or length, a load or spring end moved...) and every pin force
+    that crossed the threshold.  Neither revision's file is written."""
     from dxfcheck.files import atomic_target
     from dxfcheck.markup import TEXT_FRACTION, TEXT_MIN_MM, marked_document, plan_markup
 
@@ -478,11 +1155,17 @@ def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config,
     pins = {p.name: p for p in mech.pins}
     for c in comp.changes:
         pin = pins.get(c.name)
-        if pin is None or not (c.kind == "moved" or (c.kind == "pin" and c.crossed)):
+        if c.kind == "pin" and c.crossed and pin is not None:
+            at, ring = pin.center, 1.5 * pin.diameter_mm
+            text = f"{c.name} {c.direction}: force {100 * (c.rel_change or 0):+.1f}%"
+        elif c.kind in GEOMETRY_KINDS and c.at is not None:
+            at = c.at
+            ring = 1.5 * pin.diameter_mm if c.kind in ("moved", "diameter") and pin is not None else h
+            text = c.note or f"{c.name}: {_cell(c.old)} -> {_cell(c.new)} {c.unit}"
+        else:
             continue
-        x, y = pin.center
-        text = c.note if c.kind == "moved" else f"{c.name} {c.direction}: force {100 * (c.rel_change or 0):+.1f}%"
-        msp.add_circle((x * k, y * k), 1.5 * pin.diameter_mm * k, dxfattribs={"layer": config.note_layer})
+        x, y = at
+        msp.add_circle((x * k, y * k), ring * k, dxfattribs={"layer": config.note_layer})
         msp.add_text(
             text, height=h * k, dxfattribs={"layer": config.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)}
         )
