@@ -988,6 +988,99 @@ def _esc(text: str) -> str:
     return escape(text, {'"': "&quot;"})
 
 
+#: Font sizes of the plot's texts [px]: ticks, step names, legend, title.
+FS_TICK, FS_NAME, FS_LEGEND, FS_TITLE = 12.0, 11.0, 11.0, 13.0
+#: Widest plot area before step names are thinned out [px].
+MAX_PLOT_W = 960.0
+#: Colours of the plotted series, in turn.
+COLOURS = ("#1f4e9c", "#b3261e", "#1e7b34", "#7a4fa0", "#a86b00")
+
+
+@dataclass(frozen=True)
+class _Frame:
+    """The plot's layout [px]: margins, plot area, value range, steps."""
+
+    left: float
+    top: float
+    plot_w: float
+    plot_h: float
+    gap: float  # height of the axis break (0 without one)
+    width: float
+    height: float
+    lo: float
+    hi: float
+    steps: int
+
+    def x(self, i: int) -> float:
+        return self.left + (self.plot_w * i / (self.steps - 1) if self.steps > 1 else self.plot_w / 2)
+
+    def y(self, v: float) -> float:
+        return self.top + self.plot_h * (self.hi - v) / (self.hi - self.lo)
+
+    @property
+    def axis_y(self) -> float:
+        """The x axis, below the break when there is one."""
+        return self.top + self.plot_h + self.gap
+
+
+def _frame(names: Sequence[str], ticks: list[float], legend: list[str], title: str, broken: bool) -> tuple[_Frame, int]:
+    """The layout that holds every text, and every how-many-th step name is
+    written (names that would overlap are thinned out)."""
+    name_w = [_text_width(n, FS_NAME) for n in names] or [0.0]
+    gaps = max(len(names) - 1, 1)
+    step_x = max(70.0, max(name_w) + 14.0)
+    every = max(1, math.ceil(step_x * gaps / MAX_PLOT_W))
+    plot_w = min(max(420.0, step_x * gaps), MAX_PLOT_W)
+    left = max(20.0 + max(_text_width(f"{t:.6g}", FS_TICK) for t in ticks), name_w[0] / 2 + 8.0)
+    right = max(56.0 + max((_text_width(t, FS_LEGEND) for t in legend), default=0.0), name_w[-1] / 2 + 8.0)
+    top, plot_h, gap = 32.0 + FS_TITLE, 240.0, (18.0 if broken else 0.0)
+    bottom = 20.0 + (ASCENT_EM + DESCENT_EM) * FS_NAME
+    width = max(left + plot_w + right, left + _text_width(title, FS_TITLE) + 8.0)
+    lo, hi = ticks[0], ticks[-1] if ticks[-1] > ticks[0] else ticks[0] + 1.0
+    return _Frame(left, top, plot_w, plot_h, gap, width, top + plot_h + gap + bottom, lo, hi, len(names)), every
+
+
+def _axes(f: _Frame, ticks: list[float], broken: bool) -> list[str]:
+    """Both axes, the value ticks with their grid lines, and the break mark
+    above a zero tick when the scale does not start at zero."""
+    r, ax = f.left + f.plot_w, f.axis_y
+    out = [
+        f'<line class="x-axis" x1="{f.left:.1f}" y1="{ax:.1f}" x2="{r:.1f}" y2="{ax:.1f}" stroke="black"/>',
+        f'<line class="y-axis" x1="{f.left:.1f}" y1="{f.top:.1f}" x2="{f.left:.1f}" y2="{ax:.1f}" stroke="black"/>',
+    ]
+    for t in ticks:
+        y = f.y(t)
+        out.append(f'<line x1="{f.left - 4:.1f}" y1="{y:.1f}" x2="{f.left:.1f}" y2="{y:.1f}" stroke="black"/>')
+        out.append(f'<line x1="{f.left:.1f}" y1="{y:.1f}" x2="{r:.1f}" y2="{y:.1f}" stroke="#dddddd"/>')
+        out.append(_tick_text(f.left, y, f"{t:.6g}"))
+    if broken:
+        yb = f.top + f.plot_h + f.gap / 2
+        zig = " ".join(f"{f.left + dx:.1f},{yb + dy:.1f}" for dx, dy in ((-6, 5), (6, 1), (-6, -1), (6, -5)))
+        out.append(f'<rect x="{f.left - 7:.1f}" y="{yb - 4:.1f}" width="14" height="8" fill="white"/>')
+        out.append(f'<polyline class="axis-break" points="{zig}" fill="none" stroke="black"/>')
+        out.append(_tick_text(f.left, f.axis_y, "0"))
+    return out
+
+
+def _tick_text(left: float, y: float, text: str) -> str:
+    return (
+        f'<text class="tick" x="{left - 6:.1f}" y="{y + 0.35 * FS_TICK:.1f}" font-size="{FS_TICK:g}" '
+        f'text-anchor="end">{text}</text>'
+    )
+
+
+def _required_line(f: _Frame, req: list[float | None]) -> str:
+    """The required value: one horizontal line when it is the same for every
+    step, else a line through each step's value."""
+    pts_v = [(f.x(i), v) for i, v in enumerate(req) if v is not None and math.isfinite(v)]
+    if len(pts_v) == f.steps and len({round(v, 9) for _, v in pts_v}) == 1:
+        y = f.y(pts_v[0][1])
+        pts = f"{f.left:.2f},{y:.2f} {f.left + f.plot_w:.2f},{y:.2f}"
+    else:
+        pts = " ".join(f"{x:.2f},{f.y(v):.2f}" for x, v in pts_v)
+    return f'<polyline class="required" points="{pts}" fill="none" stroke="black" stroke-dasharray="6 4"/>'
+
+
 def history_svg(
     names: Sequence[str],
     series: dict[str, list[float]],
@@ -996,8 +1089,8 @@ def history_svg(
     required: Sequence[float | None] | float | None = None,
     title: str = "braking torque",
 ) -> str:
-    """A line plot of quantities across revisions (or any labelled steps),
-    as SVG text.
+    """A line plot of quantities over labelled steps (revisions, or μ
+    values), as SVG text.
 
     The value axis starts at zero, or, when every value lies far above zero
     (:data:`BREAK_FRACTION`), at a round value below them with a break mark
@@ -1006,107 +1099,54 @@ def history_svg(
     texts, estimated at :data:`CHAR_EM` per character, so that no label is
     clipped.
     """
-    fs_tick, fs_name, fs_legend, fs_title = 12.0, 11.0, 11.0, 13.0
     req = list(required) if isinstance(required, Sequence) else [required] * len(names)
     req_vals = [v for v in req if v is not None and math.isfinite(v)]
     values = [v for vs in series.values() for v in vs if math.isfinite(v)] + req_vals
-    hi_data = max(values, default=1.0)
-    lo_data = min(values, default=0.0)
+    hi_data, lo_data = max(values, default=1.0), min(values, default=0.0)
     broken = lo_data > 0 and lo_data > BREAK_FRACTION * hi_data
     ticks = _ticks(lo_data if broken else min(0.0, lo_data), max(hi_data, lo_data + 1e-12))
-    lo, hi = ticks[0], ticks[-1]
-    if hi <= lo:
-        hi = lo + 1.0
-    labels = [f"{t:.6g}" for t in ticks]
     legend = [f"{k} ({unit})" for k in series]
     if req_vals:
         same = max(req_vals) - min(req_vals) <= 1e-9 * max(abs(v) for v in req_vals)
         legend.append(f"required {req_vals[0]:.5g} {unit}" if same else f"required ({unit})")
-    legend_w = max((_text_width(t, fs_legend) for t in legend), default=0.0)
-    name_w = [_text_width(n, fs_name) for n in names] or [0.0]
-    n = max(len(names) - 1, 1)
-    step_x = max(70.0, max(name_w) + 14.0)
-    plot_w = max(420.0, step_x * n)
-    plot_h, break_gap = 240.0, (18.0 if broken else 0.0)
-    left = max(12.0 + max(_text_width(t, fs_tick) for t in labels) + 8.0, name_w[0] / 2 + 8.0)
-    right = max(20.0 + 26.0 + legend_w + 10.0, name_w[-1] / 2 + 8.0)
-    top = 24.0 + fs_title + 8.0
-    bottom = 10.0 + (ASCENT_EM + DESCENT_EM) * fs_name + 10.0
-    w, h = left + plot_w + right, top + plot_h + break_gap + bottom
-    y0 = top + plot_h  # the bottom of the value scale (lo)
-
-    def x_at(i: int) -> float:
-        return left + (plot_w * i / n if len(names) > 1 else plot_w / 2)
-
-    def y_at(v: float) -> float:
-        return y0 - plot_h * (v - lo) / (hi - lo)
-
-    colours = ["#1f4e9c", "#b3261e", "#1e7b34", "#7a4fa0", "#a86b00"]
+    heading = f"{title} [{unit}]"
+    f, every = _frame(names, ticks, legend, heading, broken)
     desc = "; ".join(f"{k}: " + ", ".join(f"{v:.6g}" for v in vs) for k, vs in series.items())
     if req_vals:
         desc += "; required: " + ", ".join("-" if v is None else f"{v:.6g}" for v in req)
     parts = [
-        f'<svg xmlns="http://www.w3.org/2000/svg" width="{w:.0f}" height="{h:.0f}" viewBox="0 0 {w:.1f} {h:.1f}" '
-        'font-family="sans-serif">',
-        f"<title>dxfcheck: {_esc(title)} across revisions ({_esc(unit)})</title>",
+        f'<svg xmlns="http://www.w3.org/2000/svg" width="{f.width:.1f}" height="{f.height:.1f}" '
+        f'viewBox="0 0 {f.width:.1f} {f.height:.1f}" font-family="sans-serif">',
+        f"<title>dxfcheck: {_esc(title)} ({_esc(unit)})</title>",
         f"<desc>{_esc(desc)}</desc>",
-        f'<rect width="{w:.1f}" height="{h:.1f}" fill="white"/>',
-        f'<text x="{left:.1f}" y="{24.0:.1f}" font-size="{fs_title:g}">{_esc(title)} [{_esc(unit)}]</text>',
+        f'<rect width="{f.width:.1f}" height="{f.height:.1f}" fill="white"/>',
+        f'<text x="{f.left:.1f}" y="24.0" font-size="{FS_TITLE:g}">{_esc(heading)}</text>',
+        *_axes(f, ticks, broken),
     ]
-    axis_bottom = y0 + break_gap
-    parts.append(
-        f'<line class="x-axis" x1="{left:.1f}" y1="{axis_bottom:.1f}" x2="{left + plot_w:.1f}" y2="{axis_bottom:.1f}" '
-        'stroke="black"/>'
-    )
-    parts.append(
-        f'<line class="y-axis" x1="{left:.1f}" y1="{top:.1f}" x2="{left:.1f}" y2="{axis_bottom:.1f}" stroke="black"/>'
-    )
-    for t, label in zip(ticks, labels, strict=True):
-        y = y_at(t)
-        parts.append(f'<line x1="{left - 4:.1f}" y1="{y:.1f}" x2="{left:.1f}" y2="{y:.1f}" stroke="black"/>')
-        parts.append(f'<line x1="{left:.1f}" y1="{y:.1f}" x2="{left + plot_w:.1f}" y2="{y:.1f}" stroke="#dddddd"/>')
-        parts.append(
-            f'<text class="tick" x="{left - 6:.1f}" y="{y + 0.35 * fs_tick:.1f}" font-size="{fs_tick:g}" '
-            f'text-anchor="end">{label}</text>'
-        )
-    if broken:
-        yb = y0 + break_gap / 2
-        zig = " ".join(f"{left + dx:.1f},{yb + dy:.1f}" for dx, dy in ((-6, 5), (6, 1), (-6, -1), (6, -5)))
-        parts.append(f'<rect x="{left - 7:.1f}" y="{yb - 4:.1f}" width="14" height="8" fill="white"/>')
-        parts.append(f'<polyline class="axis-break" points="{zig}" fill="none" stroke="black"/>')
-        parts.append(
-            f'<text class="tick" x="{left - 6:.1f}" y="{axis_bottom + 0.35 * fs_tick:.1f}" font-size="{fs_tick:g}" '
-            'text-anchor="end">0</text>'
-        )
-    for i, name in enumerate(names):
-        parts.append(
-            f'<text class="name" x="{x_at(i):.1f}" y="{axis_bottom + 10 + ASCENT_EM * fs_name:.1f}" '
-            f'font-size="{fs_name:g}" text-anchor="middle">{_esc(name)}</text>'
-        )
-    lx = left + plot_w + 20.0
+    y_name = f.axis_y + 10 + ASCENT_EM * FS_NAME
+    parts += [
+        f'<text class="name" x="{f.x(i):.1f}" y="{y_name:.1f}" font-size="{FS_NAME:g}" '
+        f'text-anchor="middle">{_esc(name)}</text>'
+        for i, name in enumerate(names)
+        if i % every == 0 or i == len(names) - 1
+    ]
+    lx = f.left + f.plot_w + 20.0
     for k, vs in enumerate(series.values()):
-        col = colours[k % len(colours)]
-        pts = " ".join(f"{x_at(i):.2f},{y_at(v):.2f}" for i, v in enumerate(vs) if math.isfinite(v))
+        col = COLOURS[k % len(COLOURS)]
+        pts = " ".join(f"{f.x(i):.2f},{f.y(v):.2f}" for i, v in enumerate(vs) if math.isfinite(v))
         parts.append(f'<polyline class="series" points="{pts}" fill="none" stroke="{col}" stroke-width="2"/>')
-        parts += _legend_entry(lx, top + 6 + 18 * k, legend[k], col, fs_legend, "")
+        parts += _legend_entry(lx, f.top + 6 + 18 * k, legend[k], col, "")
     if req_vals:
-        xs = [(x_at(i), v) for i, v in enumerate(req) if v is not None and math.isfinite(v)]
-        if len(xs) == len(names) and len({round(v, 9) for _, v in xs}) == 1:
-            pts = f"{left:.2f},{y_at(xs[0][1]):.2f} {left + plot_w:.2f},{y_at(xs[0][1]):.2f}"
-        else:
-            pts = " ".join(f"{x:.2f},{y_at(v):.2f}" for x, v in xs)
-        parts.append(f'<polyline class="required" points="{pts}" fill="none" stroke="black" stroke-dasharray="6 4"/>')
-        parts += _legend_entry(
-            lx, top + 6 + 18 * len(series), legend[-1], "black", fs_legend, ' stroke-dasharray="6 4"'
-        )
+        parts.append(_required_line(f, req))
+        parts += _legend_entry(lx, f.top + 6 + 18 * len(series), legend[-1], "black", ' stroke-dasharray="6 4"')
     parts.append("</svg>")
     return "\n".join(parts) + "\n"
 
 
-def _legend_entry(x: float, y: float, text: str, colour: str, size: float, dash: str) -> list[str]:
+def _legend_entry(x: float, y: float, text: str, colour: str, dash: str) -> list[str]:
     return [
         f'<line x1="{x:.1f}" y1="{y:.1f}" x2="{x + 20:.1f}" y2="{y:.1f}" stroke="{colour}" stroke-width="2"{dash}/>',
-        f'<text class="legend" x="{x + 26:.1f}" y="{y + 0.35 * size:.1f}" font-size="{size:g}" '
+        f'<text class="legend" x="{x + 26:.1f}" y="{y + 0.35 * FS_LEGEND:.1f}" font-size="{FS_LEGEND:g}" '
         f'fill="{colour}">{_esc(text)}</text>',
     ]
 
@@ -1135,7 +1175,8 @@ def trend_svg(comps: Sequence[Comparison]) -> str:
     for j in judgements:
         for c in j.nominal.cases:
             series.setdefault(f"torque {c.direction}", []).append(c.torque_Nm)
-    return history_svg(names, series, "N·m", required=[required_torque(j) for j in judgements])
+    req = [required_torque(j) for j in judgements]
+    return history_svg(names, series, "N·m", required=req, title="braking torque across revisions")
 
 
 def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config, *, force: bool = False) -> None:
