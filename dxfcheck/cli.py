@@ -21,11 +21,13 @@ from typing import Any
 
 from dxfcheck.errors import ConfigError, DxfcheckError, LimitError, VerificationError
 
-__all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_OK", "EXIT_UNUSABLE", "main"]
+__all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_NOT_BRAKING", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
 EXIT_OK = 0
 EXIT_CHECK_FAILED = 1
 EXIT_UNUSABLE = 2
+#: ``solve``: solved, but in some direction the drawing does not brake.
+EXIT_NOT_BRAKING = 1
 #: dxfcheck itself went wrong: a solution failed its own checks, or an
 #: unexpected error; no result was reported.
 EXIT_INTERNAL = 3
@@ -300,7 +302,8 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
     if args.svg:
         from dxfcheck.files import check_target
 
-        check_target(args.svg, force=False, protect=(args.drawing,))
+        check_target(args.svg, force=False, protect=(args.drawing,), text=True)
+    report_to = _report_stream(args, args.svg)
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
     res = sensitivity(
         args.drawing,
@@ -325,7 +328,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
     if args.json:
         write_json(sensitivity_to_dict(res, args.drawing))
     else:
-        print_sensitivity(res, args.drawing)
+        print_sensitivity(res, args.drawing, out=report_to)
     return EXIT_OK
 
 
@@ -376,12 +379,13 @@ def _solve(args: argparse.Namespace) -> int:
     else:
         notes = () if args.mu is not None else (f"μ = {DEFAULT_MU} assumed (no --mu given)",)
         print_solution(sol, notes=notes)
-    return EXIT_OK
+    # solved, but in some direction the drawing is no brake (a shoe pulls, a band pushes, it self-locks)
+    return EXIT_OK if all(c.brakes for c in sol.cases) else EXIT_NOT_BRAKING
 
 
 def _check(args: argparse.Namespace) -> int:
     from dxfcheck.analysis import check, resolve_config
-    from dxfcheck.files import write_atomic
+    from dxfcheck.files import Target, check_targets, write_atomic
     from dxfcheck.report import judgement_to_dict, junit_xml, print_judgement, write_json
     from dxfcheck.rules import Verdict
     from dxfcheck.spec import parse_assignment
@@ -398,6 +402,8 @@ def _check(args: argparse.Namespace) -> int:
     ):
         if value is not None:
             overrides.append((key, value))
+    check_targets([Target(args.annotate, args.force), Target(args.junit, True, text=True)], protect=(args.drawing,))
+    report_to = _report_stream(args, args.junit)
     cfg = resolve_config(args.drawing, args.config)
     j = check(
         args.drawing,
@@ -416,7 +422,7 @@ def _check(args: argparse.Namespace) -> int:
     if args.json:
         write_json(judgement_to_dict(j))
     else:
-        print_judgement(j, strict=args.strict)
+        print_judgement(j, out=report_to, strict=args.strict)
     failed = j.verdict is Verdict.FAIL or (args.strict and j.verdict is Verdict.WARN)
     return EXIT_CHECK_FAILED if failed else EXIT_OK
 
@@ -444,8 +450,10 @@ def _annotate(args: argparse.Namespace) -> int:
         **_shoe_kwargs(args),
     )
     written = annotate(sol, out=out, svg=args.svg, png=args.png, direction=args.direction, config=cfg, force=args.force)
+    notes = sys.stderr if _report_stream(args, args.svg) else sys.stdout  # the SVG itself may be on stdout
     for w in written:
-        sys.stdout.write(f"wrote {w}\n")
+        if str(w) != "-":
+            notes.write(f"wrote {w}\n")
     return EXIT_OK
 
 
@@ -455,31 +463,52 @@ def _subject(args: argparse.Namespace) -> str:
 
 
 def _revisions(items: Sequence[str]) -> list[str]:
+    """The drawings to compare: files as named, folders' ``*.dxf`` in name
+    order.  dxfcheck's own outputs (the marker, whatever their name) are
+    skipped in a folder, with a note, and refused when named."""
     from pathlib import Path
+
+    from dxfcheck.files import is_dxfcheck_output
 
     out: list[str] = []
     for item in items:
         p = Path(item)
         if p.is_dir():
-            out += sorted(str(x) for x in p.glob("*.dxf") if not x.stem.endswith("-forces"))
+            for x in sorted(str(x) for x in p.glob("*.dxf")):
+                if is_dxfcheck_output(x):
+                    sys.stderr.write(f"dxfcheck: {x}: skipped: a marked-up copy dxfcheck wrote, not a revision\n")
+                else:
+                    out.append(x)
+        elif is_dxfcheck_output(item):
+            raise ConfigError("is a marked-up copy dxfcheck wrote; compare the drawings themselves", path=item)
         else:
             out.append(item)
     return out
 
 
+def _report_stream(args: argparse.Namespace, *targets: str | None) -> Any:
+    """Where the terminal report goes: None (standard output), or standard
+    error when an output is written to standard output (``-``); with
+    ``--json`` that is refused (two documents on one stream)."""
+    if "-" not in targets:
+        return None
+    if getattr(args, "json", False):
+        raise ConfigError("--json and an output to '-' would both go to standard output; name a file for one of them")
+    return sys.stderr
+
+
 def _compare(args: argparse.Namespace) -> int:
     from dxfcheck.analysis import check, resolve_config
     from dxfcheck.compare import compare_judgements, mark_revision, parse_fraction, resolve_thresholds, trend_svg
-    from dxfcheck.files import check_target, write_atomic
+    from dxfcheck.files import Target, check_targets, write_atomic
     from dxfcheck.report import comparisons_to_dict, print_comparisons, write_json
     from dxfcheck.spec import parse_assignment
 
     names = _revisions(args.drawings)
     if len(names) < 2:
         raise ConfigError("compare needs at least two drawings (or a folder holding them)")
-    for target in (args.annotate, args.svg):
-        if target:
-            check_target(target, force=args.force, protect=tuple(names))
+    check_targets([Target(args.annotate, args.force), Target(args.svg, args.force, text=True)], protect=tuple(names))
+    report_to = _report_stream(args, args.svg)
     for text, option in ((args.max_torque_drop, "--max-torque-drop"), (args.max_force_rise, "--max-force-rise")):
         if text is not None:
             parse_fraction(text, option)  # refused before any drawing is read
@@ -498,7 +527,7 @@ def _compare(args: argparse.Namespace) -> int:
     if args.json:
         write_json(comparisons_to_dict(comps, names))
     else:
-        print_comparisons(comps)
+        print_comparisons(comps, out=report_to)
     return EXIT_CHECK_FAILED if any(c.failed for c in comps) else EXIT_OK
 
 
@@ -588,7 +617,28 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    """Run the command line; returns the exit code."""
+    """Run the command line; returns the exit code.
+
+    Standard output and error are guarded (:func:`dxfcheck.files.guarded_streams`):
+    symbols their encoding cannot show are written as ASCII stand-ins; a
+    closed pipe (``| head -1``) ends the output quietly and the run still
+    returns its own exit code; a write that fails otherwise (a full disk, a
+    closed descriptor) is exit 2 with a line naming the stream."""
+    from dxfcheck.files import guarded_streams
+
+    with guarded_streams() as stdout:
+        code = _main(argv)
+        try:
+            stdout.flush()  # a full disk shows here, not at the interpreter's exit
+        except DxfcheckError as exc:
+            from dxfcheck.report import print_error
+
+            print_error(exc)
+            return EXIT_UNUSABLE
+        return code
+
+
+def _main(argv: Sequence[str] | None) -> int:
     from dxfcheck.report import print_error
 
     args = _parser().parse_args(argv)

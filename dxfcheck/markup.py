@@ -48,6 +48,7 @@ __all__ = [
     "annotate",
     "marked_document",
     "plan_markup",
+    "save_copy",
 ]
 
 #: The largest force arrow is this fraction of the drum diameter.
@@ -242,7 +243,9 @@ def plan_markup(
         for m in case.members
     )
     curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()
-    torques = ", ".join(f"{c.direction} {c.torque_Nm:.1f} N·m" for c in sol.cases)
+    torques = ", ".join(
+        f"{c.direction} {c.torque_Nm:.1f} N·m" if c.brakes else f"{c.direction} does not brake" for c in sol.cases
+    )
     efforts = ", ".join(
         [f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads]
         + [f"{sp.name} {_fmt_force(sp.force_N)} {sp.state}" for sp in case.springs]
@@ -475,9 +478,68 @@ def marked_document(sol: Solution, markups: Sequence[Markup], config: Config | N
     for name, value in raw_header_values(Path(mech.drawing.path)).items():
         doc.header[name] = value
     skeleton = [seg for part in mech.parts for seg in part.segments]
+    before = {e.dxf.handle for e in doc.modelspace()}
     for m in markups:
         add_markup(doc, m, mech.drawing.mm_per_unit, config, skeleton)
+    _printable_texts(doc, before)
     return doc
+
+
+def _printable_texts(doc: Any, before: set[str]) -> None:
+    """Labels are drawing texts: the control characters in the TEXT entities
+    the markup added are written as visible escapes (a line break would cut
+    a DXF value in two; an ESC sequence garbles viewers)."""
+    from dxfcheck.textsafe import one_line
+
+    for e in doc.modelspace().query("TEXT"):
+        if e.dxf.handle not in before:
+            text = one_line(e.dxf.text)
+            if text != e.dxf.text:
+                e.dxf.text = text
+
+
+def _is_binary(path: str | os.PathLike[str]) -> bool:
+    from dxfcheck.drawing import BINARY_SENTINEL
+
+    try:
+        with open(path, "rb") as fh:
+            return fh.read(len(BINARY_SENTINEL)) == BINARY_SENTINEL
+    except OSError:
+        return False
+
+
+def save_copy(
+    doc: Any,
+    out: str | os.PathLike[str],
+    *,
+    source: str | os.PathLike[str],
+    force: bool = False,
+    protect: tuple[str | os.PathLike[str], ...] = (),
+) -> None:
+    """Write a marked-up ``doc`` to ``out`` atomically, in the format of
+    ``source`` (a binary DXF stays binary, an ASCII one ASCII, the version
+    is the document's), carrying the marker of dxfcheck's outputs
+    (:data:`dxfcheck.files.MARKER`): an ASCII file starts with the comment
+    ``999`` / ``DXFCHECK_OUTPUT <version>`` (DXF comments are ignored by
+    readers); a binary one gets the header custom property
+    ``DXFCHECK_OUTPUT`` (R2004 and later) or an APPID of that name (R12,
+    R2000)."""
+    from dxfcheck import __version__
+    from dxfcheck.files import MARKER
+
+    binary = _is_binary(source)
+    if binary and doc.dxfversion >= "AC1018":
+        if not doc.header.custom_vars.has_tag(MARKER):
+            doc.header.custom_vars.append(MARKER, __version__)
+    elif binary and MARKER not in doc.appids:
+        doc.appids.new(MARKER)
+    with atomic_target(out, force=force, protect=(source, *protect)) as tmp:
+        if binary:
+            doc.saveas(tmp, fmt="bin")
+        else:
+            with open(tmp, "w", encoding=doc.output_encoding, errors="dxfreplace") as fp:
+                fp.write(f"999\n{MARKER} {__version__}\n")
+                doc.write(fp)
 
 
 def annotate(
@@ -491,12 +553,14 @@ def annotate(
     config: Config | None = None,
     force: bool = False,
 ) -> list[Path]:
-    """Write the marked-up copy (``out``, DXF in the input's version) and
-    the pictures (``svg``, ``png``) for one drum direction.
+    """Write the marked-up copy (``out``, DXF in the input's version and
+    format, see :func:`save_copy`) and the pictures (``svg``, ``png``; an
+    SVG may go to standard output as ``-``) for one drum direction.
 
     Every output is checked before anything is written (so a refused output
-    leaves no other half-done), then written to a temporary file and moved
-    into place.  The input drawing is never written.
+    leaves no other half-done; two outputs to one file are refused), then
+    written to a temporary file and moved into place.  The input drawing is
+    never written.
 
     Raises
     ------
@@ -504,15 +568,13 @@ def annotate(
         When an output exists and ``force`` is False, is the input drawing,
         or PNG output is asked for without its backend.
     """
-    from dxfcheck.files import check_target
+    from dxfcheck.files import Target, check_targets
     from dxfcheck.picture import render_png, render_svg
 
     source = sol.mechanism.drawing.path
-    targets = [Path(p) for p in (out, svg, png) if p is not None]
-    if not targets:
+    if out is None and svg is None and png is None:
         raise ConfigError("nothing to write: give -o OUT.dxf, --svg OUT.svg or --png OUT.png")
-    for t in targets:
-        check_target(t, force=force, protect=(source,))
+    check_targets((Target(out, force), Target(svg, force, text=True), Target(png, force)), protect=(source,))
     markup = plan_markup(sol, direction, judgement)
     title = f"dxfcheck: {Path(source).name}, drum {markup.direction}"
     written: list[Path] = []
@@ -521,8 +583,7 @@ def annotate(
         doc = marked_document(sol, [markup], config)
         if out is not None:
             step = "write a copy of"
-            with atomic_target(out, force=force, protect=(source,)) as tmp:
-                doc.saveas(tmp)
+            save_copy(doc, out, source=source, force=force)
             written.append(Path(out))
         if svg is not None:
             step = "draw an SVG picture of"

@@ -16,7 +16,10 @@ from typing import IO, TYPE_CHECKING, Any
 
 from dxfcheck.errors import DxfcheckError
 from dxfcheck.findings import Finding, Severity
+from dxfcheck.layers import layers_json, searched_line
 from dxfcheck.statics import CaseSolution, Solution
+from dxfcheck.textsafe import markup as _esc
+from dxfcheck.textsafe import one_line, report_console, xml_text
 
 if TYPE_CHECKING:
     from dxfcheck.rules import Judgement, RuleResult
@@ -55,11 +58,9 @@ REPORT_WIDTH = 120
 
 
 def _console(out: IO[str] | None) -> Any:
-    from rich.console import Console
-
     stream = out or sys.stdout
     width = None if stream.isatty() else REPORT_WIDTH
-    return Console(file=stream, highlight=False, soft_wrap=False, width=width)
+    return report_console(stream, width)  # control characters in drawing texts shown as escapes
 
 
 def case_to_dict(c: CaseSolution) -> dict[str, Any]:
@@ -67,7 +68,8 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
     return {
         "direction": str(c.direction),
         "mu": c.mu,
-        "torque_Nm": c.torque_Nm,
+        "torque_Nm": c.braking_torque_Nm,
+        "not_braking": c.why_not_braking,
         "short_shoe_torque_Nm": c.short_shoe_torque_Nm,
         "critical_mu": c.critical_mu,
         "residual": c.residual,
@@ -263,7 +265,7 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
     console = _console(out)
     mech = sol.mechanism
     d = mech.drawing
-    console.print(f"[bold]dxfcheck solve[/]  {d.path}")
+    console.print(f"[bold]dxfcheck solve[/]  {_esc(d.path)}")
     console.print(
         f"units: {d.units} (from {d.units_source}); tolerance {mech.tolerance_mm:.3g} mm; "
         f"drum radius {mech.drum.radius_mm:.6g} mm"
@@ -278,7 +280,7 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
     )
     for s in mech.shoes:
         console.print(
-            f"  shoe {s.name}: {s.mounting} on {s.pin or s.part}, lining {s.contact_angle_deg:.1f}°"
+            f"  shoe {_esc(s.name)}: {s.mounting} on {_esc(s.pin or s.part)}, lining {s.contact_angle_deg:.1f}°"
             + (" (internal)" if s.internal else "")
         )
     for n in notes:
@@ -286,10 +288,18 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
     for c in sol.cases:
         console.print()
         crit = f"{c.critical_mu:.4g}" if c.critical_mu is not None else "none below 1"
-        console.print(
-            f"[bold]drum {c.direction}[/]  μ = {c.mu:g}   braking torque [bold]{c.torque_Nm:.1f} N·m[/]   "
-            f"self-locking μ: {crit}   residual {c.residual:.1e}"
+        torque = (
+            f"braking torque [bold]{c.torque_Nm:.1f} N·m[/]"
+            if c.brakes
+            else "[bold red]does not brake[/] (see the errors below)"
         )
+        console.print(
+            f"[bold]drum {c.direction}[/]  μ = {c.mu:g}   {torque}   self-locking μ: {crit}   residual {c.residual:.1e}"
+        )
+        if not c.brakes:
+            from rich.markup import escape
+
+            console.print(f"  no braking torque is reported for drum {c.direction}: {escape(c.why_not_braking or '')}")
         if c.short_shoe_torque_Nm is not None:
             console.print(
                 f"  beside it, short-shoe theory on every shoe: {c.short_shoe_torque_Nm:.1f} N·m "
@@ -320,8 +330,8 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
         if c.shoes:
             console.print(ts)
         if c.effort_scale is not None:
-            efforts = ", ".join(f"{ld.name} {ld.force_N:.1f} N" for ld in c.loads)
-            springs = ", ".join(f"{s.name} {s.force_N:.1f} N {s.state}" for s in c.springs)
+            efforts = ", ".join(f"{_esc(ld.name)} {ld.force_N:.1f} N" for ld in c.loads)
+            springs = ", ".join(f"{_esc(s.name)} {s.force_N:.1f} N {s.state}" for s in c.springs)
             console.print(
                 f"effort for {c.torque_Nm:.1f} N·m: {', '.join(x for x in (efforts, springs) if x)} "
                 f"(the drawing's efforts × {c.effort_scale:.6g})"
@@ -332,29 +342,29 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
                 tb.add_column(col, justify="left" if col in ("band", "kind") else "right")
             for b in c.bands:
                 tb.add_row(
-                    b.name,
+                    _esc(b.name),
                     b.kind,
                     f"{b.wrap_deg:.1f}",
-                    f"{b.tight_N:.1f} ({b.tight_pin})",
-                    f"{b.slack_N:.1f} ({b.slack_pin})",
+                    f"{b.tight_N:.1f} ({_esc(b.tight_pin)})",
+                    f"{b.slack_N:.1f} ({_esc(b.slack_pin)})",
                     f"{b.torque_Nm:.2f}",
                     f"{b.peak_line_load_N_per_mm:.2f}",
                 )
             console.print(tb)
         if c.springs and c.effort_scale is None:
-            console.print("springs: " + ", ".join(f"{s.name} {s.force_N:.1f} N {s.state}" for s in c.springs))
+            console.print("springs: " + ", ".join(f"{_esc(s.name)} {s.force_N:.1f} N {s.state}" for s in c.springs))
         tp = Table(title="pins (force on the first part listed)", title_justify="left")
         for col in ("pin", "x mm", "y mm", "Fx N", "Fy N", "|F| N", "joins"):
             tp.add_column(col, justify="left" if col in ("pin", "joins") else "right")
         for p in c.pins:
             tp.add_row(
-                p.name + (" (pivot)" if p.grounded else ""),
+                _esc(p.name) + (" (pivot)" if p.grounded else ""),
                 f"{p.x_mm:.1f}",
                 f"{p.y_mm:.1f}",
                 f"{p.fx_N:.1f}",
                 f"{p.fy_N:.1f}",
                 f"{p.max_force_N:.1f}",
-                ", ".join(p.parts),
+                _esc(", ".join(p.parts)),
             )
         console.print(tp)
         if c.members:
@@ -362,7 +372,7 @@ def print_solution(sol: Solution, out: IO[str] | None = None, *, notes: tuple[st
             for col in ("member", "between", "axial N", "state"):
                 tm.add_column(col, justify="right" if col == "axial N" else "left")
             for m in c.members:
-                tm.add_row(m.name, " - ".join(m.ends), f"{abs(m.axial_N):.1f}", m.state)
+                tm.add_row(_esc(m.name), _esc(" - ".join(m.ends)), f"{abs(m.axial_N):.1f}", m.state)
             console.print(tm)
     console.print()
     print_findings(console, sol.findings)
@@ -390,11 +400,11 @@ def print_error(exc: DxfcheckError, err: IO[str] | None = None) -> None:
     """One line per problem on stderr, each naming file, entity, layer and
     place."""
     err = err or sys.stderr
-    path = exc.path or ""
+    path = one_line(exc.path or "")  # drawing texts and names: control characters shown as escapes
     prefix = f"dxfcheck: {path}: " if path else "dxfcheck: "
-    err.write(f"{prefix}error: {exc.message}\n")
+    err.write(f"{prefix}error: {one_line(exc.message)}\n")
     for f in exc.findings:
-        err.write(f"{prefix}{f.line()}\n")
+        err.write(f"{prefix}{one_line(f.line())}\n")
 
 
 def _theory_lines(j: Judgement) -> list[str]:
@@ -486,14 +496,14 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
         verdict = Verdict.FAIL
     style = {"pass": "bold green", "warn": "bold yellow", "fail": "bold red"}[str(verdict)]
     console.print(
-        f"[{style}]{str(verdict).upper()}[/]  {j.mechanism.drawing.path}: "
+        f"[{style}]{str(verdict).upper()}[/]  {_esc(j.mechanism.drawing.path)}: "
         f"{counts['pass']} passed, {counts['fail']} failed, {counts['warn']} warnings, {counts['skip']} skipped"
         + (" (strict: warnings fail)" if strict else "")
     )
     console.print(f"μ = {j.mu:g} (range {j.mu_min:g} to {j.mu_max:g})")
     console.print(searched_line(j.mechanism.drawing), markup=False)
     for line in _theory_lines(j):
-        console.print(line)
+        console.print(line, markup=False)
     t = Table(title="rules", title_justify="left")
     for col in ("verdict", "rule", "value", "limit", "margin", "note"):
         t.add_column(col, justify="right" if col in ("value", "limit", "margin") else "left")
@@ -501,11 +511,11 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
         vs = {"pass": "green", "warn": "yellow", "fail": "red", "skip": "dim"}[str(r.verdict)]
         t.add_row(
             f"[{vs}]{r.verdict}[/]",
-            r.title,
+            _esc(r.title),
             _fmt(r.value, r.unit),
             _fmt(r.limit, r.unit),
             _fmt(r.margin),
-            r.message or str(r.inputs.get("case", "")),
+            _esc(r.message or str(r.inputs.get("case", ""))),
         )
     console.print(t)
     print_findings(console, j.nominal.findings)
@@ -513,7 +523,7 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
     for col in ("key", "value", "source"):
         ts.add_column(col)
     for v in j.spec.all_values():
-        ts.add_row(v.key, v.text, v.source)
+        ts.add_row(_esc(v.key), _esc(v.text), _esc(v.source))
     console.print(ts)
     console.print()
     console.print(CAUTION)
@@ -552,7 +562,8 @@ def junit_xml(j: Judgement, *, strict: bool = False) -> str:
         else:
             ET.SubElement(case, "system-out").text = f"{r.verdict}: {text}"
     ET.SubElement(suite, "system-out").text = CAUTION
-    return '<?xml version="1.0" encoding="UTF-8"?>\n' + ET.tostring(suites, encoding="unicode") + "\n"
+    # ElementTree escapes < & and quotes; characters XML 1.0 forbids (from drawing texts) become visible escapes
+    return '<?xml version="1.0" encoding="UTF-8"?>\n' + xml_text(ET.tostring(suites, encoding="unicode")) + "\n"
 
 
 #: Versioned name of the ``compare --json`` document.
@@ -645,7 +656,7 @@ def print_comparisons(comps: list[Any], out: IO[str] | None = None) -> None:
         console.print(comps[0].thresholds.describe())
     for c in comps:
         console.print()
-        console.print(f"[bold]{c.old.mechanism.drawing.path}[/] -> [bold]{c.new.mechanism.drawing.path}[/]")
+        console.print(f"[bold]{_esc(c.old.mechanism.drawing.path)}[/] -> [bold]{_esc(c.new.mechanism.drawing.path)}[/]")
         mo, mn = c.old.mechanism, c.new.mechanism
         console.print(
             f"rigid motion found from {c.motion_source}; {len(c.pin_map)} of {len(mo.pins)} pins "
@@ -663,10 +674,10 @@ def print_comparisons(comps: list[Any], out: IO[str] | None = None) -> None:
             t.add_row(
                 "CROSSED" if x.crossed else "",
                 x.kind,
-                x.name,
+                _esc(x.name),
                 x.direction,
-                _cell(x.old),
-                _cell(x.new),
+                _esc(_cell(x.old)),
+                _esc(_cell(x.new)),
                 "-" if x.abs_change is None else f"{x.abs_change:+.5g} {x.unit}",
                 rel,
             )
@@ -678,7 +689,7 @@ def print_comparisons(comps: list[Any], out: IO[str] | None = None) -> None:
         for col in cols:
             tt.add_column(col)
         for row in trend:
-            tt.add_row(*[f"{row[k]:.5g}" if isinstance(row[k], float) else str(row[k]) for k in cols])
+            tt.add_row(*[f"{row[k]:.5g}" if isinstance(row[k], float) else _esc(str(row[k])) for k in cols])
         console.print(tt)
     console.print()
     console.print(CAUTION)
@@ -730,10 +741,10 @@ def print_batch(batch: Any, out: IO[str] | None = None) -> None:
     for r in batch.results:
         t.add_row(
             r.status,
-            r.drawing,
+            _esc(r.drawing),
             "-" if r.torque_cw_Nm is None else f"{r.torque_cw_Nm:.1f}",
             "-" if r.torque_ccw_Nm is None else f"{r.torque_ccw_Nm:.1f}",
-            r.message if r.status in ("error", "timeout") else ", ".join(r.failed_rules),
+            _esc(r.message if r.status in ("error", "timeout") else ", ".join(r.failed_rules)),
             "cached" if r.cached else f"{r.seconds:.2f}",
         )
     console.print(t)
@@ -774,7 +785,7 @@ def print_sensitivity(res: Any, drawing: str, out: IO[str] | None = None) -> Non
 
     console = _console(out)
     console.print(
-        f"[bold]dxfcheck sensitivity[/]  {drawing}: {res.samples} samples, μ {res.mu_range[0]:g} to "
+        f"[bold]dxfcheck sensitivity[/]  {_esc(drawing)}: {res.samples} samples, μ {res.mu_range[0]:g} to "
         f"{res.mu_range[1]:g}, pins ± {res.pin_tolerance_mm:g} mm, seed {res.seed} ({res.seconds:.2f} s)"
     )
     keys = ["min", "p1", "p5", "p50", "mean", "p95", "p99", "max"]
@@ -784,7 +795,7 @@ def print_sensitivity(res: Any, drawing: str, out: IO[str] | None = None) -> Non
         t.add_column(k, justify="right")
     for d in res.directions:
         t.add_row(f"torque {d.direction} N·m", *[f"{d.torque_Nm[k]:.1f}" for k in keys])
-        t.add_row(f"pin {d.governing_pin} {d.direction} N", *[f"{d.max_pin_force_N[k]:.1f}" for k in keys])
+        t.add_row(f"pin {_esc(d.governing_pin)} {d.direction} N", *[f"{d.max_pin_force_N[k]:.1f}" for k in keys])
     console.print(t)
     for d in res.directions:
         if d.p_below_required is not None:

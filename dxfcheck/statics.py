@@ -379,6 +379,24 @@ class CaseSolution:
     effort_scale: float | None = None
     short_shoe_torque_Nm: float | None = None
 
+    @property
+    def brakes(self) -> bool:
+        """False when an error finding says this case is no brake (a shoe
+        would pull, a band would push, the brake self-locks)."""
+        return not any(f.severity is Severity.ERROR for f in self.findings)
+
+    @property
+    def braking_torque_Nm(self) -> float | None:
+        """The braking torque [N·m] where the case brakes, else None: a
+        number that is no brake's is never shown as one."""
+        return self.torque_Nm if self.brakes else None
+
+    @property
+    def why_not_braking(self) -> str | None:
+        """Why the case does not brake (its error findings), or None."""
+        errors = [f"{f.code.id} {f.message}" for f in self.findings if f.severity is Severity.ERROR]
+        return "; ".join(errors) if errors else None
+
     def shoe(self, name: str) -> ShoeResult:
         return next(s for s in self.shoes if s.name == name)
 
@@ -1152,6 +1170,13 @@ def _results(
                         tuple(s.layer for s in band.sources),
                     )
                 )
+        all_lift = bool(shoes) and all(sr.normal_N < -LIFT_RTOL * fmax for sr in shoes)
+        spring_hint = (
+            "; every shoe lifts while a spring sets the brake: is the spring's sense reversed? ('C' pushes its "
+            "ends apart, 'T' pulls them together)"
+            if all_lift and mech.springs
+            else ""
+        )
         for sr in shoes:
             if sr.normal_N < -LIFT_RTOL * fmax:
                 sh = next(x for x in mech.shoes if x.name == sr.name)
@@ -1159,7 +1184,8 @@ def _results(
                     Finding(
                         Code.SHOE_LIFTS,
                         f"{direction}: shoe {sr.name} would have to pull on the drum (normal force "
-                        f"{sr.normal_N:.4g} N): under these loads it lifts off",
+                        f"{sr.normal_N:.4g} N): under these loads it lifts off"
+                        + (spring_hint if sr is shoes[0] else ""),
                         (sh.arc.source.ref,),
                         (sh.arc.source.layer,),
                         sr.contact,

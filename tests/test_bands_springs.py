@@ -157,6 +157,28 @@ def test_compression_spring_pushes(tmp_path):
     sk.spring((-320, 250), (320, 250), "3.5 kN C")
     sol = _solve(tmp_path, sk, 0.4)
     assert any(f.code is Code.SHOE_LIFTS for f in sol.findings)
+    # a result that is no brake is not printed as one: no torque, the reason,
+    # and the question whether the spring's sense is reversed
+    for c in sol.cases:
+        assert not c.brakes and c.braking_torque_Nm is None
+        assert "is the spring's sense reversed" in c.why_not_braking
+    r = subprocess.run(
+        [sys.executable, "-m", "dxfcheck", "solve", str(tmp_path / "b.dxf"), "--mu", "0.4", "--json"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+    assert r.returncode == 1  # solved, but no brake
+    for c in json.loads(r.stdout)["cases"]:
+        assert c["torque_Nm"] is None and c["not_braking"].startswith("S303")
+    r = subprocess.run(
+        [sys.executable, "-m", "dxfcheck", "solve", str(tmp_path / "b.dxf"), "--mu", "0.4"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+    heads = [ln for ln in r.stdout.splitlines() if ln.startswith(("drum cw ", "drum ccw "))]
+    assert len(heads) == 2 and all("does not brake" in ln and "braking torque" not in ln for ln in heads)
 
 
 @pytest.mark.parametrize(("text", "code"), [("3500 N", Code.SPRING_NO_SENSE), ("lots T", Code.TEXT_UNREAD)])
