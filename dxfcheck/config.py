@@ -15,14 +15,16 @@ Unknown tables and keys are rejected, naming the key and the file.
 from __future__ import annotations
 
 import enum
+import json
 import tomllib
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 from dxfcheck.errors import ConfigError
 
-__all__ = ["CONFIG_NAME", "Config", "Role", "find_config", "load_config"]
+__all__ = ["CONFIG_NAME", "DEFAULT_LAYERS", "Config", "Role", "find_config", "load_config", "toml_layers_line"]
 
 CONFIG_NAME = "dxfcheck.toml"
 
@@ -81,6 +83,12 @@ class Config:
             for name in names:
                 out[name.upper()] = role
         return out
+
+
+def toml_layers_line(role: Role, names: Sequence[str]) -> str:
+    """The line of the ``[layers]`` table that maps ``role`` to ``names``,
+    as :func:`load_config` reads it, e.g. ``pin = ["PIN", "PINS"]``."""
+    return f"{role.value} = [{', '.join(json.dumps(n, ensure_ascii=False) for n in names)}]"
 
 
 def find_config(drawing: Path) -> Path | None:

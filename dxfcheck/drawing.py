@@ -32,9 +32,11 @@ from dxfcheck.geometry import Affine, Point
 from dxfcheck.units import INSUNITS_MM, UnitError, length_unit_factor
 
 __all__ = [
+    "ROLE_KINDS",
     "ArcGeom",
     "CircleGeom",
     "Drawing",
+    "LooseCircle",
     "PathGeom",
     "Source",
     "TextGeom",
@@ -67,6 +69,13 @@ EMPTY_RECOVERY_BYTES = 2000
 MAX_REPAIR_FINDINGS = 20
 #: First bytes of a binary DXF file.
 BINARY_SENTINEL = b"AutoCAD Binary DXF"
+#: Entity kinds whose layers are listed even when the layer has no role
+#: (the kinds a skeleton layer can hold), to name layer near misses.
+LISTED_KINDS = frozenset({"CIRCLE", "ARC", "LINE", "LWPOLYLINE", "POLYLINE", "TEXT", "MTEXT"})
+#: Circles kept per layer that has no role, in each container (model space,
+#: each block), counted on the entity's own layer: enough to recognise a pin
+#: or drum layer, bounded on a vendor sheet with thousands of holes.
+MAX_LOOSE_CIRCLES_PER_LAYER = 200
 
 _SKELETON_TYPES: dict[Role, set[str]] = {
     Role.PIVOT: {"CIRCLE"},
@@ -79,6 +88,8 @@ _SKELETON_TYPES: dict[Role, set[str]] = {
     Role.BAND: {"ARC", "LINE", "LWPOLYLINE"},
     Role.SPRING: {"LINE", "TEXT", "MTEXT"},
 }
+#: The entity kinds each role's layers hold (read-only).
+ROLE_KINDS: dict[Role, frozenset[str]] = {role: frozenset(kinds) for role, kinds in _SKELETON_TYPES.items()}
 _IGNORED_ANYWHERE = {"ATTDEF", "ATTRIB", "DIMENSION", "HATCH", "VIEWPORT", "POINT"}
 
 
@@ -111,6 +122,18 @@ class CircleGeom:
     """A circle: ``center`` [mm], ``radius_mm`` [mm]."""
 
     role: Role
+    center: Point
+    radius_mm: float
+    source: Source
+
+
+@dataclass(frozen=True)
+class LooseCircle:
+    """A circle on a layer that has no role: not skeleton, kept only to
+    recognise a layer near miss (pins drawn on ``PINS``, the drum on
+    ``BRK-DRUM``; see :mod:`dxfcheck.layers`).  ``center`` [mm],
+    ``radius_mm`` [mm]."""
+
     center: Point
     radius_mm: float
     source: Source
@@ -192,6 +215,18 @@ class Drawing:
     custom_properties : tuple of (str, str)
         The header's custom properties (``$CUSTOMPROPERTYTAG`` /
         ``$CUSTOMPROPERTY`` pairs, R2004 and later).
+    layer_map : tuple of (Role, tuple of str)
+        The layers searched for each role (upper case), as the
+        configuration gave them.
+    layer_map_source : str or None
+        The project file the map came from; None for the built-in names.
+    other_layers : tuple of (str, tuple of str)
+        Layers with no role that hold entities of the kinds a skeleton
+        layer can hold (:data:`LISTED_KINDS`): the name as first met and
+        the kinds, sorted by upper-case name.
+    loose_circles : tuple of LooseCircle
+        Circles on those layers (at most :data:`MAX_LOOSE_CIRCLES_PER_LAYER`
+        per layer and container).
     """
 
     path: str
@@ -205,6 +240,10 @@ class Drawing:
     texts: tuple[TextGeom, ...] = ()
     findings: tuple[Finding, ...] = ()
     custom_properties: tuple[tuple[str, str], ...] = ()
+    layer_map: tuple[tuple[Role, tuple[str, ...]], ...] = ()
+    layer_map_source: str | None = None
+    other_layers: tuple[tuple[str, tuple[str, ...]], ...] = ()
+    loose_circles: tuple[LooseCircle, ...] = ()
 
     def circles_of(self, role: Role) -> tuple[CircleGeom, ...]:
         return tuple(c for c in self.circles if c.role is role)
@@ -254,6 +293,14 @@ class _Collector:
     texts: list[TextGeom] = field(default_factory=list)
     findings: list[Finding] = field(default_factory=list)
     _seen: set[tuple[Any, ...]] = field(default_factory=set)
+    #: upper-case name -> (name as first met, kinds) of layers with no role
+    other: dict[str, tuple[str, set[str]]] = field(default_factory=dict)
+    loose: list[LooseCircle] = field(default_factory=list)
+    _loose_seen: set[tuple[float, ...]] = field(default_factory=set)
+
+    def note_other(self, layer: str, dxftype: str) -> None:
+        """Remember that a layer with no role holds a ``dxftype``."""
+        self.other.setdefault(layer.upper(), (layer, set()))[1].add(dxftype)
 
     def finding(self, code: Code, message: str, src: Source, at: Point | None = None) -> None:
         self.findings.append(Finding(code, message, (src.ref,), (src.layer,), at))
@@ -283,6 +330,7 @@ def _walk(
     via: tuple[str, ...],
     depth: int,
 ) -> None:
+    loose_count: dict[str, int] = {}  # circles met per own layer with no role, in this container
     for e in entities:
         try:
             dxftype = str(e.dxftype())
@@ -290,6 +338,7 @@ def _walk(
             handle = str(e.dxf.get("handle", "?"))
         except Exception:  # an entity kind ezdxf keeps only as raw tags: not skeleton
             continue
+        own = layer
         if parent_layer is not None and layer == "0":
             layer = parent_layer
         src = Source(handle=handle, layer=layer, via=via)
@@ -302,7 +351,13 @@ def _walk(
                 col.finding(Code.DEGENERATE_ENTITY, f"INSERT could not be read ({type(exc).__name__}: {exc})", src)
             continue
         role = col.roles.get(layer.upper())
-        if role is None or dxftype in _IGNORED_ANYWHERE:
+        if role is None:
+            if dxftype in LISTED_KINDS:
+                col.note_other(layer, dxftype)
+                if dxftype == "CIRCLE" and _loose_quota(loose_count, own, parent_layer is not None):
+                    _take_loose(col, e, m, Source(handle=handle, layer=layer, via=via))
+            continue
+        if dxftype in _IGNORED_ANYWHERE:
             continue
         if dxftype not in _SKELETON_TYPES[role]:
             col.finding(
@@ -315,6 +370,42 @@ def _walk(
             _take(col, e, dxftype, role, m, src)
         except Exception as exc:  # damaged entity data of any kind: report it, go on
             col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({type(exc).__name__}: {exc})", src)
+
+
+def _loose_quota(count: dict[str, int], own_layer: str, in_block: bool) -> bool:
+    """Whether a circle on a layer with no role is kept: the first
+    :data:`MAX_LOOSE_CIRCLES_PER_LAYER` of each own layer in a container.
+    Layer-0 circles inside blocks are not counted (the fast reader keeps
+    them whole anyway)."""
+    if in_block and own_layer == "0":
+        return True
+    n = count.get(own_layer, 0)
+    count[own_layer] = n + 1
+    return n < MAX_LOOSE_CIRCLES_PER_LAYER
+
+
+def _take_loose(col: _Collector, e: Any, m: Affine, src: Source) -> None:
+    """Keep a circle on a layer with no role, silently: what cannot be read
+    is no finding, since the layer is not the skeleton's."""
+    try:
+        ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
+        c = e.dxf.center
+        r = float(e.dxf.radius)
+        if ocs is None or not _finite(float(c[0]), float(c[1]), r) or r <= 0.0:
+            return
+        mm = m @ ocs
+        scale = mm.similarity_scale(SIMILARITY_RTOL)
+        if scale is None:
+            return
+        center = mm.apply((float(c[0]), float(c[1])))
+    except Exception:  # damaged data on a layer that is not the skeleton's: not our concern
+        return
+    radius = r * scale
+    key = _key(*center, radius)
+    if key in col._loose_seen:
+        return
+    col._loose_seen.add(key)
+    col.loose.append(LooseCircle(center, radius, src))
 
 
 def _walk_insert(col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: tuple[str, ...], depth: int) -> None:
@@ -586,10 +677,13 @@ def _sniff(path: Path, head: bytes, tail: bytes) -> None:
     if not binary and b"\x00" in head:
         raise DrawingReadError("is a binary file that is not DXF; export the drawing as DXF", path=spath)
     first = head.lstrip(b"\xef\xbb\xbf").split(None, 1)[0] if not binary else b"0"
-    if not first.isdigit():
-        shown = head[:24].decode("latin-1").split("\n")[0]
+    if not first.isdigit():  # described, never quoted: the file may be anything (a secret behind a link)
+        kind = "text" if first.isascii() and first.decode("ascii").isprintable() else "binary data"
+        more = "+" if head.endswith(first) and len(head) >= 64 else ""
         raise DrawingReadError(
-            f"is not a DXF file: a DXF file starts with a group code, this one with {shown!r}", path=spath
+            f"is not a DXF file: a DXF file starts with a group code (a number), this one with {len(first)}{more} "
+            f"bytes of {kind} (not shown)",
+            path=spath,
         )
     ended = b"EOF\x00" in tail if binary else tail.rstrip().endswith(b"EOF")
     if not ended:
@@ -762,6 +856,10 @@ def read_drawing(
         texts=tuple(col.texts),
         findings=tuple(findings + unit_findings + col.findings),
         custom_properties=_custom_properties(doc),
+        layer_map=tuple((role, tuple(config.layers.get(role, ()))) for role in Role),
+        layer_map_source=config.path,
+        other_layers=tuple((name, tuple(sorted(kinds))) for _, (name, kinds) in sorted(col.other.items())),
+        loose_circles=tuple(col.loose),
     )
 
 

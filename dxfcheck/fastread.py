@@ -7,7 +7,9 @@ memory of reading such a file.  This reader streams the raw tags of an ASCII
 DXF file (ezdxf's low-level tag loader), groups them at group code 0, keeps
 the header variables it needs, and builds light stand-ins only for the
 entities on the mapped layers, for INSERTs and for what the blocks they place
-hold; the rest is skipped as tags.  The stand-ins offer the small part of the
+hold; the rest is skipped as tags, but for the circles on other layers (up to
+a number per layer) and one token per other layer and entity kind, which
+name a layer near miss (:mod:`dxfcheck.layers`).  The stand-ins offer the small part of the
 ezdxf entity interface that :mod:`dxfcheck.drawing` uses, so both readers go
 through the same geometry code and give the same results (a test compares
 them on every test drawing).
@@ -250,12 +252,21 @@ def _header(doc: FastDocument, body: list[tuple[int, str]]) -> None:
 def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, str, list[tuple[int, str]]]]:
     """(structure name, section, tags) at every group code 0, reading the
     file's line pairs directly.  The tags of an entity on a layer that does
-    not matter are not kept past its layer tag."""
+    not matter are not kept past its layer tag, but for the first circles of
+    each such layer in a container (they may name a layer near miss), and the
+    first entity of each kind on it is yielded with its tags up to the layer
+    tag, so that the layer's kinds can be listed."""
+    from dxfcheck.drawing import MAX_LOOSE_CIRCLES_PER_LAYER
+
     name: str | None = None
     body: list[tuple[int, str]] = []
     keeping = True
+    stub = False
     section = ""
     want_section = False
+    container = -1  # -1 model space, else the block's number
+    loose: dict[tuple[int, str], int] = {}  # circles kept per (container, layer)
+    listed: set[tuple[int, str, str]] = set()  # (container, layer, kind) yielded
     for code_line in lines:
         value = next(lines, None)
         if value is None:
@@ -263,15 +274,18 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
         code = code_line.strip()
         value = value.rstrip("\r\n")
         if code == "0":
-            if name is not None and keeping:
+            if name is not None and (keeping or stub):
                 yield name, section, body
             name = value.strip()
             body = []
             keeping = True
+            stub = False
             if name == "SECTION":
                 want_section = True
             elif name == "ENDSEC":
                 section = ""
+            elif name == "BLOCK":
+                container += 1
             continue
         if want_section and code == "2":
             section = value.strip()
@@ -281,8 +295,18 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
         if code == "8" and name in _KEEP and name not in ("INSERT", "POLYLINE"):
             layer = value.strip()
             if layer.upper() not in roles and not (section == "BLOCKS" and layer == "0"):
-                keeping = False
-                continue
+                where = container if section == "BLOCKS" else -1
+                if name == "CIRCLE":
+                    n = loose.get((where, value), 0)
+                    loose[(where, value)] = n + 1
+                    keeping = n < MAX_LOOSE_CIRCLES_PER_LAYER
+                else:
+                    keeping, stub = False, (where, value, name) not in listed
+                    listed.add((where, value, name))
+                if not keeping:
+                    if stub:
+                        body.append((8, value))
+                    continue
         if section not in ("HEADER", "BLOCKS", "ENTITIES"):
             keeping = name == "SECTION"
             if not keeping:
@@ -291,7 +315,7 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
             keeping = False
             continue
         body.append((int(code), value))
-    if name is not None and keeping:
+    if name is not None and (keeping or stub):
         yield name, section, body
 
 
@@ -321,6 +345,7 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
     block: _Block | None = None
     poly: FastEntity | None = None
     skip_attribs = False
+    listed: set[tuple[int, str, str]] = set()  # (container, layer, kind) already listed
     with open(path, encoding=info.encoding or "cp1252", errors="surrogateescape") as fh:
         for name, section, body in _groups(iter(fh), roles):
             if name == "SECTION":
@@ -371,6 +396,11 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
             if not keep:
                 if name == "POLYLINE":
                     poly = FastEntity("POLYLINE", {})  # swallow its vertices
+                if name == "CIRCLE":  # within its layer's quota (see _groups)
+                    target.append(_entity(name, body))
+                elif (id(target), layer, name) not in listed:  # one token lists the layer's kind
+                    listed.add((id(target), layer, name))
+                    target.append(FastEntity(name, {"layer": layer}))
                 continue
             ent = _entity(name, body)
             target.append(ent)
