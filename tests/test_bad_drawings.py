@@ -417,3 +417,79 @@ def test_units_misread(capsys, tmp_path, case):
     assert phrase in " ".join(f["message"] for f in report["findings"])
     if code:
         assert run(capsys, "check", path, "--strict", *options)[0] == 1
+
+
+# --- layer near misses ---------------------------------------------------------------
+
+
+def _layers_slip(make, **layers):
+    def build():
+        sk = make()
+        sk.layers = dict(layers)
+        return sk.to_doc()
+
+    return build
+
+
+def _one_pin_on_pins():
+    doc = winch_two_shoe().to_doc()
+    s1 = next(e for e in doc.modelspace().query("CIRCLE[layer=='PIN']") if tuple(e.dxf.center)[:2] == (-250, 0))
+    s1.dxf.layer = "PINS"
+    return doc
+
+
+def _pivoted_pair():
+    from common import pivoted_long_shoes
+
+    return pivoted_long_shoes(r=250, semi_deg=50, a=330, effort_N=4000, pair=True)
+
+
+#: case -> (drawing, check's exit code, codes that must be found, phrase in a message)
+LAYER_SLIPS = {
+    "pins on PINS: pivoted shoes read as fixed": (
+        _layers_slip(_pivoted_pair, pin="PINS"),
+        0,
+        {"M223", "M224"},
+        'pin = ["PIN", "PINS"]',
+    ),
+    "pins on PINS: the winch becomes one rigid frame": (
+        _layers_slip(winch_two_shoe, pin="PINS"),
+        2,
+        {"M223", "M224"},
+        'pin = ["PIN", "PINS"]',
+    ),
+    "one shoe pin on PINS": (_one_pin_on_pins, 0, {"M223", "M224"}, 'pin = ["PIN", "PINS"]'),
+    "drum on BRK-DRUM": (_layers_slip(winch_two_shoe, drum="BRK-DRUM"), 2, {"M201"}, 'drum = ["DRUM", "BRK-DRUM"]'),
+    "drum on a layer of any name": (
+        _layers_slip(winch_two_shoe, drum="XYZ-17"),
+        2,
+        {"M201"},
+        'drum = ["DRUM", "XYZ-17"]',
+    ),
+    "pivots on PIVOTS": (_layers_slip(winch_two_shoe, pivot="PIVOTS"), 2, {"M223"}, 'pivot = ["PIVOT", "PIVOTS"]'),
+    "shoes on SHOES": (_layers_slip(conveyor_block, shoe="SHOES"), 2, {"M211"}, 'shoe = ["SHOE", "SHOES"]'),
+    "load on LOADS": (_layers_slip(conveyor_block, load="LOADS"), 2, {"M212"}, 'load = ["LOAD", "LOADS"]'),
+    "labels on Labels": (_layers_slip(winch_two_shoe, label="Labels"), 0, {"M223"}, 'label = ["LABEL", "Labels"]'),
+}
+
+
+@pytest.mark.parametrize("case", list(LAYER_SLIPS))
+def test_layer_slips(capsys, tmp_path, case):
+    """A role's entities on a layer with no role never pass check quietly:
+    the finding names the layer and the [layers] line that reads it; a
+    warning fails --strict."""
+    import json
+
+    build, code, must, phrase = LAYER_SLIPS[case]
+    path = tmp_path / "layers.dxf"
+    build().saveas(path)
+    rc, out, _ = run(capsys, "check", path, "--json")
+    TRIED["layer near miss"] += 1
+    report = json.loads(out)
+    codes = {f["code"] for f in report["findings"]}
+    assert rc == code, report.get("error")
+    assert must <= codes, codes
+    assert phrase in " ".join(f["message"] for f in report["findings"])
+    if code == 0:
+        assert report["verdict"] == "warn"
+        assert run(capsys, "check", path, "--strict")[0] == 1
