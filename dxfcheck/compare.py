@@ -1184,8 +1184,7 @@ def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config,
     and a note at every geometry change that has a place (a pin moved, a
     part's span or length, a load or spring end moved...) and every pin force
     that crossed the threshold.  Neither revision's file is written."""
-    from dxfcheck.files import atomic_target
-    from dxfcheck.markup import TEXT_FRACTION, TEXT_MIN_MM, marked_document, plan_markup
+    from dxfcheck.markup import TEXT_FRACTION, TEXT_MIN_MM, marked_document, plan_markup, save_copy
 
     sol = comp.new.nominal
     mech = sol.mechanism
@@ -1210,5 +1209,4 @@ def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config,
         msp.add_text(
             text, height=h * k, dxfattribs={"layer": config.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)}
         )
-    with atomic_target(out, force=force, protect=(mech.drawing.path, comp.old.mechanism.drawing.path)) as tmp:
-        doc.saveas(tmp)
+    save_copy(doc, out, source=mech.drawing.path, force=force, protect=(comp.old.mechanism.drawing.path,))

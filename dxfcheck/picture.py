@@ -23,6 +23,7 @@ from dxfcheck.config import Config
 from dxfcheck.errors import ConfigError
 from dxfcheck.files import write_atomic
 from dxfcheck.markup import Markup
+from dxfcheck.textsafe import xml_text
 
 __all__ = ["PAGE_MM", "render_png", "render_svg"]
 
@@ -95,9 +96,10 @@ def svg_text(doc: Any, config: Config, markups: Sequence[Markup], title: str) ->
     _draw(doc, config, backend)
     text: str = backend.get_string(_page())
     labels = [a.label for m in markups for a in m.arrows] + [n.label for m in markups for n in m.members]
-    meta = f"<title>{escape(title)}</title><desc>{escape('; '.join(labels))}</desc>"
+    # drawing texts are data: markup escaped, characters XML forbids shown as escapes
+    meta = f"<title>{escape(xml_text(title))}</title><desc>{escape(xml_text('; '.join(labels)))}</desc>"
     head_end = text.index(">", text.index("<svg")) + 1
-    return text[:head_end] + meta + text[head_end:]
+    return xml_text(text[:head_end] + meta + text[head_end:])
 
 
 def render_svg(

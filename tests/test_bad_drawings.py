@@ -419,6 +419,76 @@ def test_units_misread(capsys, tmp_path, case):
         assert run(capsys, "check", path, "--strict", *options)[0] == 1
 
 
+# --- texts from the drawing are data, never control ---------------------------------------------
+
+#: Labels and load texts as a hostile or careless drawing carries them: an
+#: ANSI colour and an OSC title sequence, a bell, a bidirectional override,
+#: rich markup, an emoji code, XML's < & >.
+HOSTILE_LABELS = {
+    "O": "\x1b[31mO1<&>",
+    "lever": "[/]lev\x07er [bold red]x",
+    "block": "blk\x1b]0;pwned\x07 \u202e:warning: &amp;",
+}
+#: Control characters that must never reach a terminal or an XML file raw.
+RAW_CONTROLS = ("\x1b", "\x07", "\u202e")
+
+
+def _hostile(path, load_text="650 N"):
+    from common import block_brake
+
+    sk = block_brake(r=150, l=600, x=250, a=40, effort=load_text)
+    sk.items = [
+        ("text", "label", HOSTILE_LABELS[it[2]], it[3]) if it[:2] == ("text", "label") else it for it in sk.items
+    ]
+    sk.save(path)
+    return path
+
+
+def test_hostile_labels_are_shown_not_obeyed(capsys, tmp_path):
+    """The terminal report, the JSON, the JUnit XML, the SVG and the marked-up
+    DXF of a drawing whose labels carry ESC sequences, a bell, a bidi
+    override, rich markup and < & >: no raw control character anywhere, the
+    markup printed as written, both XML files well-formed (parsed here with
+    xml.etree), the labels readable in them."""
+    import json
+    import xml.etree.ElementTree as ET
+
+    import ezdxf
+
+    path = _hostile(tmp_path / "hostile.dxf")
+    rc, out, err = run(capsys, "solve", path)
+    assert rc == 0, err
+    assert not any(c in out + err for c in RAW_CONTROLS)
+    assert "\\x1b[31mO1<&>" in out and "[/]lev\\x07er [bold red]x" in out and ":warning:" in out
+    rc, out, _ = run(capsys, "solve", path, "--json")
+    assert rc == 0 and not any(c in out for c in RAW_CONTROLS)
+    names = {p["name"] for p in json.loads(out)["mechanism"]["pins"]}
+    assert names == {HOSTILE_LABELS["O"]}  # the data itself is kept, JSON escapes it
+    junit = tmp_path / "gate.xml"
+    rc, out, _ = run(capsys, "check", path, "--junit", junit)
+    assert rc in (0, 1) and not any(c in out for c in RAW_CONTROLS)
+    cases = [c.get("name") for c in ET.parse(junit).getroot().iter("testcase")]
+    assert any("\\x1b[31mO1<&>" in c for c in cases), cases
+    svg, marked = tmp_path / "p.svg", tmp_path / "m.dxf"
+    rc, _, err = run(capsys, "annotate", path, "-o", marked, "--svg", svg)
+    assert rc == 0, err
+    desc = ET.parse(svg).getroot().find("{http://www.w3.org/2000/svg}desc")
+    assert desc is not None and "\\x1b[31mO1<&>" in desc.text
+    texts = [e.dxf.text for e in ezdxf.readfile(marked).modelspace().query("TEXT[layer=='DXFCHECK_NOTES']")]
+    assert any("O1<&>" in t for t in texts) and not any(c in t for t in texts for c in RAW_CONTROLS)
+    TRIED["hostile labels"] += 5
+
+
+def test_hostile_text_in_an_error_line(capsys, tmp_path):
+    """A load text that cannot be read is quoted in the error lines on
+    stderr: its control characters are shown, each problem stays one line."""
+    path = _hostile(tmp_path / "hostile.dxf", load_text="\x1b[2J\x1b[Hforty\nnewtons")
+    rc, _, err = run(capsys, "solve", path)
+    assert rc == 2
+    assert not any(c in err for c in RAW_CONTROLS) and "\\x1b[2J" in err
+    TRIED["hostile labels"] += 1
+
+
 # --- layer near misses ---------------------------------------------------------------
 
 
