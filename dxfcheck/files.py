@@ -150,7 +150,9 @@ def check_target(
     if st is not None:
         kind = _kind(st.st_mode)
         if kind is not None:
-            advice = "name an output file inside it" if stat.S_ISDIR(st.st_mode) else "dxfcheck writes only regular files"
+            advice = (
+                "name an output file inside it" if stat.S_ISDIR(st.st_mode) else "dxfcheck writes only regular files"
+            )
             raise ConfigError(f"is {kind}; {advice}", path=name)
         if not force:
             raise ConfigError("exists; pass --force to replace it", path=name)
