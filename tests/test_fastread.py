@@ -21,6 +21,12 @@ import dxfcheck
 from dxfcheck.geometry import Affine
 from dxfcheck.sketch import BlockWrap
 
+
+def _on_layers(sk, **layers):
+    sk.layers = dict(layers)
+    return sk
+
+
 SKETCHES = {
     "winch": winch_two_shoe,
     "conveyor": conveyor_block,
@@ -31,6 +37,11 @@ SKETCHES = {
     "pivoted-long": lambda: pivoted_long_shoes(r=250, semi_deg=50, a=281, effort_N=8000, pair=True),
     "simple-band": lambda: simple_band(r=200, wrap_deg=225, anchor_run=150, arm=700, effort="500 N"),
     "differential-band": lambda: differential_band(r=300, wrap_deg=240, a=200, c=50, arm=950, effort="300 N"),
+    # layer near misses: circles and entities on layers with no role
+    "pins-on-PINS": lambda: _on_layers(
+        pivoted_long_shoes(r=250, semi_deg=50, a=330, effort_N=4000, pair=True), pin="PINS"
+    ),
+    "drum-on-BRK-DRUM": lambda: _on_layers(winch_two_shoe(), drum="BRK-DRUM", label="Labels"),
 }
 VARIANTS = {
     "plain": {},
