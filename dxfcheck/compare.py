@@ -985,7 +985,9 @@ def _text_width(text: str, size: float) -> float:
 def _esc(text: str) -> str:
     from xml.sax.saxutils import escape
 
-    return escape(text, {'"': "&quot;"})
+    from dxfcheck.textsafe import xml_text
+
+    return escape(xml_text(text), {'"': "&quot;"})  # file names and labels: < & " escaped, controls shown
 
 
 #: Font sizes of the plot's texts [px]: ticks, step names, legend, title.
@@ -1185,6 +1187,7 @@ def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config,
     part's span or length, a load or spring end moved...) and every pin force
     that crossed the threshold.  Neither revision's file is written."""
     from dxfcheck.markup import TEXT_FRACTION, TEXT_MIN_MM, marked_document, plan_markup, save_copy
+    from dxfcheck.textsafe import one_line
 
     sol = comp.new.nominal
     mech = sol.mechanism
@@ -1207,6 +1210,8 @@ def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config,
         x, y = at
         msp.add_circle((x * k, y * k), ring * k, dxfattribs={"layer": config.note_layer})
         msp.add_text(
-            text, height=h * k, dxfattribs={"layer": config.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)}
+            one_line(text),  # names are drawing texts: control characters as visible escapes
+            height=h * k,
+            dxfattribs={"layer": config.note_layer, "insert": ((x + h) * k, (y - 2 * h) * k)},
         )
     save_copy(doc, out, source=mech.drawing.path, force=force, protect=(comp.old.mechanism.drawing.path,))
