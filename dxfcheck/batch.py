@@ -275,7 +275,11 @@ def _walk(root: Path, roots: Sequence[str], follow: bool, skipped: list[Skipped]
     """``.dxf`` files under ``root``, in a stable order; linked folders are
     entered only with ``follow`` (each real folder once)."""
     seen: set[str] = set()
-    for dirpath, dirnames, filenames in os.walk(root, followlinks=follow):
+
+    def unreadable(exc: OSError) -> None:
+        skipped.append(Skipped(str(exc.filename), f"cannot be searched ({exc.strerror})"))
+
+    for dirpath, dirnames, filenames in os.walk(root, onerror=unreadable, followlinks=follow):
         real = os.path.realpath(dirpath)
         if real in seen:
             dirnames[:] = []
@@ -841,9 +845,15 @@ class _Pool:
     def submit(self, task: tuple[int, str, str]) -> None:
         slot = next((s for s in self.slots if s.task is None), None)
         grace = 0.0
+        if slot is not None:
+            try:
+                slot.conn.send((task[0], task[1], self.options))
+            except OSError:  # an idle worker that went away: start another
+                self._discard(slot)
+                slot = None
         if slot is None:
             slot, grace = self._start(), STARTUP_GRACE_S
-        slot.conn.send((task[0], task[1], self.options))
+            slot.conn.send((task[0], task[1], self.options))
         slot.task, slot.started = task, time.monotonic()
         slot.deadline = slot.started + grace + self.timeout_each_s
 
@@ -999,13 +1009,14 @@ def run_batch(
         cannot be read.
     """
     check_inputs(options, jobs=jobs, timeout_each_s=timeout_each_s)
-    book = _Book(paths, options, use_cache, cache_dir, on_result)
-    if not book.todo:
-        return book.finish()
-    pool = _Pool(worker_count(jobs, len(book.todo)), options, timeout_each_s)
-    queue = deque(book.todo)
+    book = _Book(options, use_cache, cache_dir, on_result)
+    pool = _Pool(1, options, timeout_each_s)
+    queue: deque[tuple[int, str, str]] = deque()
     with _Signals():
         try:
+            book.scan(paths)  # the cache's answers; a signal here reports them
+            pool.size = worker_count(jobs, max(1, len(book.todo)))
+            queue.extend(book.todo)
             while queue or pool.busy():
                 while queue and pool.has_room():
                     pool.submit(queue.popleft())
@@ -1059,7 +1070,6 @@ class _Book:
 
     def __init__(
         self,
-        paths: Sequence[Path],
         options: CheckOptions,
         use_cache: bool,
         cache_dir: str | None,
@@ -1073,6 +1083,9 @@ class _Book:
             self.out.notes.append(self.cache.note)
         self.done: dict[int, DrawingResult] = {}
         self.todo: list[tuple[int, str, str]] = []
+
+    def scan(self, paths: Sequence[Path]) -> None:
+        """Answer from the cache what it can; the rest is to do."""
         for k, p in enumerate(paths):
             refused = self._refused_spec(p)
             if refused:
@@ -1150,7 +1163,8 @@ def run_on_cluster(
     except ImportError as exc:
         raise ConfigError('--scheduler needs dask.distributed: pip install "dxfcheck[cluster]"') from exc
     _check_project(options)
-    book = _Book(paths, options, use_cache, cache_dir, on_result)
+    book = _Book(options, use_cache, cache_dir, on_result)
+    book.scan(paths)
     try:
         client = Client(scheduler, timeout="10s")  # type: ignore[no-untyped-call]
     except Exception as exc:  # the scheduler's address is the user's to fix
