@@ -163,7 +163,7 @@ def brake(tmp_path):
 
 @pytest.mark.parametrize(("required", "governs"), [(100.0, "required_torque"), (50.0, "motor duty")])
 def test_the_larger_duty_governs_and_both_are_shown(brake, required, governs):
-    assert MOTOR_NM == pytest.approx(74.09, abs=0.005)
+    assert pytest.approx(74.09, abs=0.005) == MOTOR_NM
     j = check(brake, overrides=[("mu", str(MU)), ("required_torque", f"{required} N*m")])
     rules = {r.rule: r for r in j.rules}
     need = max(required, MOTOR_NM)
