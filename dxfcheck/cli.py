@@ -607,11 +607,11 @@ def _batch_exit(result: Any, *, strict: bool) -> int:
 
 def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool = False) -> None:
     """With ``--json``, a refusal still prints one JSON document on stdout."""
-    if not getattr(args, "json", False) or args.command not in ("solve", "check"):
+    if not getattr(args, "json", False) or args.command not in ("solve", "check", "compare"):
         return
-    from dxfcheck.report import CHECK_SCHEMA, SOLVE_SCHEMA, error_document
+    from dxfcheck.report import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
 
-    schema = CHECK_SCHEMA if args.command == "check" else SOLVE_SCHEMA
+    schema = {"check": CHECK_SCHEMA, "compare": COMPARE_SCHEMA}.get(args.command, SOLVE_SCHEMA)
     drawing = str(args.drawing) if getattr(args, "drawing", None) else None
     print(json.dumps(error_document(exc, schema, drawing, internal=internal), indent=2, allow_nan=False))
 

@@ -18,7 +18,7 @@ import sys
 
 import ezdxf
 import pytest
-from common import capstan_band, conveyor_block, winch_two_shoe
+from common import ROOT, capstan_band, conveyor_block, winch_two_shoe
 
 GAP_MM = 0.5
 
@@ -105,3 +105,25 @@ def test_json_refusal_is_one_document(tmp_path):
         [sys.executable, "-m", "dxfcheck", "check", str(path), "--json"], capture_output=True, text=True, timeout=120
     )
     assert r.returncode == 2 and json.loads(r.stdout)["schema"] == "dxfcheck.check/2"
+
+
+def test_json_refusal_of_compare_is_one_document(tmp_path):
+    """Two unrelated drawings: compare refuses (exit 2) and --json still
+    prints one compare document with the error."""
+    r = subprocess.run(
+        [
+            sys.executable,
+            "-m",
+            "dxfcheck",
+            "compare",
+            str(ROOT / "drawings" / "winch_two_shoe.dxf"),
+            str(ROOT / "drawings" / "capstan_band.dxf"),
+            "--json",
+        ],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+    assert r.returncode == 2
+    doc = json.loads(r.stdout)
+    assert doc["schema"] == "dxfcheck.compare/2" and doc["error"]["kind"] == "unusable"
