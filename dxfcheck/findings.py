@@ -46,6 +46,9 @@ class Code(enum.Enum):
     REPAIRED = ("D109", Severity.WARNING, "repaired")
     UNITS_IMPLAUSIBLE = ("D110", Severity.WARNING, "units-implausible")
     PROPORTION_IMPLAUSIBLE = ("D111", Severity.WARNING, "proportion-implausible")
+    AFTER_EOF = ("D112", Severity.WARNING, "after-eof")
+    BLOCK_RECURSIVE = ("D113", Severity.ERROR, "block-recursive")
+    READER_MESSAGE = ("D114", Severity.WARNING, "reader-message")
     # --- topology ------------------------------------------------------
     NO_DRUM = ("M201", Severity.ERROR, "no-drum")
     MANY_DRUMS = ("M202", Severity.ERROR, "many-drums")
