@@ -262,6 +262,7 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
     body: list[tuple[int, str]] = []
     keeping = True
     stub = False
+    paper = False  # an entity of paper space (group code 67 = 1): not model space
     section = ""
     want_section = False
     container = -1  # -1 model space, else the block's number
@@ -280,6 +281,7 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
             body = []
             keeping = True
             stub = False
+            paper = False
             if name == "SECTION":
                 want_section = True
             elif name == "ENDSEC":
@@ -292,7 +294,12 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
             want_section = False
         if not keeping:
             continue
+        if code == "67" and value.strip() == "1":
+            paper = True
         if code == "8" and name in _KEEP and name not in ("INSERT", "POLYLINE"):
+            if paper and section == "ENTITIES":
+                keeping = False
+                continue
             layer = value.strip()
             if layer.upper() not in roles and not (section == "BLOCKS" and layer == "0"):
                 where = container if section == "BLOCKS" else -1
@@ -390,6 +397,10 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
             if skip_attribs and name == "ATTRIB":
                 continue
             if name not in _KEEP:
+                continue
+            if section == "ENTITIES" and any(c == 67 and v.strip() == "1" for c, v in body):
+                if name == "POLYLINE":
+                    poly = FastEntity("POLYLINE", {})  # paper space: swallow its vertices
                 continue
             layer = next((v for c, v in body if c == 8), "0")
             keep = name == "INSERT" or layer.upper() in roles or (section == "BLOCKS" and layer == "0")

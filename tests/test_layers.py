@@ -389,3 +389,25 @@ def test_fast_reader_keeps_the_same_loose_circles(tmp_path, monkeypatch, wraps):
     assert by_layer == {"PINS": 2, "HOLES": 2, "Holes": 4, "OUTLINE": 4}
     assert dict(full.other_layers)["OUTLINE"] == ("CIRCLE", "LINE")
     assert len(full.circles_of(Role.PIN)) == 4  # the layer-0 circles placed on PIN are pins
+
+
+@pytest.mark.parametrize("version", ["R12", "R2010"])
+def test_paper_space_is_not_read_by_either_reader(tmp_path, version):
+    """A title block in paper space (entities written in the ENTITIES
+    section with group code 67 = 1): neither reader takes it for model space,
+    whether on a role's layer or not, placed by a block reference or drawn
+    as a 2D polyline (the DXF reference, group code 67, from memory)."""
+    doc = conveyor_block().to_doc(dxfversion=version)
+    ps = doc.paperspace()
+    ps.add_circle((10, 10), 5, dxfattribs={"layer": "TITLE"})
+    ps.add_circle((0, 0), 150, dxfattribs={"layer": "DRUM"})
+    ps.add_polyline2d([(0, 0), (100, 0), (100, 50)], dxfattribs={"layer": "LINK"})
+    ps.add_line((0, 0), (100, 0), dxfattribs={"layer": "BORDER"})
+    blk = doc.blocks.new("TB")
+    blk.add_circle((0, 0), 3, dxfattribs={"layer": "0"})
+    ps.add_blockref("TB", (50, 50), dxfattribs={"layer": "TITLE"})
+    path = tmp_path / "paper.dxf"
+    doc.saveas(path)
+    full = dxfcheck.read_drawing(path, reader="full")
+    assert dxfcheck.read_drawing(path, reader="fast") == full
+    assert full.other_layers == () and len(full.circles) == 2 and len(full.paths_of(Role.LINK)) == 2
