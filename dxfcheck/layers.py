@@ -407,10 +407,15 @@ def near_misses(
     return out
 
 
-def _fix(drawing: Drawing, miss: NearMiss) -> str:
-    names = (*layer_map(drawing)[miss.role], miss.layer)
+def _mapping(drawing: Drawing, role: Role, layer: str) -> str:
+    """``"the [layers] table of FILE: pin = ["PIN", "PINS"]"``."""
+    names = (*layer_map(drawing)[role], layer)
     where = drawing.layer_map_source or f"a {CONFIG_NAME} beside the drawing"
-    return f"to read it, put in the [layers] table of {where}: {toml_layers_line(miss.role, names)}"
+    return f"the [layers] table of {where}: {toml_layers_line(role, names)}"
+
+
+def _fix(drawing: Drawing, miss: NearMiss) -> str:
+    return f"to read it, put in {_mapping(drawing, miss.role, miss.layer)}"
 
 
 def _sentence(drawing: Drawing, miss: NearMiss) -> str:
@@ -476,13 +481,13 @@ def _shoe_findings(mech: Mechanism) -> list[Finding]:
             )
             if c is None:
                 continue
-            miss = NearMiss(c.source.layer, Role.PIN, ())
             out.append(
                 Finding(
                     Code.SHOE_MAYBE_PIVOTED,
                     f"shoe {shoe.name} is read as fixed to {shoe.part}: its shoe link meets the rest at {_fmt(j)} "
                     f"with no pin, but a circle on layer {c.source.layer} (Ø{2 * c.radius_mm:.6g} mm) sits there. "
-                    f"If the shoe turns on a pin there, put the circle on a pin layer, or {_fix(d, miss)}; "
+                    f"If the shoe turns on a pin there, put the circle on a pin layer, or map its layer in "
+                    f"{_mapping(d, Role.PIN, c.source.layer)}; "
                     "as drawn it is solved as a fixed shoe",
                     (c.source.ref, shoe.arc.source.ref),
                     (c.source.layer, shoe.arc.source.layer),
