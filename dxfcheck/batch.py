@@ -416,7 +416,7 @@ def _spec_sources(path: Path, options: CheckOptions) -> list[tuple[str, Path, by
     if project is not None:
         out.append(("project file", project, _read_limited(project, MAX_SPEC_SOURCE_BYTES, "the project file")))
     sidecar = path.with_suffix(".toml")
-    if sidecar.is_file():  # as the spec reads it: a sidecar that is no regular file is not one
+    if sidecar != path and os.path.lexists(sidecar):  # one that is not a regular file is refused, naming it
         out.append(("sidecar", sidecar, _read_limited(sidecar, MAX_SPEC_SOURCE_BYTES, "the sidecar spec")))
     return out
 

@@ -453,7 +453,8 @@ def test_workers_die_when_the_batch_is_killed(demos, tmp_path):
 def test_fifos_are_skipped_never_opened(demos, tmp_path):
     """A FIFO named like a drawing, given in a folder or by name, is skipped
     with a message (opening it would block for ever); the batch goes on.  A
-    FIFO as the project file is refused, naming it."""
+    FIFO as a sidecar is that drawing's error; as the project file it is
+    refused; both name it."""
     os.mkfifo(demos / "pipe.dxf")
     rc, doc = _batch_json(str(demos), "--no-cache")
     assert rc == 1 and "pipe.dxf" not in _verdicts(doc) and len(doc["results"]) == len(DEMOS)
@@ -461,6 +462,9 @@ def test_fifos_are_skipped_never_opened(demos, tmp_path):
     assert "FIFO" in doc["skipped"][0]["reason"]
     done = _run("batch", str(demos / "pipe.dxf"), str(demos / "conveyor_block.dxf"), "--no-cache")
     assert done.returncode == 0 and "pipe.dxf: skipped: is a FIFO" in done.stderr
+    os.mkfifo(demos / "conveyor_block.toml")  # a sidecar that is a FIFO: that drawing's error, naming it
+    rc, doc = _batch_json(str(demos / "conveyor_block.dxf"), "--no-cache")
+    assert rc == 2 and "conveyor_block.toml is a FIFO" in doc["results"][0]["message"]
     os.mkfifo(tmp_path / "project.toml")
     done = _run("batch", str(demos), "--config", str(tmp_path / "project.toml"), "--no-cache", timeout=30)
     assert done.returncode == 2 and "project.toml is a FIFO" in done.stderr
