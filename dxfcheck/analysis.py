@@ -9,7 +9,7 @@ from dataclasses import replace
 from pathlib import Path
 from typing import TYPE_CHECKING
 
-from dxfcheck.config import Config, find_config, load_config
+from dxfcheck.config import Config, config_for_drawing
 from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction, ShoeModelChoice
 from dxfcheck.drawing import Drawing, read_drawing
 from dxfcheck.errors import ConfigError, MechanismError
@@ -59,12 +59,12 @@ def _mechanism(
 
 def resolve_config(drawing: str | os.PathLike[str], config: str | os.PathLike[str] | Config | None) -> Config:
     """The project configuration for a drawing: ``config`` if given (a
-    :class:`Config` or a path), else the nearest ``dxfcheck.toml``."""
+    :class:`Config` or a path), else the nearest ``dxfcheck.toml``; with the
+    drawing's own ``NAME.toml`` applied over a path or the found file
+    (:func:`dxfcheck.config.config_for_drawing`)."""
     if isinstance(config, Config):
         return config
-    if config is not None:
-        return load_config(Path(config))
-    return load_config(find_config(Path(drawing)))
+    return config_for_drawing(Path(drawing), None if config is None else Path(config))
 
 
 def analyse(

@@ -15,10 +15,12 @@ from __future__ import annotations
 import argparse
 import itertools
 import json
+import logging
 import sys
 from collections.abc import Sequence
 from typing import Any
 
+from dxfcheck.deadline import TimeLimitExceeded
 from dxfcheck.errors import ConfigError, DxfcheckError, LimitError, VerificationError
 
 __all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_NOT_BRAKING", "EXIT_OK", "EXIT_UNUSABLE", "main"]
@@ -37,10 +39,23 @@ INTERNAL_ERRORS_RAISE = False
 
 #: Time bound of one command [s]; ``--timeout`` raises it.
 DEFAULT_TIMEOUT_S = 300.0
+#: Most samples of ``solve --samples`` (the value of
+#: :data:`dxfcheck.sensitivity.MAX_SAMPLES`, kept here so that the options
+#: are read without importing numpy; a test keeps the two equal).
+MAX_SAMPLES = 1_000_000
+
+
+#: Largest ``--max-size`` accepted [bytes]: far above any drawing, and a
+#: number the size checks can compare with.
+MAX_SIZE_LIMIT_BYTES = 100_000_000_000
+#: Longest ``--timeout`` accepted [s] (one week): a run bounded in time.
+MAX_TIMEOUT_S = 604_800.0
 
 
 def _max_bytes(args: argparse.Namespace) -> int | None:
-    if not args.max_size:
+    import math
+
+    if args.max_size is None:
         return None
     text = args.max_size.strip().upper().replace(" ", "")
     factor = 1e6
@@ -52,37 +67,52 @@ def _max_bytes(args: argparse.Namespace) -> int | None:
         value = float(text) * factor
     except ValueError:
         raise ConfigError(f"--max-size: {args.max_size!r} is not a size such as '500MB'") from None
-    if not value > 0:
-        raise ConfigError("--max-size must be positive")
+    if not (math.isfinite(value) and 1 <= value <= MAX_SIZE_LIMIT_BYTES):
+        raise ConfigError(
+            f"--max-size must be a size above 0 and at most {MAX_SIZE_LIMIT_BYTES / 1e9:g} GB, got {args.max_size!r}"
+        )
     return int(value)
 
 
-class _TimeLimit:
-    """Raise :class:`LimitError` when the command runs longer than ``seconds``
-    (POSIX alarm; elsewhere no limit)."""
+def _seconds(text: str) -> float:
+    """``--timeout``: a finite number of seconds above 0 (argparse type)."""
+    import math
 
-    def __init__(self, seconds: float) -> None:
-        self.seconds = seconds
-        self.armed = False
+    try:
+        value = float(text)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number of seconds") from None
+    if not (math.isfinite(value) and 0 < value <= MAX_TIMEOUT_S):
+        raise argparse.ArgumentTypeError(
+            f"must be a number of seconds above 0 and at most {MAX_TIMEOUT_S:g} (one week), got {text!r}"
+        )
+    return value
 
-    def __enter__(self) -> _TimeLimit:
-        import signal
 
-        if self.seconds > 0 and hasattr(signal, "SIGALRM"):
+def _count(option: str, low: int, high: int) -> Any:
+    """An argparse type: a whole number from ``low`` to ``high``."""
 
-            def _expired(signum: int, frame: object) -> None:
-                raise LimitError(f"took longer than {self.seconds:g} s; raise --timeout if the drawing is that big")
+    def parse(text: str) -> int:
+        try:
+            value = int(text)
+        except ValueError:
+            raise argparse.ArgumentTypeError(f"{text!r} is not a whole number") from None
+        if not low <= value <= high:
+            raise argparse.ArgumentTypeError(f"must be from {low:,} to {high:,}, got {text}")
+        return value
 
-            signal.signal(signal.SIGALRM, _expired)
-            signal.setitimer(signal.ITIMER_REAL, self.seconds)
-            self.armed = True
-        return self
+    parse.__name__ = option  # argparse names the option in its message
+    return parse
 
-    def __exit__(self, *exc: object) -> None:
-        if self.armed:
-            import signal
 
-            signal.setitimer(signal.ITIMER_REAL, 0)
+def _time_limit_error(args: argparse.Namespace, exc: TimeLimitExceeded) -> LimitError:
+    option = "--timeout"
+    where = f" while {exc.stage}" if exc.stage else ""
+    return LimitError(
+        f"took longer than {exc.seconds:g} s ({option}){where}; stopped with no result. "
+        f"Raise {option} if the drawing is that big",
+        path=_subject(args) or None,
+    )
 
 
 class _Parser(argparse.ArgumentParser):
@@ -101,7 +131,7 @@ def _common(s: argparse.ArgumentParser) -> None:
     s.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
     s.add_argument(
         "--timeout",
-        type=float,
+        type=_seconds,
         default=DEFAULT_TIMEOUT_S,
         metavar="S",
         help=f"give up after this many seconds (default {DEFAULT_TIMEOUT_S:g})",
@@ -137,9 +167,14 @@ def _parser() -> argparse.ArgumentParser:
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
     s.add_argument("--direction", choices=("cw", "ccw", "both"), default="both", help="drum direction(s)")
     s.add_argument("--torque", default=None, help="find the effort that gives this braking torque, e.g. '450 N*m'")
-    s.add_argument("--samples", type=int, default=None, help="sample μ and the pin positions this many times")
+    s.add_argument(
+        "--samples",
+        type=_count("--samples", 1, MAX_SAMPLES),
+        default=None,
+        help=f"sample μ and the pin positions this many times (at most {MAX_SAMPLES:,})",
+    )
     s.add_argument("--pin-tolerance", default="0mm", help="with --samples: each pin within ± this, e.g. 0.2mm")
-    s.add_argument("--seed", type=int, default=0, help="with --samples: the random seed")
+    s.add_argument("--seed", type=_count("--seed", 0, 2**63 - 1), default=0, help="with --samples: the random seed")
     s.add_argument("--required-torque", default=None, help="with --samples: report P(torque below this)")
     s.add_argument("--svg", default=None, metavar="OUT.svg", help="with --samples: torque against μ as SVG")
     _shoe_options(s)
@@ -193,7 +228,7 @@ def _parser() -> argparse.ArgumentParser:
     m.add_argument("--force", action="store_true", help="replace existing output files")
     m.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
-    m.add_argument("--timeout", type=float, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
+    m.add_argument("--timeout", type=_seconds, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
 
     b = sub.add_parser("batch", help="check every drawing in folders or globs, in parallel, with a cache")
     b.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
@@ -220,7 +255,9 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--cache-dir", default=None, help="cache folder (default ~/.cache/dxfcheck)")
     b.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
     b.add_argument("--csv", action="store_true", help="print the per-drawing results as CSV")
-    b.add_argument("--timeout", type=float, default=0.0, metavar="S", help="give up after S seconds (default: none)")
+    b.add_argument(
+        "--timeout", type=_seconds, default=None, metavar="S", help="give up after S seconds (default: none)"
+    )
     b.add_argument(
         "--scheduler",
         default=None,
@@ -235,15 +272,31 @@ def _annotate_shortcut(s: argparse.ArgumentParser) -> None:
     s.add_argument("--force", action="store_true", help="replace an existing --annotate output")
 
 
-def _tolerance(args: argparse.Namespace) -> float | None:
+def _quantity(text: str, option: str, dimension: str, default_unit: str | None = None) -> float:
+    """A quantity option's value [internal unit], read and checked for its
+    range (:func:`dxfcheck.spec.check_quantity`); the message names the
+    option."""
+    from dxfcheck.spec import check_quantity
     from dxfcheck.units import UnitError, parse_quantity
 
+    try:
+        value = parse_quantity(text, dimension, default_unit=default_unit).value
+    except UnitError as exc:
+        raise ConfigError(f"{option}: {exc}") from exc
+    return check_quantity(dimension, value, option)
+
+
+def _number(value: float, option: str, key: str) -> float:
+    """A number option checked against the range of its spec key."""
+    from dxfcheck.spec import check_number
+
+    return check_number(key, value, option)
+
+
+def _tolerance(args: argparse.Namespace) -> float | None:
     if not args.tolerance:
         return None
-    try:
-        tol = parse_quantity(args.tolerance, "length", default_unit="mm").value
-    except UnitError as exc:
-        raise ConfigError(f"--tolerance: {exc}") from exc
+    tol = _quantity(args.tolerance, "--tolerance", "length", "mm")
     if tol <= 0:
         raise ConfigError("--tolerance must be positive")
     return tol
@@ -252,23 +305,20 @@ def _tolerance(args: argparse.Namespace) -> float | None:
 def _shoe_kwargs(args: argparse.Namespace) -> dict[str, Any]:
     from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG
 
+    threshold = args.long_threshold
     return {
         "shoe_model": args.shoe_model or "auto",
-        "long_threshold_deg": LONG_SHOE_THRESHOLD_DEG if args.long_threshold is None else args.long_threshold,
+        "long_threshold_deg": LONG_SHOE_THRESHOLD_DEG
+        if threshold is None
+        else _number(threshold, "--long-threshold", "long_shoe_threshold"),
     }
 
 
 def _effort_mu(args: argparse.Namespace) -> tuple[float | None, float]:
     from dxfcheck.analysis import DEFAULT_MU
-    from dxfcheck.units import UnitError, parse_quantity
 
-    try:
-        effort = parse_quantity(args.effort, "force").value if args.effort else None
-    except UnitError as exc:
-        raise ConfigError(f"--effort: {exc}") from exc
-    if args.mu is not None and not (0.0 <= args.mu < 10.0):
-        raise ConfigError(f"--mu must be between 0 and 10, got {args.mu}")
-    return effort, DEFAULT_MU if args.mu is None else args.mu
+    effort = _quantity(args.effort, "--effort", "force") if args.effort else None
+    return effort, DEFAULT_MU if args.mu is None else _number(args.mu, "--mu", "mu")
 
 
 def _mu_arg(text: str | None) -> tuple[float | None, tuple[float, float] | None]:
@@ -277,8 +327,8 @@ def _mu_arg(text: str | None) -> tuple[float | None, tuple[float, float] | None]
     try:
         if ".." in text:
             lo, hi = (float(x) for x in text.split("..", 1))
-            return None, (lo, hi)
-        return float(text), None
+            return None, (_number(lo, "--mu", "mu"), _number(hi, "--mu", "mu"))
+        return _number(float(text), "--mu", "mu"), None
     except ValueError:
         raise ConfigError(f"--mu: {text!r} is not a number or a range such as 0.30..0.45") from None
 
@@ -288,17 +338,10 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
     from dxfcheck.compare import history_svg
     from dxfcheck.files import write_atomic
     from dxfcheck.report import print_sensitivity, sensitivity_to_dict, write_json
-    from dxfcheck.units import UnitError, parse_quantity
 
-    option = "--pin-tolerance"
-    try:
-        tol = parse_quantity(args.pin_tolerance, "length", default_unit="mm").value
-        option = "--required-torque"
-        req = parse_quantity(args.required_torque, "torque").value if args.required_torque else None
-        option = "--effort"
-        effort = parse_quantity(args.effort, "force").value if args.effort else None
-    except UnitError as exc:
-        raise ConfigError(f"{option}: {exc}") from exc
+    tol = _quantity(args.pin_tolerance, "--pin-tolerance", "length", "mm")
+    req = _quantity(args.required_torque, "--required-torque", "torque") if args.required_torque else None
+    effort = _quantity(args.effort, "--effort", "force") if args.effort else None
     if args.svg:
         from dxfcheck.files import check_target
 
@@ -338,8 +381,6 @@ def _solve(args: argparse.Namespace) -> int:
 
     mu_value, mu_range = _mu_arg(args.mu)
     if args.samples is not None:
-        if args.samples < 1:
-            raise ConfigError("--samples must be at least 1")
         if mu_range is None:
             m = 0.35 if mu_value is None else mu_value
             mu_range = (m, m)
@@ -348,14 +389,7 @@ def _solve(args: argparse.Namespace) -> int:
         raise ConfigError("a μ range needs --samples")
     args.mu = mu_value
     effort, mu = _effort_mu(args)
-    torque = None
-    if args.torque:
-        from dxfcheck.units import UnitError, parse_quantity
-
-        try:
-            torque = parse_quantity(args.torque, "torque").value
-        except UnitError as exc:
-            raise ConfigError(f"--torque: {exc}") from exc
+    torque = _quantity(args.torque, "--torque", "torque") if args.torque else None
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
     cfg = resolve_config(args.drawing, args.config)
     sol = analyse(
@@ -638,14 +672,42 @@ def main(argv: Sequence[str] | None = None) -> int:
         return code
 
 
+class _LibraryNote(logging.Handler):
+    """ezdxf's log records outside reading (which makes them findings), as
+    ``dxfcheck: note: ezdxf: ...`` lines on the standard error of the
+    moment."""
+
+    def emit(self, record: logging.LogRecord) -> None:
+        try:
+            text = " ".join(record.getMessage().split())
+        except (TypeError, ValueError):
+            text = str(record.msg)
+        sys.stderr.write(f"dxfcheck: note: ezdxf: {text}\n")
+
+
+def _route_library_logs() -> None:
+    logger = logging.getLogger("ezdxf")
+    if not any(isinstance(h, _LibraryNote) for h in logger.handlers):
+        logger.addHandler(_LibraryNote(logging.WARNING))
+        logger.propagate = False
+
+
 def _main(argv: Sequence[str] | None) -> int:
     from dxfcheck.report import print_error
 
     args = _parser().parse_args(argv)
+    _route_library_logs()
     commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare, "batch": _batch}
+    from dxfcheck import deadline
+
     try:
-        with _TimeLimit(args.timeout):
+        with deadline.limit(args.timeout):
             return commands[args.command](args)
+    except TimeLimitExceeded as exc:  # never caught as a reading problem: it is no Exception
+        limit_error = _time_limit_error(args, exc)
+        print_error(limit_error)
+        _json_error(args, limit_error)
+        return EXIT_UNUSABLE
     except VerificationError as exc:
         if INTERNAL_ERRORS_RAISE:
             raise

@@ -17,14 +17,20 @@ Both fallbacks are reported as finding ``D101``.
 
 from __future__ import annotations
 
+import contextlib
+import functools
 import itertools
+import logging
 import math
 import os
+import re
+import stat
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from dxfcheck import deadline
 from dxfcheck.config import Config, Role
 from dxfcheck.errors import DrawingReadError
 from dxfcheck.findings import Code, Finding
@@ -49,6 +55,16 @@ __all__ = [
 SIMILARITY_RTOL = 1e-9
 #: Block references nested deeper than this are reported and not followed.
 MAX_BLOCK_DEPTH = 32
+#: Most entities visited inside block references (each placement of a
+#: block's entity counts once): blocks that insert each other many times
+#: over multiply without limit (ten references per block, twelve levels
+#: deep, are 10^12 placements), so the walk stops here and names the blocks.
+MAX_BLOCK_VISITS = 2_000_000
+#: Duplicate-entity findings kept one by one; more are counted in one.
+MAX_DUPLICATE_FINDINGS = 50
+#: Most skeleton entities drawn over one another: more means blocks place
+#: the skeleton on itself many times over, and the drawing is refused.
+MAX_DUPLICATES = 20_000
 #: |z| of an extrusion vector below which it counts as lying along the z axis.
 PLANAR_EXTRUSION_TOL = 1e-9
 #: Largest coordinate magnitude accepted [drawing units]; beyond it a value
@@ -227,6 +243,10 @@ class Drawing:
     loose_circles : tuple of LooseCircle
         Circles on those layers (at most :data:`MAX_LOOSE_CIRCLES_PER_LAYER`
         per layer and container).
+    config_path : str or None
+        The project file read (None: none was found or named).
+    sidecar_path : str or None
+        The drawing's own file ``NAME.toml`` read beside it, if any.
     """
 
     path: str
@@ -244,6 +264,8 @@ class Drawing:
     layer_map_source: str | None = None
     other_layers: tuple[tuple[str, tuple[str, ...]], ...] = ()
     loose_circles: tuple[LooseCircle, ...] = ()
+    config_path: str | None = None
+    sidecar_path: str | None = None
 
     def circles_of(self, role: Role) -> tuple[CircleGeom, ...]:
         return tuple(c for c in self.circles if c.role is role)
@@ -297,6 +319,37 @@ class _Collector:
     other: dict[str, tuple[str, set[str]]] = field(default_factory=dict)
     loose: list[LooseCircle] = field(default_factory=list)
     _loose_seen: set[tuple[float, ...]] = field(default_factory=set)
+    #: entities visited inside block references, and placements per block
+    visits: int = 0
+    placed: dict[str, int] = field(default_factory=dict)
+    #: names of the blocks being walked, outermost first (recursion check)
+    chain: list[str] = field(default_factory=list)
+    duplicates: int = 0
+    #: skeleton items kept so far
+    kept: int = 0
+
+    def keep(self) -> None:
+        """Count one skeleton item; refuse the drawing past
+        :data:`MAX_SKELETON_ENTITIES` as soon as it is reached."""
+        self.kept += 1
+        if self.kept > MAX_SKELETON_ENTITIES:
+            raise DrawingReadError(
+                f"has more than {MAX_SKELETON_ENTITIES} entities on the skeleton layers: the layer map probably "
+                "names a layer of outlines or hatching, or blocks place the skeleton many times over; check the "
+                "[layers] table of dxfcheck.toml",
+                path=self.path,
+            )
+
+    def visit(self, in_block: bool) -> None:
+        """Count one entity visited (inside a block: against
+        :data:`MAX_BLOCK_VISITS`); stop at the run's deadline."""
+        if not in_block:
+            return
+        self.visits += 1
+        if self.visits > MAX_BLOCK_VISITS:
+            raise DrawingReadError(_fan_out_message(self.placed), path=self.path)
+        if self.visits % 1024 == 0:
+            deadline.check("reading the drawing's blocks")
 
     def note_other(self, layer: str, dxftype: str) -> None:
         """Remember that a layer with no role holds a ``dxftype``."""
@@ -307,10 +360,132 @@ class _Collector:
 
     def duplicate(self, key: tuple[Any, ...], src: Source, at: Point) -> bool:
         if key in self._seen:
-            self.finding(Code.DUPLICATE_ENTITY, "entity drawn twice; the copy is ignored", src, at)
+            self.duplicates += 1
+            if self.duplicates > MAX_DUPLICATES:
+                raise DrawingReadError(
+                    f"has more than {MAX_DUPLICATES:,} skeleton entities drawn over one another (blocks that place "
+                    f"the skeleton many times on itself; placed most often: {_most_placed(self.placed)}); "
+                    "purge the copies in the CAD program",
+                    path=self.path,
+                )
+            if self.duplicates <= MAX_DUPLICATE_FINDINGS:
+                self.finding(Code.DUPLICATE_ENTITY, "entity drawn twice; the copy is ignored", src, at)
             return True
         self._seen.add(key)
         return False
+
+    def close(self) -> None:
+        """Findings that sum up what was counted."""
+        more = self.duplicates - MAX_DUPLICATE_FINDINGS
+        if more > 0:
+            self.findings.append(
+                Finding(Code.DUPLICATE_ENTITY, f"{more} more entities drawn twice (not listed one by one); ignored")
+            )
+
+
+def _cells(e: Any) -> int:
+    """Placements of one INSERT (rows × columns of a MINSERT)."""
+    try:
+        return max(1, int(e.dxf.get("row_count", 1))) * max(1, int(e.dxf.get("column_count", 1)))
+    except _damaged():
+        return 1
+
+
+@dataclass
+class _Expansion:
+    """How many entities the block references of a drawing place, counted
+    over the block graph before any is walked (as :func:`_walk_insert`
+    would: depth-limited, a block inside itself not followed)."""
+
+    doc: Any
+    contents: dict[str, tuple[int, list[tuple[str, int]]]] = field(default_factory=dict)
+    memo: dict[tuple[str, int], int] = field(default_factory=dict)
+    largest: dict[str, tuple[int, int]] = field(default_factory=dict)  # name -> (expansion, references inside)
+
+    def _contents(self, name: str) -> tuple[int, list[tuple[str, int]]] | None:
+        key = name.upper()
+        if key not in self.contents:
+            block = self.doc.blocks.get(name)
+            if block is None:
+                return None
+            n, inserts = 0, []
+            for e in block:
+                n += 1
+                if e.dxftype() == "INSERT":
+                    inserts.append((str(e.dxf.get("name", "")), _cells(e)))
+            self.contents[key] = (n, inserts)
+        return self.contents[key]
+
+    def expand(self, name: str, depth: int, stack: tuple[str, ...] = ()) -> int:
+        """Entities visited for one placement of ``name`` from a container
+        at ``depth`` (an exact integer: memoised, the depth is bounded)."""
+        key = name.upper()
+        if depth >= MAX_BLOCK_DEPTH or key in stack:
+            return 0
+        if (key, depth) in self.memo:
+            return self.memo[(key, depth)]
+        found = self._contents(name)
+        if found is None:
+            return 0
+        n, inserts = found
+        total = 1 + n
+        for child, cells in inserts:
+            total += cells * self.expand(child, depth + 1, (*stack, key))
+        self.memo[(key, depth)] = total
+        if total > self.largest.get(name, (0, 0))[0]:
+            self.largest[name] = (total, len(inserts))
+        return total
+
+
+def _check_expansion(doc: Any, path: str) -> None:
+    """Refuse a drawing whose block references would place more than
+    :data:`MAX_BLOCK_VISITS` entities, before walking them, naming the
+    blocks that fan out."""
+    ex = _Expansion(doc)
+    total = 0
+    for e in doc.modelspace():
+        try:
+            if e.dxftype() == "INSERT":
+                total += _cells(e) * ex.expand(str(e.dxf.get("name", "")), 0)
+        except _damaged():  # reported when the walk meets it
+            continue
+        if total > MAX_BLOCK_VISITS:
+            break
+    if total > MAX_BLOCK_VISITS:
+        top = sorted(ex.largest.items(), key=lambda kv: (-kv[1][0], kv[0]))[:4]
+        named = ", ".join(f"{name!r} places {_count(size)} ({refs} references inside)" for name, (size, refs) in top)
+        raise DrawingReadError(
+            f"its block references would place more than {MAX_BLOCK_VISITS:,} entities: blocks insert each other "
+            f"many times over ({named}); the drawing cannot be read in bounded time. Explode or purge those blocks "
+            "in the CAD program",
+            path=path,
+        )
+
+
+def _count(n: int) -> str:
+    return f"{n:,}" if n < 10**7 else f"{float(n):.3g}" if n < 10**300 else "10^300+"
+
+
+def _most_placed(placed: dict[str, int]) -> str:
+    top = sorted(placed.items(), key=lambda kv: (-kv[1], kv[0]))[:5]
+    return ", ".join(f"{name!r} {count:,} times" for name, count in top) or "none"
+
+
+def _fan_out_message(placed: dict[str, int]) -> str:
+    return (
+        f"its block references place more than {MAX_BLOCK_VISITS:,} entities (blocks that insert each other many "
+        f"times over; placed most often: {_most_placed(placed)}): the drawing cannot be read in bounded time. "
+        "Explode or purge those blocks in the CAD program"
+    )
+
+
+@functools.cache
+def _damaged() -> tuple[type[BaseException], ...]:
+    """What damaged entity data raises in ezdxf or in our own reading: the
+    errors a finding stands for (never a time limit, memory or recursion)."""
+    from ezdxf.lldxf.const import DXFError
+
+    return (DXFError, ValueError, TypeError, AttributeError, LookupError, ArithmeticError, UnicodeError)
 
 
 def _finite(*values: float) -> bool:
@@ -332,11 +507,12 @@ def _walk(
 ) -> None:
     loose_count: dict[str, int] = {}  # circles met per own layer with no role, in this container
     for e in entities:
+        col.visit(parent_layer is not None)
         try:
             dxftype = str(e.dxftype())
             layer = str(e.dxf.get("layer", "0"))
             handle = str(e.dxf.get("handle", "?"))
-        except Exception:  # an entity kind ezdxf keeps only as raw tags: not skeleton
+        except _damaged():  # an entity kind ezdxf keeps only as raw tags: not skeleton
             continue
         own = layer
         if parent_layer is not None and layer == "0":
@@ -345,9 +521,7 @@ def _walk(
         if dxftype == "INSERT":
             try:
                 _walk_insert(col, doc, e, m, layer, via, depth)
-            except RecursionError:
-                raise
-            except Exception as exc:  # a damaged block reference: report it, go on
+            except _damaged() as exc:  # a damaged block reference: report it, go on
                 col.finding(Code.DEGENERATE_ENTITY, f"INSERT could not be read ({type(exc).__name__}: {exc})", src)
             continue
         role = col.roles.get(layer.upper())
@@ -368,7 +542,7 @@ def _walk(
             continue
         try:
             _take(col, e, dxftype, role, m, src)
-        except Exception as exc:  # damaged entity data of any kind: report it, go on
+        except _damaged() as exc:  # damaged entity data: report it, go on
             col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({type(exc).__name__}: {exc})", src)
 
 
@@ -398,7 +572,7 @@ def _take_loose(col: _Collector, e: Any, m: Affine, src: Source) -> None:
         if scale is None:
             return
         center = mm.apply((float(c[0]), float(c[1])))
-    except Exception:  # damaged data on a layer that is not the skeleton's: not our concern
+    except _damaged():  # damaged data on a layer that is not the skeleton's: not our concern
         return
     radius = r * scale
     key = _key(*center, radius)
@@ -415,10 +589,20 @@ def _walk_insert(col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: 
     if block is None:
         col.finding(Code.UNSUPPORTED_ENTITY, f"INSERT names a missing block {name!r}", src)
         return
+    bname = str(block.name)
+    if bname.upper() in (b.upper() for b in col.chain):
+        loop = " → ".join([*col.chain[next(i for i, b in enumerate(col.chain) if b.upper() == bname.upper()) :], bname])
+        col.finding(
+            Code.BLOCK_RECURSIVE,
+            f"block {bname!r} inserts itself ({loop}): no CAD program can draw it; the inner reference is not "
+            "followed. Remove the reference from the block",
+            src,
+        )
+        return
     if depth >= MAX_BLOCK_DEPTH:
         col.finding(
             Code.UNSUPPORTED_ENTITY,
-            f"block references nested deeper than {MAX_BLOCK_DEPTH} (a block that inserts itself?)",
+            f"block references nested deeper than {MAX_BLOCK_DEPTH}; the deeper ones are not followed",
             src,
         )
         return
@@ -444,10 +628,16 @@ def _walk_insert(col: _Collector, doc: Any, e: Any, m: Affine, layer: str, via: 
     inner = Affine.scaling(sx, sy) @ Affine.translation(-float(base[0]), -float(base[1]))
     head = m @ ocs @ Affine.translation(float(ins[0]), float(ins[1])) @ Affine.rotation(rot)
     handle = src.handle
-    for r in range(rows):
-        for c in range(cols):
-            cell = head @ Affine.translation(c * col_sp, r * row_sp) @ inner
-            _walk(col, doc, block, cell, layer, (*via, handle), depth + 1)
+    col.chain.append(bname)
+    try:
+        for r in range(rows):
+            for c in range(cols):
+                col.placed[bname] = col.placed.get(bname, 0) + 1
+                col.visit(True)  # a placement counts, even of an empty block
+                cell = head @ Affine.translation(c * col_sp, r * row_sp) @ inner
+                _walk(col, doc, block, cell, layer, (*via, handle), depth + 1)
+    finally:
+        col.chain.pop()
 
 
 def _take(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Source) -> None:
@@ -479,6 +669,7 @@ def _take(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Sou
         if dxftype == "CIRCLE":
             if col.duplicate((role, *_key(*center, radius)), src, center):
                 return
+            col.keep()
             col.circles.append(CircleGeom(role, center, radius, src))
             return
         a0 = math.radians(float(e.dxf.start_angle))
@@ -491,6 +682,7 @@ def _take(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src: Sou
             s_deg, e_deg = e_deg, s_deg
         if col.duplicate((role, *_key(*center, radius, s_deg, e_deg)), src, center):
             return
+        col.keep()
         col.arcs.append(ArcGeom(role, center, radius, s_deg, e_deg, src))
         return
     if dxftype in ("TEXT", "MTEXT"):
@@ -517,6 +709,7 @@ def _take_text(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src
     pos = where.apply((float(p[0]), float(p[1])))
     text = " ".join(str(text).split())
     if text:
+        col.keep()
         col.texts.append(TextGeom(role, text, pos, src))
 
 
@@ -575,6 +768,7 @@ def _take_path(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src
         )
     if col.duplicate((role, *_key(*(c for p in clean for c in p))), src, clean[0]):
         return
+    col.keep()
     col.paths.append(PathGeom(role, tuple(clean), src))
 
 
@@ -598,6 +792,7 @@ def _take_band_polyline(col: _Collector, e: Any, m: Affine, src: Source) -> None
         if p0 == p1:
             continue
         if b == 0.0:
+            col.keep()
             col.paths.append(PathGeom(Role.BAND, (p0, p1), src))
             continue
         center, a0, a1, radius = bulge_to_arc((x0, y0), (x1, y1), b)
@@ -608,6 +803,7 @@ def _take_band_polyline(col: _Collector, e: Any, m: Affine, src: Source) -> None
         e_deg = math.degrees(math.atan2(e_pt[1] - c[1], e_pt[0] - c[0])) % 360
         if mm.mirrors:
             s_deg, e_deg = e_deg, s_deg
+        col.keep()
         col.arcs.append(ArcGeom(Role.BAND, c, radius * scale, s_deg, e_deg, src))
 
 
@@ -655,8 +851,9 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
     return "mm", 1.0, "default", findings
 
 
-def _sniff(path: Path, head: bytes, tail: bytes) -> None:
-    """Refuse what is plainly not a complete DXF file, with what it looks like."""
+def _sniff(path: Path, head: bytes, tail: bytes) -> bytes:
+    """Refuse what is plainly not a complete DXF file, with what it looks
+    like; returns what follows the end-of-file marker."""
     spath = str(path)
     if not head.strip():
         raise DrawingReadError("is empty; it is not a DXF drawing", path=spath)
@@ -685,13 +882,47 @@ def _sniff(path: Path, head: bytes, tail: bytes) -> None:
             f"bytes of {kind} (not shown)",
             path=spath,
         )
-    ended = b"EOF\x00" in tail if binary else tail.rstrip().endswith(b"EOF")
-    if not ended:
+    after = (b"" if b"EOF\x00" in tail else None) if binary else _after_eof(tail)
+    if after is None:
         raise DrawingReadError(
             "ends before the DXF end-of-file marker: it is cut off or still being written; "
             "wait for the save to finish or export it again",
             path=spath,
         )
+    return after
+
+
+#: The end-of-file marker of an ASCII DXF file: group code 0 and ``EOF`` on
+#: lines of their own.
+_EOF_MARKER = re.compile(rb"(?:^|\n)[ \t]*0[ \t]*\r?\n[ \t]*EOF[ \t]*(?:\r?\n|$)")
+#: Bytes at the end of a file searched for the end-of-file marker: what
+#: follows it must fit (a DOS ^Z, NUL padding to a sector, a line of text).
+TAIL_BYTES = 4096
+#: Bytes after the end-of-file marker that are padding, not text.
+_PADDING = b"\x00\x1a \t\r\n"
+
+
+def _after_eof(tail: bytes) -> bytes | None:
+    """What follows the last end-of-file marker in the ``tail`` of an ASCII
+    file (None without a marker)."""
+    ends = [m.end() for m in _EOF_MARKER.finditer(tail)]
+    return tail[ends[-1] :] if ends else None
+
+
+def _after_eof_finding(after: bytes) -> Finding | None:
+    """D112 for what follows a complete end-of-file marker (None for white
+    space only)."""
+    if not after.strip(b" \t\r\n"):
+        return None
+    if not after.strip(_PADDING):
+        only_ctrl_z = after.strip(b" \t\r\n") == b"\x1a"
+        what = "a DOS end-of-file byte (^Z)" if only_ctrl_z else f"{len(after)} bytes of padding (NUL, ^Z)"
+        return Finding(Code.AFTER_EOF, f"{what} after the EOF marker, as old programs wrote; ignored")
+    return Finding(
+        Code.AFTER_EOF,
+        f"{len(after)} bytes after the EOF marker (not shown); ignored: the drawing ends at the marker. "
+        "If the file was joined from pieces, export it again",
+    )
 
 
 def precheck(path: Path, max_bytes: int | None = None) -> int:
@@ -702,28 +933,48 @@ def precheck(path: Path, max_bytes: int | None = None) -> int:
     ------
     DrawingReadError
     """
+    return _precheck(path, max_bytes)[0]
+
+
+def _precheck(path: Path, max_bytes: int | None) -> tuple[int, list[Finding]]:
+    """:func:`precheck`, with the finding on what follows the end-of-file
+    marker.  A FIFO, a device or a socket is refused before it is opened
+    (a read of it may never end)."""
     spath = str(path)
-    if not path.exists():
-        raise DrawingReadError("no such file; check the path", path=spath)
-    if path.is_dir():
+    try:
+        st = os.stat(path)
+    except FileNotFoundError:
+        raise DrawingReadError("no such file; check the path", path=spath) from None
+    except OSError as exc:
+        raise DrawingReadError(f"cannot be read ({exc.strerror})", path=spath) from exc
+    if stat.S_ISDIR(st.st_mode):
         raise DrawingReadError("is a folder, not a drawing; name a .dxf file", path=spath)
+    if not stat.S_ISREG(st.st_mode):
+        raise DrawingReadError(
+            "is not a regular file (a FIFO, a device or a socket), so it may never end; save the drawing to a file",
+            path=spath,
+        )
     if not os.access(path, os.R_OK):
         raise DrawingReadError("cannot be read (permission denied); check the file's permissions", path=spath)
     limit = MAX_INPUT_BYTES if max_bytes is None else max_bytes
-    size = path.stat().st_size
+    size = st.st_size
     if size > limit:
         raise DrawingReadError(
             f"is {size / 1e6:.1f} MB, over the {limit / 1e6:.0f} MB limit; raise it with --max-size", path=spath
         )
     try:
-        with open(path, "rb") as fh:
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))  # never blocks, should it become a FIFO
+        with os.fdopen(fd, "rb") as fh:
+            if not stat.S_ISREG(os.fstat(fh.fileno()).st_mode):
+                raise DrawingReadError("is not a regular file (a FIFO, a device or a socket)", path=spath)
             head = fh.read(64)
-            fh.seek(max(0, size - 64))
-            tail = fh.read(64)
+            fh.seek(max(0, size - TAIL_BYTES))
+            tail = fh.read(TAIL_BYTES)
     except OSError as exc:
         raise DrawingReadError(f"cannot be read ({exc.strerror})", path=spath) from exc
-    _sniff(path, head, tail)
-    return size
+    after = _sniff(path, head, tail)
+    finding = _after_eof_finding(after)
+    return size, [] if finding is None else [finding]
 
 
 def load_document(
@@ -756,10 +1007,11 @@ def load_document(
     findings: list[Finding] = []
     try:
         doc = readfile(spath)
-    except Exception:  # any failure of the strict parser: try the recovering one
+    except _unreadable():  # a failure of the strict parser: try the recovering one
+        deadline.check("reading the drawing")
         try:
             doc, auditor = recover.readfile(spath)
-        except Exception as exc:  # beyond both of ezdxf's readers
+        except _unreadable() as exc:  # beyond both of ezdxf's readers
             raise DrawingReadError(
                 f"is not a readable DXF drawing ({type(exc).__name__}: {exc}); open and re-save it in the CAD program",
                 path=spath,
@@ -780,20 +1032,86 @@ def load_document(
     return doc, findings
 
 
+def _unreadable() -> tuple[type[BaseException], ...]:
+    """What ezdxf's readers raise on a file they cannot read: damaged data,
+    a wrong encoding, a cut-off binary record, an I/O error."""
+    import struct
+
+    return (*_damaged(), EOFError, OSError, struct.error)
+
+
+#: ezdxf's log messages kept as findings while a drawing is read.
+MAX_READER_MESSAGES = 20
+_SAYS = "ezdxf says: "
+
+
+class _ReaderLog(logging.Handler):
+    """Turns ezdxf's log records of level WARNING and above into D114
+    findings (the first :data:`MAX_READER_MESSAGES`, then a count)."""
+
+    def __init__(self) -> None:
+        super().__init__(logging.WARNING)
+        self.findings: list[Finding] = []
+        self.more = 0
+
+    def emit(self, record: logging.LogRecord) -> None:
+        if len(self.findings) >= MAX_READER_MESSAGES:
+            self.more += 1
+            return
+        try:
+            text = " ".join(record.getMessage().split())
+        except (TypeError, ValueError):  # a record whose arguments do not fit its format
+            text = str(record.msg)
+        self.findings.append(Finding(Code.READER_MESSAGE, f"{_SAYS}{text[:300]}"))
+
+    def collected(self) -> list[Finding]:
+        more = [Finding(Code.READER_MESSAGE, f"{self.more} more messages from ezdxf")] if self.more else []
+        return [*self.findings, *more]
+
+
+@contextlib.contextmanager
+def _ezdxf_messages() -> Iterator[_ReaderLog]:
+    """Route ezdxf's log records into findings while the block runs (and
+    nowhere else: they do not reach standard error in their own format)."""
+    logger = logging.getLogger("ezdxf")
+    saved = (logger.handlers[:], logger.propagate, logger.level)
+    handler = _ReaderLog()
+    logger.handlers = [handler]
+    logger.propagate = False
+    if logger.level == logging.NOTSET or logger.level > logging.WARNING:
+        logger.setLevel(logging.WARNING)
+    try:
+        yield handler
+    finally:
+        logger.handlers, logger.propagate = saved[0], saved[1]
+        logger.setLevel(saved[2])
+
+
 def _open(path: Path, config: Config, max_bytes: int | None, reader: str) -> tuple[Any, list[Finding]]:
     """The full reader, or the fast one for big ASCII files (``reader``:
     ``auto``, ``fast`` or ``full``); the fast one falls back to the full one
-    on anything it does not follow."""
+    on what it does not follow.  ezdxf's log messages become findings."""
     if reader not in ("auto", "fast", "full"):
         raise ValueError(f"reader must be auto, fast or full, got {reader!r}")
-    size = precheck(path, max_bytes)
-    if reader == "fast" or (reader == "auto" and size >= FAST_READER_MIN_BYTES):
-        from dxfcheck.fastread import load_fast
+    size, findings = _precheck(path, max_bytes)
+    with _ezdxf_messages() as log:
+        doc, more = _open_checked(path, config, max_bytes, reader, size)
+    repaired = " ".join(f.message for f in more)  # what the recover mode reported is not said twice
+    said = [f for f in log.collected() if f.message.removeprefix(_SAYS) not in repaired]
+    return doc, [*findings, *more, *said]
 
+
+def _open_checked(
+    path: Path, config: Config, max_bytes: int | None, reader: str, size: int
+) -> tuple[Any, list[Finding]]:
+    if reader == "fast" or (reader == "auto" and size >= FAST_READER_MIN_BYTES):
+        from dxfcheck.fastread import FastReadUnsupported, load_fast
+
+        fallback: tuple[type[BaseException], ...] = (FastReadUnsupported, *_unreadable())
         try:
             return load_fast(path, config.role_of_layer()), []
-        except Exception:  # anything the fast reader does not follow: the full reader decides
-            pass
+        except fallback:  # what the fast reader does not follow: the full one decides
+            deadline.check("reading the drawing")
     return load_document(path, max_bytes=max_bytes, checked_size=size)
 
 
@@ -836,7 +1154,9 @@ def read_drawing(
     doc, findings = _open(p, config, max_bytes, reader)
     unit_name, factor, unit_src, unit_findings = _units(doc, units, str(p))
     col = _Collector(path=str(p), roles=config.role_of_layer())
+    _check_expansion(doc, str(p))
     _walk(col, doc, doc.modelspace(), Affine.scaling(factor, factor), None, (), 0)
+    col.close()
     n = len(col.circles) + len(col.arcs) + len(col.paths) + len(col.texts)
     if n > MAX_SKELETON_ENTITIES:
         raise DrawingReadError(
@@ -857,9 +1177,11 @@ def read_drawing(
         findings=tuple(findings + unit_findings + col.findings),
         custom_properties=_custom_properties(doc),
         layer_map=tuple((role, tuple(config.layers.get(role, ()))) for role in Role),
-        layer_map_source=config.path,
+        layer_map_source=config.layers_source,
         other_layers=tuple((name, tuple(sorted(kinds))) for _, (name, kinds) in sorted(col.other.items())),
         loose_circles=tuple(col.loose),
+        config_path=config.path,
+        sidecar_path=config.sidecar,
     )
 
 

@@ -282,6 +282,8 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
             keeping = True
             stub = False
             paper = False
+            if name == "EOF":  # what follows the marker is not read (see drawing.TAIL_BYTES)
+                return
             if name == "SECTION":
                 want_section = True
             elif name == "ENDSEC":

@@ -179,6 +179,8 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "schema": SOLVE_SCHEMA,
         "tool": {"name": "dxfcheck", "version": __version__},
         "drawing": d.path,
+        "config": d.config_path,
+        "sidecar": d.sidecar_path,
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
         "layers": layers_json(d),
         "tolerance_mm": mech.tolerance_mm,

@@ -25,21 +25,27 @@ import threading
 import time
 from collections.abc import Sequence
 from concurrent.futures import ThreadPoolExecutor
+from concurrent.futures import TimeoutError as FuturesTimeout
 from dataclasses import dataclass, field
 
 import numpy as np
 from numpy.typing import NDArray
 
+from dxfcheck import deadline
 from dxfcheck.contact import ContactOptions, Direction
 from dxfcheck.contact.short_shoe import ShortPivotedShoe
 from dxfcheck.errors import ConfigError
 from dxfcheck.mechanism import FRAME, Mechanism
 from dxfcheck.statics import DEFAULT_OPTIONS, _assemble, contact_models
 
-__all__ = ["CHUNK", "DirectionStats", "SensitivityResult", "sample_design", "torque_curve"]
+__all__ = ["CHUNK", "MAX_SAMPLES", "DirectionStats", "SensitivityResult", "sample_design", "torque_curve"]
 
 #: Samples solved at once (memory: CHUNK × n² × 8 bytes).
 CHUNK = 4_000
+#: Most samples of one run: the pin offsets alone take samples × pins × 16
+#: bytes (a 12-pin linkage: 190 MB at this bound), and the percentiles of a
+#: million samples are steady to far more digits than the inputs.
+MAX_SAMPLES = 1_000_000
 #: Percentiles reported.
 PERCENTILES = (1.0, 5.0, 50.0, 95.0, 99.0)
 
@@ -228,6 +234,40 @@ def _pivoted_contact(
     return nx + mu * tx, ny + mu * ty, cx + r * np.cos(alpha), cy + r * np.sin(alpha)
 
 
+def _chunk(
+    parts: _Parts, mu: NDArray[np.float64], dpin: NDArray[np.float64]
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    deadline.check("sampling")  # a chunk that starts after the deadline is not solved
+    return parts.solve(mu, dpin)
+
+
+def _solve_chunks(
+    parts: _Parts, mu_all: NDArray[np.float64], dpin_all: NDArray[np.float64], chunk: int
+) -> list[tuple[NDArray[np.float64], NDArray[np.float64]]]:
+    """Every chunk of samples solved on a thread pool (numpy's batched
+    solve releases the GIL: chunks run on every core), within the run's
+    deadline: each result is waited for no longer than the time left, and
+    on the deadline the chunks not started are cancelled and the pool is
+    left without waiting for the one running."""
+    pool = ThreadPoolExecutor(max_workers=os.cpu_count() or 1)
+    done = False
+    try:
+        futures = [
+            pool.submit(_chunk, parts, mu_all[i : i + chunk], dpin_all[i : i + chunk])
+            for i in range(0, len(mu_all), chunk)
+        ]
+        results = []
+        for f in futures:
+            try:
+                results.append(f.result(timeout=deadline.remaining()))
+            except FuturesTimeout:
+                raise deadline.TimeLimitExceeded(deadline.limit_seconds() or 0.0, "sampling") from None
+        done = True
+        return results
+    finally:
+        pool.shutdown(wait=done, cancel_futures=True)
+
+
 def sample_design(
     mech: Mechanism,
     mu_range: tuple[float, float],
@@ -248,8 +288,11 @@ def sample_design(
         On a bad range or sample count, or a linkage that cannot be sampled.
     """
     lo, hi = mu_range
-    if not (0 <= lo <= hi) or samples < 1 or pin_tolerance_mm < 0:
-        raise ConfigError("sampling needs 0 ≤ mu_min ≤ mu_max, at least one sample and a tolerance ≥ 0")
+    if not (0 <= lo <= hi < math.inf) or not 1 <= samples <= MAX_SAMPLES or not 0 <= pin_tolerance_mm < math.inf:
+        raise ConfigError(
+            f"sampling needs 0 ≤ mu_min ≤ mu_max, 1 to {MAX_SAMPLES:,} samples and a tolerance ≥ 0 "
+            f"(got μ {lo:g}..{hi:g}, {samples} samples, tolerance {pin_tolerance_mm:g} mm)"
+        )
     rng = np.random.default_rng(seed)
     t0 = time.perf_counter()
     stats = []
@@ -260,11 +303,7 @@ def sample_design(
         parts.prepare()
         mu_all = rng.uniform(lo, hi, samples)
         dpin_all = rng.uniform(-pin_tolerance_mm, pin_tolerance_mm, (samples, len(mech.pins), 2))
-        starts = range(0, samples, chunk)
-        # numpy's batched solve releases the GIL: chunks run on every core
-        with ThreadPoolExecutor(max_workers=os.cpu_count() or 1) as pool:
-            futures = [pool.submit(parts.solve, mu_all[i : i + chunk], dpin_all[i : i + chunk]) for i in starts]
-            results = [f.result() for f in futures]
+        results = _solve_chunks(parts, mu_all, dpin_all, chunk)
         torque = np.concatenate([t for t, _ in results])
         force = np.concatenate([f for _, f in results])
         worst = int(np.argmax(np.percentile(force, 95, axis=0)))

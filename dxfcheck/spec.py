@@ -7,7 +7,10 @@ Values come from five places, lowest to highest precedence:
    ``[spec."NAME.dxf"]`` table for the one drawing;
 3. the drawing's own header custom properties (R2004 and later) whose names
    start with ``dxfcheck.``, e.g. ``dxfcheck.required_torque = 450 N*m``;
-4. a sidecar file ``NAME.toml`` beside the drawing, with a ``[spec]`` table;
+4. the drawing's own file ``NAME.toml`` beside it (the sidecar), its
+   ``[spec]`` table (its ``[layers]`` and ``[markup]`` are read by
+   :func:`dxfcheck.config.config_for_drawing`; named with ``--config`` it is
+   the project file, read once at level 2);
 5. the command line (``--set KEY=VALUE`` and the named options).
 
 Every value with a dimension carries its unit in the text (``"450 N*m"``,
@@ -22,29 +25,55 @@ refused once the mechanism is known (:func:`dxfcheck.rules.check_subjects`).
 from __future__ import annotations
 
 import enum
+import math
 import os
-import tomllib
 from collections.abc import Iterable, Mapping
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
+from dxfcheck.config import read_toml, sidecar_of
 from dxfcheck.errors import ConfigError
-from dxfcheck.units import UnitError, parse_quantity
+from dxfcheck.units import DIMENSIONS, UnitError, parse_quantity
 
 __all__ = [
     "DEFAULTS",
     "KEYS",
+    "MU_MAX",
+    "QUANTITY_MAX",
     "Key",
     "Kind",
     "Spec",
     "SpecValue",
+    "check_number",
+    "check_quantity",
     "load_spec",
     "parse_assignment",
 ]
 
 #: Prefix of the drawing header's custom properties read as spec values.
 PROPERTY_PREFIX = "dxfcheck."
+
+#: Highest friction coefficient accepted [-].  Lining-drum pairs run from
+#: about 0.1 to 0.6 (woven, moulded, sintered linings; dry); 1.5 leaves room
+#: for a test value while refusing a slip such as 35 for 0.35 (common
+#: practice, no single source).
+MU_MAX = 1.5
+
+#: Largest value of each dimension accepted anywhere a value enters (the
+#: spec, the options) [internal unit]: far beyond any industrial drum brake
+#: (the plausibility stage judges the realistic ranges), and small enough
+#: that the statics stays finite in double precision (common practice).
+QUANTITY_MAX: dict[str, float] = {
+    "length": 1e6,  # mm: 1 km
+    "force": 1e9,  # N
+    "torque": 1e9,  # N*m
+    "pressure": 1e6,  # MPa
+    "speed": 1e6,  # rpm
+    "power": 1e10,  # W
+    "area": 1e12,  # mm2
+    "pv": 1e6,  # MPa*m/s
+}
 
 
 class Kind(enum.Enum):
@@ -66,6 +95,9 @@ class Key:
     choices: tuple[str, ...] = ()
     per: str | None = None  # "pins" or "members" when it may be overridden per subject
     minimum: float | None = None
+    maximum: float | None = None
+    #: the value must be above ``minimum`` (not equal to it)
+    above: bool = False
 
 
 #: Every key the spec knows.
@@ -74,18 +106,20 @@ KEYS: dict[str, Key] = {
     "required_torque": Key(Kind.QUANTITY, "braking torque the brake must hold", "torque"),
     "motor_power": Key(Kind.QUANTITY, "motor rated power", "power"),
     "motor_speed": Key(Kind.QUANTITY, "motor rated speed (at the brake drum)", "speed"),
-    "torque_factor": Key(Kind.NUMBER, "brake torque / motor rated torque (set by the hoist code)", minimum=0.0),
+    "torque_factor": Key(
+        Kind.NUMBER, "brake torque / motor rated torque (set by the hoist code)", minimum=0.0, maximum=10.0, above=True
+    ),
     "hoist_torque": Key(Kind.QUANTITY, "full-load hoisting torque at the brake", "torque"),
     "control_braking": Key(
         Kind.CHOICE, "hoist control braking: mechanical or other", choices=("mechanical", "non-mechanical")
     ),
-    "holding_brakes": Key(Kind.NUMBER, "number of holding brakes on the hoist", minimum=1.0),
+    "holding_brakes": Key(Kind.NUMBER, "number of holding brakes on the hoist", minimum=1.0, maximum=16.0),
     "directions": Key(Kind.DIRECTIONS, "drum directions that must hold"),
     # friction
-    "mu": Key(Kind.NUMBER, "nominal lining-drum friction coefficient", minimum=0.0),
-    "mu_min": Key(Kind.NUMBER, "lowest friction coefficient in service", minimum=0.0),
-    "mu_max": Key(Kind.NUMBER, "highest friction coefficient in service", minimum=0.0),
-    "self_lock_margin": Key(Kind.NUMBER, "critical μ must exceed mu_max by this factor", minimum=1.0),
+    "mu": Key(Kind.NUMBER, "nominal lining-drum friction coefficient", minimum=0.0, maximum=MU_MAX, above=True),
+    "mu_min": Key(Kind.NUMBER, "lowest friction coefficient in service", minimum=0.0, maximum=MU_MAX, above=True),
+    "mu_max": Key(Kind.NUMBER, "highest friction coefficient in service", minimum=0.0, maximum=MU_MAX, above=True),
+    "self_lock_margin": Key(Kind.NUMBER, "critical μ must exceed mu_max by this factor", minimum=1.0, maximum=10.0),
     # lining
     "lining_width": Key(Kind.QUANTITY, "shoe face width", "length"),
     "lining_pressure_max": Key(Kind.QUANTITY, "allowed lining pressure", "pressure"),
@@ -95,22 +129,30 @@ KEYS: dict[str, Key] = {
     "pin_length": Key(Kind.QUANTITY, "pin bearing length", "length", per="pins"),
     "pin_shear_allow": Key(Kind.QUANTITY, "allowed pin shear stress", "pressure", per="pins"),
     "pin_bearing_allow": Key(Kind.QUANTITY, "allowed pin bearing pressure", "pressure", per="pins"),
-    "pin_shear_planes": Key(Kind.NUMBER, "1 single shear, 2 double shear", per="pins", minimum=1.0),
+    "pin_shear_planes": Key(Kind.NUMBER, "1 single shear, 2 double shear", per="pins", minimum=1.0, maximum=16.0),
     # two-force members
     "rod_area": Key(Kind.QUANTITY, "rod cross-section area", "area", per="members"),
     "rod_diameter": Key(Kind.QUANTITY, "solid round rod diameter", "length", per="members"),
     "rod_stress_allow": Key(Kind.QUANTITY, "allowed axial stress", "pressure", per="members"),
     "rod_modulus": Key(Kind.QUANTITY, "Young's modulus of the rod", "pressure", per="members"),
-    "rod_end_factor": Key(Kind.NUMBER, "effective-length factor K (1 pinned-pinned)", per="members", minimum=0.0),
-    "buckling_safety": Key(Kind.NUMBER, "required Euler load / axial load", per="members", minimum=1.0),
+    "rod_end_factor": Key(
+        Kind.NUMBER, "effective-length factor K (1 pinned-pinned)", per="members", minimum=0.0, maximum=10.0, above=True
+    ),
+    "buckling_safety": Key(Kind.NUMBER, "required Euler load / axial load", per="members", minimum=1.0, maximum=100.0),
     # effort
     "effort": Key(Kind.QUANTITY, "magnitude of every load", "force"),
     # shoe theory
     "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
-    "long_shoe_threshold": Key(Kind.NUMBER, "contact angle above which auto takes long theory [degrees]", minimum=0.0),
+    "long_shoe_threshold": Key(
+        Kind.NUMBER, "contact angle above which auto takes long theory [degrees]", minimum=0.0, maximum=360.0
+    ),
     # revision compare
-    "max_torque_drop": Key(Kind.NUMBER, "compare: fail when torque drops by more than this fraction", minimum=0.0),
-    "max_force_rise": Key(Kind.NUMBER, "compare: fail when a force rises by more than this fraction", minimum=0.0),
+    "max_torque_drop": Key(
+        Kind.NUMBER, "compare: fail when torque drops by more than this fraction", minimum=0.0, maximum=1.0
+    ),
+    "max_force_rise": Key(
+        Kind.NUMBER, "compare: fail when a force rises by more than this fraction", minimum=0.0, maximum=100.0
+    ),
     # drawing
     "units": Key(
         Kind.CHOICE,
@@ -118,7 +160,9 @@ KEYS: dict[str, Key] = {
         choices=("mm", "cm", "dm", "m", "inch", "in", "ft", "foot"),
     ),
     # report
-    "torque_asymmetry_max": Key(Kind.NUMBER, "warn above this relative torque difference between directions"),
+    "torque_asymmetry_max": Key(
+        Kind.NUMBER, "warn above this relative torque difference between directions", minimum=0.0, maximum=100.0
+    ),
 }
 
 #: Built-in defaults: (value, note on where it comes from).
@@ -195,6 +239,59 @@ class Spec:
         return out
 
 
+def check_quantity(dimension: str, value: float, where: str) -> float:
+    """``value`` [internal unit] if it is finite, not negative and at most
+    :data:`QUANTITY_MAX` of its dimension.
+
+    Raises
+    ------
+    ConfigError
+        Naming ``where`` (the option or the key and its source).
+    """
+    top = QUANTITY_MAX[dimension]
+    unit = DIMENSIONS[dimension][1]
+    if not math.isfinite(value) or value < 0 or value > top:
+        raise ConfigError(f"{where} must be a {dimension} from 0 to {top:g} {unit}, got {value:g} {unit}")
+    return value
+
+
+def check_number(key: str, value: float, where: str) -> float:
+    """``value`` if it lies in the range of the spec key ``key`` (finite,
+    within its minimum and maximum).
+
+    Raises
+    ------
+    ConfigError
+        Naming ``where`` and the range.
+    """
+    spec = KEYS[key]
+    low, high = spec.minimum, spec.maximum
+    ok = math.isfinite(value)
+    ok = ok and (low is None or (value > low if spec.above else value >= low))
+    ok = ok and (high is None or value <= high)
+    if not ok:
+        lo_text = "" if low is None else (f"above {low:g}" if spec.above else f"at least {low:g}")
+        hi_text = "" if high is None else f"at most {high:g}"
+        ranged = " and ".join(t for t in (lo_text, hi_text) if t) or "finite"
+        raise ConfigError(f"{where} must be {ranged}, got {value:g}")
+    return value
+
+
+def _plain_number(raw: Any, where: str) -> float:
+    """A TOML or text number as a float, refused when it is none or has no
+    finite value (``inf``, ``nan``, an integer of thousands of digits)."""
+    if isinstance(raw, bool) or not isinstance(raw, str | int | float):
+        raise ConfigError(f"{where} must be a plain number, got {str(raw)[:40]!r}")
+    try:
+        value = float(raw)
+    except (TypeError, ValueError, OverflowError):
+        shown = f"an integer of {len(str(abs(raw)))} digits" if isinstance(raw, int) else repr(str(raw)[:40])
+        raise ConfigError(f"{where} must be a plain number, got {shown}") from None
+    if not math.isfinite(value):
+        raise ConfigError(f"{where} must be a plain number and finite, got {str(raw)[:40]!r}")
+    return value
+
+
 def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
     spec = KEYS[key]
     where = f"{source}: {key}"
@@ -203,23 +300,18 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
         if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
             raise ConfigError(f"{where} must be a number with a unit, e.g. '450 N*m'")
         if not isinstance(raw, str):
-            raise ConfigError(f'{where} = {raw!r} has no unit; write it as a text with its unit, e.g. "{raw} ..."')
+            shown = raw if isinstance(raw, float) or abs(raw) < 10**20 else "..."
+            raise ConfigError(f'{where} = {shown!r} has no unit; write it as a text with its unit, e.g. "{shown} ..."')
         try:
             q = parse_quantity(raw, spec.dimension)
         except UnitError as exc:
             raise ConfigError(f"{where}: {exc}") from exc
         if q.value < 0:
             raise ConfigError(f"{where} must not be negative")
+        check_quantity(spec.dimension, q.value, where)
         return SpecValue(key, q.value, q.unit, raw, source)
     if spec.kind is Kind.NUMBER:
-        try:
-            value = float(raw) if not isinstance(raw, bool) else None
-        except (TypeError, ValueError):
-            value = None
-        if value is None or value != value:
-            raise ConfigError(f"{where} must be a plain number, got {raw!r}")
-        if spec.minimum is not None and value < spec.minimum:
-            raise ConfigError(f"{where} must be at least {spec.minimum:g}, got {value:g}")
+        value = check_number(key, _plain_number(raw, where), where)
         return SpecValue(key, value, "", str(raw), source)
     if spec.kind is Kind.DIRECTIONS:
         items = [s.strip() for s in raw.split(",")] if isinstance(raw, str) else raw
@@ -290,6 +382,13 @@ def _put_dotted(b: _Builder, dotted: str, raw: str, source: str) -> None:
         raise ConfigError(f"{source}: {dotted!r} is not a spec key (use KEY or pins.NAME.KEY)")
 
 
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return False
+
+
 def load_spec(
     drawing: str | os.PathLike[str],
     *,
@@ -334,16 +433,15 @@ def load_spec(
     for name, raw in custom_properties:
         if name.lower().startswith(PROPERTY_PREFIX):
             _put_dotted(b, name[len(PROPERTY_PREFIX) :], raw, f"{p} header property {name}")
-    sidecar = p.with_suffix(".toml")
-    if sidecar.is_file():
-        try:
-            with open(sidecar, "rb") as fh:
-                data = tomllib.load(fh)
-        except (OSError, tomllib.TOMLDecodeError) as exc:
-            raise ConfigError(f"cannot read the sidecar spec: {exc}", path=str(sidecar)) from exc
-        unknown = set(data) - {"spec"}
+    sidecar = sidecar_of(p)
+    if sidecar is not None and not (project_path and _same_file(sidecar, Path(project_path))):
+        data = read_toml(sidecar, "the drawing's own file (sidecar)")
+        unknown = set(data) - {"spec", "layers", "markup"}  # the tables of a project file
         if unknown:
-            raise ConfigError(f"unknown table {sorted(unknown)[0]!r} (a sidecar holds [spec])", path=str(sidecar))
+            raise ConfigError(
+                f"unknown table {sorted(unknown)[0]!r} (a drawing's own file holds [layers], [markup], [spec])",
+                path=str(sidecar),
+            )
         spec_table = data.get("spec", {})
         if not isinstance(spec_table, dict):
             raise ConfigError("[spec] must be a table", path=str(sidecar))
