@@ -22,6 +22,7 @@ from typing import Any
 
 from dxfcheck.deadline import TimeLimitExceeded
 from dxfcheck.errors import ConfigError, DxfcheckError, LimitError, VerificationError
+from dxfcheck.textsafe import one_line
 
 __all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_NOT_BRAKING", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
@@ -711,7 +712,9 @@ def _main(argv: Sequence[str] | None) -> int:
     except VerificationError as exc:
         if INTERNAL_ERRORS_RAISE:
             raise
-        sys.stderr.write(f"dxfcheck: {exc.path or _subject(args)}: internal error: {exc.message}; please report it\n")
+        sys.stderr.write(
+            one_line(f"dxfcheck: {exc.path or _subject(args)}: internal error: {exc.message}; please report it") + "\n"
+        )
         _json_error(args, exc, internal=True)
         return EXIT_INTERNAL
     except DxfcheckError as exc:
@@ -731,7 +734,10 @@ def _main(argv: Sequence[str] | None) -> int:
         if INTERNAL_ERRORS_RAISE:
             raise
         sys.stderr.write(
-            f"dxfcheck: {_subject(args)}: internal error ({type(exc).__name__}: {exc}); please report it with the "
-            "drawing\n"
+            one_line(
+                f"dxfcheck: {_subject(args)}: internal error ({type(exc).__name__}: {exc}); please report it with the "
+                "drawing"
+            )
+            + "\n"
         )
         return EXIT_INTERNAL
