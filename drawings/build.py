@@ -18,7 +18,7 @@ from pathlib import Path
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent))
 
-from dxfcheck.sketch import Sketch  # noqa: E402
+from dxfcheck.output.sketch import Sketch  # noqa: E402
 
 
 def winch_two_shoe() -> Sketch:

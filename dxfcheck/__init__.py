@@ -16,16 +16,15 @@ standards and be checked by a qualified engineer.
 
 from __future__ import annotations
 
-from dxfcheck.analysis import DEFAULT_MU, analyse
-from dxfcheck.config import Config, Role, find_config, load_config
-from dxfcheck.contact import Direction
-from dxfcheck.drawing import Drawing, read_drawing
-from dxfcheck.errors import ConfigError, DrawingReadError, DxfcheckError, MechanismError, SolveError
-from dxfcheck.findings import Code, Finding, Severity
+from dxfcheck.core.config import Config, Role, find_config, load_config
+from dxfcheck.core.errors import ConfigError, DrawingReadError, DxfcheckError, MechanismError, SolveError
+from dxfcheck.core.findings import Code, Finding, Severity
+from dxfcheck.core.version import __version__
 from dxfcheck.mechanism import Mechanism, build_mechanism
+from dxfcheck.pipeline import DEFAULT_MU, analyse
+from dxfcheck.read.drawing import Drawing, read_drawing
 from dxfcheck.statics import CaseSolution, Solution, solve, solve_case
-
-__version__ = "0.1.0"
+from dxfcheck.statics.contact import Direction
 
 __all__ = [
     "DEFAULT_MU",

@@ -228,9 +228,9 @@ class BatchResult:
 
 def _own_output(path: Path) -> bool:
     """Files dxfcheck itself wrote, which a batch does not check: they carry
-    the marker (:func:`dxfcheck.files.is_dxfcheck_output`, the file's first
+    the marker (:func:`dxfcheck.core.files.is_dxfcheck_output`, the file's first
     bytes), whatever their name.  Called on regular files only."""
-    from dxfcheck.files import is_dxfcheck_output
+    from dxfcheck.core.files import is_dxfcheck_output
 
     return is_dxfcheck_output(path)
 
@@ -398,7 +398,7 @@ def _drawing_digest(path: Path, limit: int) -> bytes:
 
 
 def _project_file(path: Path, options: CheckOptions) -> Path | None:
-    from dxfcheck.config import find_config
+    from dxfcheck.core.config import find_config
 
     return Path(options.config) if options.config else find_config(path)
 
@@ -433,8 +433,8 @@ def cache_key(path: Path, options: CheckOptions) -> str:
         size limit (the drawing is then checked without the cache, or
         refused).
     """
-    from dxfcheck import __version__
-    from dxfcheck.drawing import MAX_INPUT_BYTES
+    from dxfcheck.core.version import __version__
+    from dxfcheck.read.drawing import MAX_INPUT_BYTES
 
     h = hashlib.sha256()
 
@@ -615,7 +615,7 @@ class _Cache:
         }
         if not _valid_result(body):
             return
-        from dxfcheck.files import write_atomic
+        from dxfcheck.core.files import write_atomic
 
         doc = {"format": CACHE_FORMAT, "key": key, "result": body, "mac": _mac(self.secret, key, body)}
         try:
@@ -635,8 +635,8 @@ def _no_constant(name: str) -> Any:
 def check_one(path: str, options: CheckOptions = CheckOptions()) -> DrawingResult:
     """Check one drawing; never raises (an unusable drawing is an
     ``error`` result).  Runs in a worker process."""
-    from dxfcheck.analysis import check
-    from dxfcheck.errors import DxfcheckError
+    from dxfcheck.core.errors import DxfcheckError
+    from dxfcheck.pipeline import check
 
     t0 = time.perf_counter()
     try:
@@ -710,7 +710,7 @@ def _worker_main(conn: Connection, parent_pid: int) -> None:
     sends None or goes away."""
     signal.signal(signal.SIGINT, signal.SIG_IGN)  # Ctrl-C reaches the whole group: the batch handles it
     _die_with_parent(parent_pid)
-    import dxfcheck.analysis  # noqa: F401  (imported before the first drawing's clock starts)
+    import dxfcheck.pipeline  # noqa: F401  (imported before the first drawing's clock starts)
 
     while True:
         try:
@@ -745,7 +745,7 @@ def worker_count(jobs: int | None, todo: int | None = None) -> int:
     ConfigError
         When ``jobs`` is below 1 or above the bound.
     """
-    from dxfcheck.errors import ConfigError
+    from dxfcheck.core.errors import ConfigError
 
     cores = _cores()
     if jobs is not None and jobs < 1:
@@ -1044,7 +1044,7 @@ def check_inputs(options: CheckOptions, *, jobs: int | None, timeout_each_s: flo
 
 
 def _check_timeout_each(seconds: float) -> None:
-    from dxfcheck.errors import ConfigError
+    from dxfcheck.core.errors import ConfigError
 
     if not (isinstance(seconds, (int, float)) and 0 < seconds <= MAX_TIMEOUT_EACH_S):
         raise ConfigError(
@@ -1056,7 +1056,7 @@ def _check_project(options: CheckOptions) -> None:
     """A project file given for every drawing must be a regular file within
     its limit: refused once, naming it, instead of once per drawing (or a
     worker stuck on a FIFO)."""
-    from dxfcheck.errors import ConfigError
+    from dxfcheck.core.errors import ConfigError
 
     if options.config:
         try:
@@ -1155,7 +1155,7 @@ def run_on_cluster(
         When dask.distributed is not installed or the scheduler cannot be
         reached.
     """
-    from dxfcheck.errors import ConfigError
+    from dxfcheck.core.errors import ConfigError
 
     try:
         from distributed import Client
@@ -1208,7 +1208,7 @@ def results_csv(batch: BatchResult) -> str:
 
 def results_json(batch: BatchResult) -> dict[str, Any]:
     """The ``dxfcheck.batch/2`` JSON document."""
-    from dxfcheck.report import CAUTION
+    from dxfcheck.output.report import CAUTION
 
     return {
         "schema": BATCH_SCHEMA,

@@ -1,7 +1,7 @@
 """The ``dxfcheck`` command: a thin layer over the library.
 
 Each sub-command checks its options, calls one library function and prints
-through :mod:`dxfcheck.report`.  Exit codes:
+through :mod:`dxfcheck.output.report`.  Exit codes:
 
 * 0 -- solved (and, for ``check``, no rule failed);
 * 1 -- solved, but a rule of ``check`` failed (or warned, with ``--strict``);
@@ -20,9 +20,9 @@ import sys
 from collections.abc import Sequence
 from typing import Any
 
-from dxfcheck.deadline import TimeLimitExceeded
-from dxfcheck.errors import ConfigError, DxfcheckError, LimitError, VerificationError
-from dxfcheck.textsafe import one_line
+from dxfcheck.core.deadline import TimeLimitExceeded
+from dxfcheck.core.errors import ConfigError, DxfcheckError, LimitError, VerificationError
+from dxfcheck.core.textsafe import one_line
 
 __all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_NOT_BRAKING", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
@@ -41,7 +41,7 @@ INTERNAL_ERRORS_RAISE = False
 #: Time bound of one command [s]; ``--timeout`` raises it.
 DEFAULT_TIMEOUT_S = 300.0
 #: Most samples of ``solve --samples`` (the value of
-#: :data:`dxfcheck.sensitivity.MAX_SAMPLES`, kept here so that the options
+#: :data:`dxfcheck.statics.sampling.MAX_SAMPLES`, kept here so that the options
 #: are read without importing numpy; a test keeps the two equal).
 MAX_SAMPLES = 1_000_000
 
@@ -156,7 +156,7 @@ def _shoe_options(s: argparse.ArgumentParser) -> None:
 
 
 def _parser() -> argparse.ArgumentParser:
-    from dxfcheck import __version__
+    from dxfcheck.core.version import __version__
 
     p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF.")
     p.add_argument("--version", action="version", version=f"dxfcheck {__version__}")
@@ -275,10 +275,10 @@ def _annotate_shortcut(s: argparse.ArgumentParser) -> None:
 
 def _quantity(text: str, option: str, dimension: str, default_unit: str | None = None) -> float:
     """A quantity option's value [internal unit], read and checked for its
-    range (:func:`dxfcheck.spec.check_quantity`); the message names the
+    range (:func:`dxfcheck.gate.spec.check_quantity`); the message names the
     option."""
-    from dxfcheck.spec import check_quantity
-    from dxfcheck.units import UnitError, parse_quantity
+    from dxfcheck.core.units import UnitError, parse_quantity
+    from dxfcheck.gate.spec import check_quantity
 
     try:
         value = parse_quantity(text, dimension, default_unit=default_unit).value
@@ -289,7 +289,7 @@ def _quantity(text: str, option: str, dimension: str, default_unit: str | None =
 
 def _number(value: float, option: str, key: str) -> float:
     """A number option checked against the range of its spec key."""
-    from dxfcheck.spec import check_number
+    from dxfcheck.gate.spec import check_number
 
     return check_number(key, value, option)
 
@@ -304,7 +304,7 @@ def _tolerance(args: argparse.Namespace) -> float | None:
 
 
 def _shoe_kwargs(args: argparse.Namespace) -> dict[str, Any]:
-    from dxfcheck.contact import LONG_SHOE_THRESHOLD_DEG
+    from dxfcheck.statics.contact import LONG_SHOE_THRESHOLD_DEG
 
     threshold = args.long_threshold
     return {
@@ -316,7 +316,7 @@ def _shoe_kwargs(args: argparse.Namespace) -> dict[str, Any]:
 
 
 def _effort_mu(args: argparse.Namespace) -> tuple[float | None, float]:
-    from dxfcheck.analysis import DEFAULT_MU
+    from dxfcheck.pipeline import DEFAULT_MU
 
     effort = _quantity(args.effort, "--effort", "force") if args.effort else None
     return effort, DEFAULT_MU if args.mu is None else _number(args.mu, "--mu", "mu")
@@ -335,16 +335,16 @@ def _mu_arg(text: str | None) -> tuple[float | None, tuple[float, float] | None]
 
 
 def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int:
-    from dxfcheck.analysis import sensitivity
-    from dxfcheck.compare import history_svg
-    from dxfcheck.files import write_atomic
-    from dxfcheck.report import print_sensitivity, sensitivity_to_dict, write_json
+    from dxfcheck.core.files import write_atomic
+    from dxfcheck.output.report import print_sensitivity, sensitivity_to_dict, write_json
+    from dxfcheck.pipeline import sensitivity
+    from dxfcheck.revision.compare import history_svg
 
     tol = _quantity(args.pin_tolerance, "--pin-tolerance", "length", "mm")
     req = _quantity(args.required_torque, "--required-torque", "torque") if args.required_torque else None
     effort = _quantity(args.effort, "--effort", "force") if args.effort else None
     if args.svg:
-        from dxfcheck.files import check_target
+        from dxfcheck.core.files import check_target
 
         check_target(args.svg, force=False, protect=(args.drawing,), text=True)
     report_to = _report_stream(args, args.svg)
@@ -377,8 +377,8 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 
 
 def _solve(args: argparse.Namespace) -> int:
-    from dxfcheck.analysis import DEFAULT_MU, analyse, resolve_config
-    from dxfcheck.report import print_solution, solution_to_dict, write_json
+    from dxfcheck.output.report import print_solution, solution_to_dict, write_json
+    from dxfcheck.pipeline import DEFAULT_MU, analyse, resolve_config
 
     mu_value, mu_range = _mu_arg(args.mu)
     if args.samples is not None:
@@ -406,7 +406,7 @@ def _solve(args: argparse.Namespace) -> int:
         **_shoe_kwargs(args),
     )
     if args.annotate:
-        from dxfcheck.markup import annotate
+        from dxfcheck.output.annotate import annotate
 
         annotate(sol, out=args.annotate, config=cfg, force=args.force)
     if args.json:
@@ -419,11 +419,11 @@ def _solve(args: argparse.Namespace) -> int:
 
 
 def _check(args: argparse.Namespace) -> int:
-    from dxfcheck.analysis import check, resolve_config
-    from dxfcheck.files import Target, check_targets, write_atomic
-    from dxfcheck.report import judgement_to_dict, junit_xml, print_judgement, write_json
-    from dxfcheck.rules import Verdict
-    from dxfcheck.spec import parse_assignment
+    from dxfcheck.core.files import Target, check_targets, write_atomic
+    from dxfcheck.gate.rules import Verdict
+    from dxfcheck.gate.spec import parse_assignment
+    from dxfcheck.output.report import judgement_to_dict, junit_xml, print_judgement, write_json
+    from dxfcheck.pipeline import check, resolve_config
 
     overrides = [parse_assignment(s) for s in args.set]
     for key, value in (
@@ -449,7 +449,7 @@ def _check(args: argparse.Namespace) -> int:
         max_bytes=_max_bytes(args),
     )
     if args.annotate:
-        from dxfcheck.markup import annotate
+        from dxfcheck.output.annotate import annotate
 
         annotate(j.nominal, out=args.annotate, judgement=j, config=cfg, force=args.force)
     if args.junit:
@@ -465,8 +465,8 @@ def _check(args: argparse.Namespace) -> int:
 def _annotate(args: argparse.Namespace) -> int:
     from pathlib import Path
 
-    from dxfcheck.analysis import analyse, resolve_config
-    from dxfcheck.markup import annotate
+    from dxfcheck.output.annotate import annotate
+    from dxfcheck.pipeline import analyse, resolve_config
 
     effort, mu = _effort_mu(args)
     cfg = resolve_config(args.drawing, args.config)
@@ -503,7 +503,7 @@ def _revisions(items: Sequence[str]) -> list[str]:
     skipped in a folder, with a note, and refused when named."""
     from pathlib import Path
 
-    from dxfcheck.files import is_dxfcheck_output
+    from dxfcheck.core.files import is_dxfcheck_output
 
     out: list[str] = []
     for item in items:
@@ -533,11 +533,17 @@ def _report_stream(args: argparse.Namespace, *targets: str | None) -> Any:
 
 
 def _compare(args: argparse.Namespace) -> int:
-    from dxfcheck.analysis import check, resolve_config
-    from dxfcheck.compare import compare_judgements, mark_revision, parse_fraction, resolve_thresholds, trend_svg
-    from dxfcheck.files import Target, check_targets, write_atomic
-    from dxfcheck.report import comparisons_to_dict, print_comparisons, write_json
-    from dxfcheck.spec import parse_assignment
+    from dxfcheck.core.files import Target, check_targets, write_atomic
+    from dxfcheck.gate.spec import parse_assignment
+    from dxfcheck.output.annotate import mark_revision
+    from dxfcheck.output.report import comparisons_to_dict, print_comparisons, write_json
+    from dxfcheck.pipeline import check, resolve_config
+    from dxfcheck.revision.compare import (
+        compare_judgements,
+        parse_fraction,
+        resolve_thresholds,
+        trend_svg,
+    )
 
     names = _revisions(args.drawings)
     if len(names) < 2:
@@ -568,7 +574,7 @@ def _compare(args: argparse.Namespace) -> int:
 
 def _batch_options(args: argparse.Namespace) -> Any:
     from dxfcheck.batch import CheckOptions
-    from dxfcheck.spec import parse_assignment
+    from dxfcheck.gate.spec import parse_assignment
 
     return CheckOptions(
         config=args.config,
@@ -581,7 +587,7 @@ def _batch_options(args: argparse.Namespace) -> Any:
 
 def _batch(args: argparse.Namespace) -> int:
     from dxfcheck.batch import DEFAULT_TIMEOUT_EACH_S, check_inputs, find_drawings, results_csv, results_json, run_batch
-    from dxfcheck.report import batch_progress, print_batch, write_json
+    from dxfcheck.output.report import batch_progress, print_batch, write_json
 
     options = _batch_options(args)
     timeout_each = DEFAULT_TIMEOUT_EACH_S if args.timeout_each is None else args.timeout_each
@@ -644,7 +650,7 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
     """With ``--json``, a refusal still prints one JSON document on stdout."""
     if not getattr(args, "json", False) or args.command not in ("solve", "check", "compare"):
         return
-    from dxfcheck.report import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
+    from dxfcheck.output.report import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
 
     schema = {"check": CHECK_SCHEMA, "compare": COMPARE_SCHEMA}.get(args.command, SOLVE_SCHEMA)
     drawing = str(args.drawing) if getattr(args, "drawing", None) else None
@@ -654,19 +660,19 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code.
 
-    Standard output and error are guarded (:func:`dxfcheck.files.guarded_streams`):
+    Standard output and error are guarded (:func:`dxfcheck.core.files.guarded_streams`):
     symbols their encoding cannot show are written as ASCII stand-ins; a
     closed pipe (``| head -1``) ends the output quietly and the run still
     returns its own exit code; a write that fails otherwise (a full disk, a
     closed descriptor) is exit 2 with a line naming the stream."""
-    from dxfcheck.files import guarded_streams
+    from dxfcheck.core.files import guarded_streams
 
     with guarded_streams() as stdout:
         code = _main(argv)
         try:
             stdout.flush()  # a full disk shows here, not at the interpreter's exit
         except DxfcheckError as exc:
-            from dxfcheck.report import print_error
+            from dxfcheck.output.report import print_error
 
             print_error(exc)
             return EXIT_UNUSABLE
@@ -694,12 +700,12 @@ def _route_library_logs() -> None:
 
 
 def _main(argv: Sequence[str] | None) -> int:
-    from dxfcheck.report import print_error
+    from dxfcheck.output.report import print_error
 
     args = _parser().parse_args(argv)
     _route_library_logs()
     commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare, "batch": _batch}
-    from dxfcheck import deadline
+    from dxfcheck.core import deadline
 
     try:
         with deadline.limit(args.timeout):

@@ -1,6 +1,6 @@
 """Test geometries, defined once and shared by the test modules.
 
-Each builder returns a :class:`dxfcheck.sketch.Sketch` in the project's layer
+Each builder returns a :class:`dxfcheck.output.sketch.Sketch` in the project's layer
 convention.  Geometry that comes from a published example says so.
 """
 
@@ -16,7 +16,7 @@ sys.path.insert(0, str(ROOT / "drawings"))
 
 from build import capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
 
-from dxfcheck.sketch import Sketch  # noqa: E402
+from dxfcheck.output.sketch import Sketch  # noqa: E402
 
 __all__ = [
     "CATALOGUE",

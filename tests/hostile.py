@@ -19,7 +19,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from common import winch_two_shoe
 
-from dxfcheck.sketch import BlockWrap
+from dxfcheck.output.sketch import BlockWrap
 
 __all__ = [
     "MAKERS",

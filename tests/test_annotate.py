@@ -13,9 +13,10 @@ import pytest
 from common import ROOT, conveyor_block, winch_two_shoe
 
 import dxfcheck
-from dxfcheck.geometry import Affine
-from dxfcheck.markup import annotate, plan_markup
-from dxfcheck.sketch import BlockWrap
+from dxfcheck.core.geometry import Affine
+from dxfcheck.output.annotate import annotate
+from dxfcheck.output.markup import plan_markup
+from dxfcheck.output.sketch import BlockWrap
 
 FORCE, NOTE = "DXFCHECK_FORCES", "DXFCHECK_NOTES"
 #: Header variables every save rewrites (save stamps and the next free handle).

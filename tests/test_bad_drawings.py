@@ -287,7 +287,7 @@ def test_mu_at_the_self_locking_limit(tmp_path):
     from common import block_brake
 
     import dxfcheck
-    from dxfcheck.findings import Code
+    from dxfcheck.core.findings import Code
 
     path = tmp_path / "lock.dxf"
     block_brake(r=200, l=500, x=200, a=250, effort="500 N").save(path)
@@ -301,8 +301,8 @@ def test_shoe_pin_at_the_drum_axis(tmp_path):
     """A pivoted shoe whose pin sits on the drum axis has no line of action
     at the friction angle through it: a finding, not a number."""
     import dxfcheck
-    from dxfcheck.findings import Code
-    from dxfcheck.sketch import Sketch
+    from dxfcheck.core.findings import Code
+    from dxfcheck.output.sketch import Sketch
 
     sk = Sketch()
     sk.drum(0, 0, 150)
@@ -374,7 +374,7 @@ def _mott_inch(units):
 #: name -> (sketch, $MEASUREMENT or None, extra check options, exit code,
 #: codes that must be reported, codes that must not, phrase in the findings).
 #: Ranges: drum Ø 100-1250 mm (DIN 15435 series 160-710 mm widened, from
-#: memory / common practice), see dxfcheck.plausibility.
+#: memory / common practice), see dxfcheck.mechanism.plausibility.
 UNIT_SLIPS = {
     "mm drawing, $INSUNITS = 6 (m)": (_drum_315_mm("m"), None, ("--strict",), 1, {"D110"}, set(), "as millimetres"),
     "mm drawing, $INSUNITS = 1 (inch)": (_drum_315_mm("inch"), None, (), 1, {"D110"}, set(), "as millimetres"),

@@ -12,9 +12,9 @@ import pytest
 from common import block_brake, differential_band, double_block_spring_pair, simple_band
 
 import dxfcheck
-from dxfcheck.findings import Code
-from dxfcheck.sketch import Sketch
-from dxfcheck.units import LBF_N
+from dxfcheck.core.findings import Code
+from dxfcheck.core.units import LBF_N
+from dxfcheck.output.sketch import Sketch
 
 LBF_IN_NM = LBF_N * 0.0254
 
@@ -255,7 +255,7 @@ def test_effort_for_torque_refused_when_self_locking(tmp_path):
 def test_band_rules_and_effort_margin(tmp_path):
     """The gate on a band: p = T1/(b·r) against the limit (Mott §22-15), and
     the effort margin, effort × required torque / torque (linear statics)."""
-    from dxfcheck.analysis import check
+    from dxfcheck.pipeline import check
 
     w, _ = _simple_band_effort(9600.0, 0.22, 225, 200.0, 150.0, 700.0)
     path = tmp_path / "band.dxf"
@@ -282,7 +282,7 @@ def test_band_rules_and_effort_margin(tmp_path):
 
 
 def test_marked_copy_shows_band_and_spring_forces(tmp_path):
-    from dxfcheck.markup import plan_markup
+    from dxfcheck.output.markup import plan_markup
 
     sol = _solve(tmp_path, differential_band(r=300, wrap_deg=240, a=200, c=50, arm=950, effort="300 N"), 0.25)
     kinds = {a.kind for a in plan_markup(sol, "cw").arrows}

@@ -21,7 +21,7 @@ import pytest
 from common import block_brake, double_block_spring_pair
 
 import dxfcheck
-from dxfcheck.findings import Code
+from dxfcheck.core.findings import Code
 
 
 def _solve(tmp_path, sk, mu, **kw):

@@ -14,8 +14,8 @@ import pytest
 from common import block_brake, push_rod_block
 
 import dxfcheck
-from dxfcheck.analysis import check
-from dxfcheck.rules import Verdict, hoist_factor
+from dxfcheck.gate.rules import Verdict, hoist_factor
+from dxfcheck.pipeline import check
 
 # The test brake: block_brake(r=200, l=500, x=200, a=50), P = 1000 N.
 R, L, X, A, P, MU = 200.0, 500.0, 200.0, 50.0, 1000.0, 0.35

@@ -13,9 +13,9 @@ from common import capstan_band, conveyor_block, winch_two_shoe
 
 import dxfcheck
 from dxfcheck import cli
-from dxfcheck.analysis import check
-from dxfcheck.compare import RevisionMismatch, Thresholds, compare_judgements, history_svg
-from dxfcheck.geometry import Affine
+from dxfcheck.core.geometry import Affine
+from dxfcheck.pipeline import check
+from dxfcheck.revision.compare import RevisionMismatch, Thresholds, compare_judgements, history_svg
 
 
 @pytest.fixture(autouse=True)
@@ -301,7 +301,7 @@ def test_cli_json_lists_geometry_changes_and_thresholds(tmp_path):
     r = _cli("compare", a, b, "--json")
     assert r.returncode == 1, r.stderr  # the default 5 % torque-drop limit is crossed
     doc = json.loads(r.stdout)
-    assert doc["schema"] == "dxfcheck.compare/2"
+    assert doc["schema"] == "dxfcheck.revision.compare/2"
     assert doc["thresholds"] == {
         "max_torque_drop": 0.05,
         "max_torque_drop_source": "default, common practice",

@@ -7,8 +7,8 @@ import pytest
 from common import conveyor_block, winch_two_shoe
 
 import dxfcheck
-from dxfcheck.config import Role
-from dxfcheck.findings import Code
+from dxfcheck.core.config import Role
+from dxfcheck.core.findings import Code
 
 
 def test_rotated_insert_nested_in_non_uniform_scale(tmp_path):

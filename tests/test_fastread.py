@@ -18,8 +18,8 @@ from common import (
 )
 
 import dxfcheck
-from dxfcheck.geometry import Affine
-from dxfcheck.sketch import BlockWrap
+from dxfcheck.core.geometry import Affine
+from dxfcheck.output.sketch import BlockWrap
 
 
 def _on_layers(sk, **layers):
@@ -101,8 +101,8 @@ def test_fast_reader_on_hand_made_entities(tmp_path):
 
 
 def test_auto_uses_the_fast_reader_for_big_files_and_falls_back(tmp_path, monkeypatch):
-    import dxfcheck.drawing as drawing
-    import dxfcheck.fastread as fastread
+    import dxfcheck.read.drawing as drawing
+    import dxfcheck.read.fast as fastread
 
     path = tmp_path / "w.dxf"
     winch_two_shoe().save(path)

@@ -7,8 +7,8 @@ import pytest
 from common import conveyor_block
 
 import dxfcheck
-from dxfcheck.findings import Code, Severity
-from dxfcheck.sketch import Sketch
+from dxfcheck.core.findings import Code, Severity
+from dxfcheck.output.sketch import Sketch
 
 
 def _conveyor(*, pivot=True, drum=True, units="mm", shoe=(0, 0, 150, 75, 105), load=(520, 210)):

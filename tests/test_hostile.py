@@ -138,7 +138,7 @@ def test_duplicate_findings_are_summed_up(tmp_path):
 
 def test_both_readers_agree_on_hostile_blocks(tmp_path):
     import dxfcheck as lib
-    from dxfcheck.errors import DrawingReadError
+    from dxfcheck.core.errors import DrawingReadError
 
     for path in (hostile.self_insert(tmp_path), hostile.deep_chain(tmp_path, n=50)):
         assert lib.read_drawing(path, reader="fast") == lib.read_drawing(path, reader="full")
@@ -175,9 +175,9 @@ def test_a_time_limit_is_never_taken_for_a_reading_problem(tmp_path):
 def test_the_handlers_let_a_time_limit_through(tmp_path, winch, monkeypatch):
     """The block walk, the strict→recover and the fast→full fallbacks catch
     reading problems only."""
-    import dxfcheck.drawing as drawing
-    import dxfcheck.fastread as fastread
-    from dxfcheck.deadline import TimeLimitExceeded
+    import dxfcheck.read.drawing as drawing
+    import dxfcheck.read.fast as fastread
+    from dxfcheck.core.deadline import TimeLimitExceeded
 
     def expired(*args, **kwargs):
         raise TimeLimitExceeded(1.0, "test")
@@ -205,7 +205,8 @@ def test_sampling_stops_at_the_deadline(winch):
 
 
 def test_the_sampling_bound_is_the_same_in_cli_and_library():
-    from dxfcheck import cli, sensitivity
+    from dxfcheck import cli
+    from dxfcheck.statics import sampling as sensitivity
 
     assert cli.MAX_SAMPLES == sensitivity.MAX_SAMPLES
 

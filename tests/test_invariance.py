@@ -18,8 +18,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 import dxfcheck
-from dxfcheck.geometry import Affine
-from dxfcheck.sketch import BlockWrap
+from dxfcheck.core.geometry import Affine
+from dxfcheck.output.sketch import BlockWrap
 
 SETTINGS = settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 angles = st.floats(min_value=-180, max_value=180, allow_nan=False)

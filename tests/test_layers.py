@@ -21,11 +21,11 @@ import pytest
 from common import CATALOGUE, ROOT, conveyor_block, pivoted_long_shoes, winch_two_shoe
 
 import dxfcheck
-from dxfcheck import drawing as drawing_mod
-from dxfcheck.config import Role, load_config
-from dxfcheck.findings import Code
-from dxfcheck.layers import layer_map, searched_line, similar_role, typo_distance
-from dxfcheck.sketch import BlockWrap
+from dxfcheck.core.config import Role, load_config
+from dxfcheck.core.findings import Code
+from dxfcheck.mechanism.layers import layer_map, searched_line, similar_role, typo_distance
+from dxfcheck.output.sketch import BlockWrap
+from dxfcheck.read import drawing as drawing_mod
 
 NEAR = {Code.LAYER_NEAR_MISS, Code.SHOE_MAYBE_PIVOTED}
 

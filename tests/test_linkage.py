@@ -10,7 +10,7 @@ import sympy as sp
 from common import frame_bellcrank_two_shoe, winch_two_shoe
 
 import dxfcheck
-from dxfcheck.findings import Code
+from dxfcheck.core.findings import Code
 
 MU = 0.35
 

@@ -11,10 +11,10 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import dxfcheck
-from dxfcheck.contact import Direction
-from dxfcheck.contact.long_shoe import LongHingedShoe, equivalent_mu, pivot_distance
-from dxfcheck.findings import Code
-from dxfcheck.sketch import Sketch
+from dxfcheck.core.findings import Code
+from dxfcheck.output.sketch import Sketch
+from dxfcheck.statics.contact import Direction
+from dxfcheck.statics.contact.long_shoe import LongHingedShoe, equivalent_mu, pivot_distance
 
 
 def _solve(tmp_path, sk, mu, **kw):
@@ -257,9 +257,9 @@ def test_hinged_integration_matches_closed_forms(t1, span, a_frac, mu, internal)
     r = 150.0
     a = a_frac * r
     hinge = (a, 0.0)
-    src = dxfcheck.drawing.Source("1F", "SHOE")
+    src = dxfcheck.read.drawing.Source("1F", "SHOE")
     drum = dxfcheck.mechanism.Drum((0.0, 0.0), r, src)
-    arc = dxfcheck.drawing.ArcGeom(dxfcheck.Role.SHOE, (0.0, 0.0), r, t1, t2, src)
+    arc = dxfcheck.read.drawing.ArcGeom(dxfcheck.Role.SHOE, (0.0, 0.0), r, t1, t2, src)
     shoe = dxfcheck.mechanism.Shoe("s", "p", arc, dxfcheck.mechanism.Mounting.FIXED, None, internal)
     model = LongHingedShoe(shoe, drum, hinge)
     mn, mf, t = _closed_form(1.0, 1.0, r, a, mu, math.radians(t1), math.radians(t2))

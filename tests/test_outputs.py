@@ -33,7 +33,7 @@ import ezdxf
 import pytest
 from common import ROOT, conveyor_block, winch_two_shoe
 
-from dxfcheck.files import MARKER, is_dxfcheck_output
+from dxfcheck.core.files import MARKER, is_dxfcheck_output
 
 DEMOS = ROOT / "drawings"
 RUN_S = 120

@@ -1,4 +1,4 @@
-"""Plausibility of what was read (dxfcheck.plausibility) and the units rule.
+"""Plausibility of what was read (dxfcheck.mechanism.plausibility) and the units rule.
 
 A drawing read in the wrong unit must never pass ``check``: the cases of
 issue 13 run through the real command on real files; the ranges are tested
@@ -20,12 +20,12 @@ import pytest
 from common import ROOT, block_brake, simple_band, winch_two_shoe
 
 import dxfcheck
-from dxfcheck import plausibility as pl
-from dxfcheck.analysis import check
-from dxfcheck.errors import DxfcheckError
-from dxfcheck.findings import Code
+from dxfcheck.core.errors import DxfcheckError
+from dxfcheck.core.findings import Code
+from dxfcheck.core.units import parse_quantity
 from dxfcheck.mechanism import build_mechanism
-from dxfcheck.units import parse_quantity
+from dxfcheck.mechanism import plausibility as pl
+from dxfcheck.pipeline import check
 
 PLAUSIBILITY_CODES = {Code.UNITS_IMPLAUSIBLE, Code.PROPORTION_IMPLAUSIBLE, Code.RESULT_IMPLAUSIBLE}
 DEMOS = sorted((ROOT / "drawings").glob("*.dxf"))
@@ -259,7 +259,7 @@ def test_pressure_and_margin_ends():
     """Lining pressure 0.001-20 MPa (Shigley's MED 10th ed., Table 16-3,
     from memory, two decades below and one above); margins 0.001-1000
     (common practice); asymmetry, self-locking and buckling margins exempt."""
-    from dxfcheck.rules import RuleResult, Verdict
+    from dxfcheck.gate.rules import RuleResult, Verdict
 
     def rule(name, value, margin):
         return RuleResult(name, name, Verdict.PASS, value, 1.0, "MPa", margin)
@@ -323,7 +323,7 @@ GEOMETRIES = {
 def _internal():
     """Shigley's MED 10th ed., Problem 16-1 geometry (r = 150, hinge 125
     below the axis), as tests/test_long_shoes.py draws it."""
-    from dxfcheck.sketch import Sketch
+    from dxfcheck.output.sketch import Sketch
 
     sk = Sketch()
     sk.drum(0, 0, 150)

@@ -126,4 +126,4 @@ def test_json_refusal_of_compare_is_one_document(tmp_path):
     )
     assert r.returncode == 2
     doc = json.loads(r.stdout)
-    assert doc["schema"] == "dxfcheck.compare/2" and doc["error"]["kind"] == "unusable"
+    assert doc["schema"] == "dxfcheck.revision.compare/2" and doc["error"]["kind"] == "unusable"

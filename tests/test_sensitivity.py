@@ -11,9 +11,9 @@ from common import capstan_band, conveyor_block, winch_two_shoe
 
 import dxfcheck
 from dxfcheck import cli
-from dxfcheck.analysis import contact_options
-from dxfcheck.contact import Direction
-from dxfcheck.sensitivity import _Parts, sample_design, torque_curve
+from dxfcheck.pipeline import contact_options
+from dxfcheck.statics.contact import Direction
+from dxfcheck.statics.sampling import _Parts, sample_design, torque_curve
 
 MODELS = [
     pytest.param(winch_two_shoe, "auto", id="long-pivoted"),
@@ -106,7 +106,7 @@ def test_cli_sampling(tmp_path, capsys):
     )
     assert rc == 0
     doc = json.loads(capsys.readouterr().out)
-    assert doc["schema"] == "dxfcheck.sensitivity/1" and doc["samples"] == 3000
+    assert doc["schema"] == "dxfcheck.statics.sampling/1" and doc["samples"] == 3000
     assert {d["direction"] for d in doc["directions"]} == {"cw", "ccw"}
     assert 0 < doc["directions"][0]["p_below_required"] < 1
     assert "<polyline" in svg.read_text()

@@ -19,7 +19,7 @@ import pytest
 from common import block_brake, winch_two_shoe
 
 import dxfcheck
-from dxfcheck.analysis import check
+from dxfcheck.pipeline import check
 
 WINCH_PINS = ("O1", "O2", "S1", "T1", "S2", "T2", "C")
 

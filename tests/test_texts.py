@@ -16,9 +16,9 @@ import pytest
 from common import block_brake, capstan_band, double_block_spring_pair, winch_two_shoe
 
 import dxfcheck
-from dxfcheck.analysis import check
-from dxfcheck.findings import Code, Severity
-from dxfcheck.sketch import Sketch
+from dxfcheck.core.findings import Code, Severity
+from dxfcheck.output.sketch import Sketch
+from dxfcheck.pipeline import check
 
 MU = 0.35
 #: Book 764 Example 12.4's block brake (FOSSEE Scilab Textbook Companion;

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import pytest
 
-from dxfcheck.units import AmbiguousTextError, UnitError, length_unit_factor, parse_quantity, quantity_in_text
+from dxfcheck.core.units import AmbiguousTextError, UnitError, length_unit_factor, parse_quantity, quantity_in_text
 
 
 @pytest.mark.parametrize(

@@ -28,11 +28,11 @@ from common import CATALOGUE, capstan_band, conveyor_block, winch_two_shoe
 
 import dxfcheck
 from dxfcheck import cli
-from dxfcheck.contact import Direction, surface_tangent
-from dxfcheck.errors import VerificationError
-from dxfcheck.findings import Severity
-from dxfcheck.markup import plan_markup
-from dxfcheck.verify import drum_moment_Nmm, verify_case
+from dxfcheck.core.errors import VerificationError
+from dxfcheck.core.findings import Severity
+from dxfcheck.output.markup import plan_markup
+from dxfcheck.statics.contact import Direction, surface_tangent
+from dxfcheck.statics.verify import drum_moment_Nmm, verify_case
 
 MODELS = ("short", "long")
 
@@ -172,6 +172,14 @@ def _capstan(tmp_path):
     return path
 
 
+def _old_band_direction(monkeypatch):
+    """The band model as it was: the tight end exchanged."""
+    from dxfcheck.statics import equations, solver
+
+    for module in (equations, solver):
+        monkeypatch.setattr(module, "tight_at_end", lambda d: d is Direction.CCW)
+
+
 def test_checker_refuses_a_band_with_its_ends_exchanged(tmp_path):
     """Swap which end is reported tight (keeping the tensions where they act):
     the check on the tight end refuses it."""
@@ -187,21 +195,19 @@ def test_checker_refuses_a_band_with_its_ends_exchanged(tmp_path):
 def test_solver_with_the_old_band_direction_is_refused(tmp_path, monkeypatch):
     """The band model as it was (tight end exchanged): its result speeds the
     drum up, and the solve refuses to report it."""
-    from dxfcheck import statics
-
-    monkeypatch.setattr(statics, "tight_at_end", lambda d: d is Direction.CCW)
+    _old_band_direction(monkeypatch)
     with pytest.raises(VerificationError, match="drum torque"):
         dxfcheck.analyse(_capstan(tmp_path), mu=0.35)
 
 
 def _reverse_short(monkeypatch):
-    from dxfcheck.contact import short_shoe
+    from dxfcheck.statics.contact import short_shoe
 
     monkeypatch.setattr(short_shoe, "surface_tangent", lambda a, d: surface_tangent(a, d.mirrored()))
 
 
 def _reverse_long(monkeypatch):
-    from dxfcheck.contact import long_shoe
+    from dxfcheck.statics.contact import long_shoe
 
     original = long_shoe._integrate
 
@@ -249,9 +255,7 @@ def test_checker_refuses_an_unbalanced_part(tmp_path):
 
 
 def test_cli_reports_a_failed_check_as_an_internal_error(tmp_path, monkeypatch, capsys):
-    from dxfcheck import statics
-
-    monkeypatch.setattr(statics, "tight_at_end", lambda d: d is Direction.CCW)
+    _old_band_direction(monkeypatch)
     code = cli.main(["solve", str(_capstan(tmp_path)), "--json"])
     out, err = capsys.readouterr()
     assert code == cli.EXIT_INTERNAL == 3
@@ -264,7 +268,7 @@ def _offset_winch(sy1, sy2, mid1, half1, mid2, half2):
     """The winch's linkage with its shoe pins and linings moved (found by a
     random sweep of such drawings, where the check first caught a long
     pivoted shoe whose contact had shrunk to its lining's edge)."""
-    from dxfcheck.sketch import Sketch
+    from dxfcheck.output.sketch import Sketch
 
     sk = Sketch()
     sk.drum(0, 0, 200)
@@ -289,7 +293,7 @@ def test_contact_on_the_lining_edge_is_refused_not_reported(tmp_path):
     the right shoe's patch shrinks to its lining's edge), the solve refuses
     with S313 naming the shoe, instead of a result with a line load of
     ~10^17 N/mm that would fail its own balance."""
-    from dxfcheck.findings import Code
+    from dxfcheck.core.findings import Code
 
     path = tmp_path / "edge.dxf"
     _offset_winch(-120.895, 112.553, 146.281, 12.714, 5.137, 59.728).save(path)

@@ -22,7 +22,7 @@ sys.path.insert(0, str(ROOT / "drawings"))
 from build import capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
 
 from dxfcheck.batch import discover, run_batch  # noqa: E402
-from dxfcheck.geometry import Affine  # noqa: E402
+from dxfcheck.core.geometry import Affine  # noqa: E402
 
 
 def main() -> None:

@@ -22,9 +22,9 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
 import dxfcheck  # noqa: E402
-from dxfcheck.contact import Direction  # noqa: E402
-from dxfcheck.sensitivity import sample_design  # noqa: E402
 from dxfcheck.statics import _assemble, _solve_system, contact_models  # noqa: E402
+from dxfcheck.statics.contact import Direction  # noqa: E402
+from dxfcheck.statics.sampling import sample_design  # noqa: E402
 
 
 def main() -> None:

@@ -1,0 +1,336 @@
+"""Project configuration: ``dxfcheck.toml`` and the drawing's own file.
+
+The project file is named with ``--config FILE`` or, failing that, found as
+``dxfcheck.toml`` in the drawing's folder or a parent folder.  The search
+stops at the first folder that is a repository root (holds ``.git``), holds a
+``pyproject.toml``, or is the user's home folder; it never reads a folder
+that other users can write to (a shared ``/tmp``), so a file planted there
+cannot change the layer map.  Its ``[layers]`` table maps each layer role to
+a list of layer names (matched case-insensitively)::
+
+    [layers]
+    pivot = ["BRK-FIXED", "PIVOT"]
+    link = ["BRK-CL"]
+
+The drawing's own file ``NAME.toml`` beside ``NAME.dxf`` (the sidecar) may
+hold the same tables; every command reads it: its ``[layers]`` roles and
+``[markup]`` keys replace the project file's for this drawing, and its
+``[spec]`` sits above the project file's (:mod:`dxfcheck.gate.spec`).
+
+Both are read within :data:`MAX_FILE_BYTES`; a FIFO, a device or a folder is
+refused before it is opened.  Unknown tables and keys are rejected, naming
+the key and the file.
+"""
+
+from __future__ import annotations
+
+import enum
+import json
+import os
+import stat
+import tomllib
+from collections.abc import Sequence
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+from typing import Any
+
+from dxfcheck.core.errors import ConfigError
+
+__all__ = [
+    "CONFIG_NAME",
+    "DEFAULT_LAYERS",
+    "MAX_FILE_BYTES",
+    "Config",
+    "Role",
+    "config_for_drawing",
+    "find_config",
+    "load_config",
+    "read_toml",
+    "sidecar_of",
+    "toml_layers_line",
+]
+
+CONFIG_NAME = "dxfcheck.toml"
+#: Largest project file or sidecar read [bytes]: a real one is a few kB.
+MAX_FILE_BYTES = 1_000_000
+#: Files whose folder ends the search for a project file (a repository root
+#: or a Python project).
+PROJECT_ROOT_MARKERS = (".git", "pyproject.toml")
+
+
+class Role(enum.StrEnum):
+    """What the entities on a layer stand for (see the README's convention)."""
+
+    PIVOT = "pivot"
+    PIN = "pin"
+    LINK = "link"
+    DRUM = "drum"
+    SHOE = "shoe"
+    LOAD = "load"
+    LABEL = "label"
+    BAND = "band"
+    SPRING = "spring"
+
+
+#: Default layer name of each role.
+DEFAULT_LAYERS: dict[Role, tuple[str, ...]] = {role: (role.value.upper(),) for role in Role}
+
+_TOP_LEVEL = {"layers", "spec", "markup"}
+
+#: Default names of the layers dxfcheck writes in a marked-up copy.
+DEFAULT_FORCE_LAYER = "DXFCHECK_FORCES"
+DEFAULT_NOTE_LAYER = "DXFCHECK_NOTES"
+_MARKUP_KEYS = {"force_layer", "note_layer"}
+
+
+@dataclass(frozen=True)
+class Config:
+    """Settings read from a project file (or the defaults).
+
+    Attributes
+    ----------
+    layers : dict
+        Role -> layer names (upper case).
+    path : str or None
+        The project file the settings came from, or None for the defaults.
+    spec : dict
+        The raw ``[spec]`` table, checked by :mod:`dxfcheck.gate.spec`.
+    force_layer, note_layer : str
+        Layers of a marked-up copy (``[markup]`` table).
+    sidecar : str or None
+        The drawing's own file ``NAME.toml``, if one was read (its
+        ``[spec]`` is read by :mod:`dxfcheck.gate.spec`).
+    sidecar_layers : bool
+        Whether the sidecar's ``[layers]`` changed the layer map.
+    """
+
+    layers: dict[Role, tuple[str, ...]] = field(default_factory=lambda: dict(DEFAULT_LAYERS))
+    path: str | None = None
+    spec: dict[str, Any] = field(default_factory=dict)
+    force_layer: str = DEFAULT_FORCE_LAYER
+    note_layer: str = DEFAULT_NOTE_LAYER
+    sidecar: str | None = None
+    sidecar_layers: bool = False
+
+    @property
+    def layers_source(self) -> str | None:
+        """Where the layer map came from: the project file, the sidecar,
+        both (``"A + B"``), or None for the built-in names."""
+        named = [f for f in (self.path, self.sidecar if self.sidecar_layers else None) if f]
+        return " + ".join(named) or None
+
+    def role_of_layer(self) -> dict[str, Role]:
+        """Upper-case layer name -> role."""
+        out: dict[str, Role] = {}
+        for role, names in self.layers.items():
+            for name in names:
+                out[name.upper()] = role
+        return out
+
+
+def toml_layers_line(role: Role, names: Sequence[str]) -> str:
+    """The line of the ``[layers]`` table that maps ``role`` to ``names``,
+    as :func:`load_config` reads it, e.g. ``pin = ["PIN", "PINS"]``."""
+    return f"{role.value} = [{', '.join(json.dumps(n, ensure_ascii=False) for n in names)}]"
+
+
+def _others_can_write(folder: Path) -> bool:
+    try:
+        return bool(folder.stat().st_mode & stat.S_IWOTH)
+    except OSError:
+        return True  # a folder that cannot be looked at is not trusted either
+
+
+def _home() -> Path | None:
+    try:
+        return Path.home().resolve()
+    except (RuntimeError, KeyError, OSError):
+        return None
+
+
+def find_config(drawing: Path) -> Path | None:
+    """The nearest ``dxfcheck.toml`` in the drawing's folder or its parents.
+
+    The search stops after the first folder that is a repository root
+    (``.git``), holds a ``pyproject.toml`` or is the user's home folder, and
+    at the first folder other users can write to (which is not searched)."""
+    folder = drawing.resolve().parent
+    home = _home()
+    for candidate in (folder, *folder.parents):
+        if _others_can_write(candidate):
+            return None
+        p = candidate / CONFIG_NAME
+        if os.path.lexists(p):
+            return p  # read_toml refuses what is not a regular file, naming it
+        if candidate == home or any(os.path.lexists(candidate / m) for m in PROJECT_ROOT_MARKERS):
+            return None
+    return None
+
+
+def sidecar_of(drawing: Path) -> Path | None:
+    """The drawing's own file ``NAME.toml`` beside it, if there is one.
+
+    Raises
+    ------
+    ConfigError
+        When it lies in a folder others can write to and belongs to another
+        user than the drawing (it may have been planted there).
+    """
+    side = drawing.with_suffix(".toml")
+    if side == drawing or not os.path.lexists(side):
+        return None
+    if _others_can_write(side.parent):
+        try:
+            foreign = side.lstat().st_uid != drawing.stat().st_uid
+        except OSError:
+            foreign = True
+        if foreign:
+            raise ConfigError(
+                "is in a folder others can write to and belongs to another user than the drawing; it is not read. "
+                "Move the drawing and its file into a folder of your own",
+                path=str(side),
+            )
+    return side
+
+
+def read_toml(path: Path, what: str) -> dict[str, Any]:
+    """Read a TOML file of at most :data:`MAX_FILE_BYTES`.
+
+    A FIFO, a device, a socket or a folder is refused before it is opened
+    (and the file is opened without blocking, in case it changes in
+    between).
+
+    Raises
+    ------
+    ConfigError
+        Naming the file and ``what`` it is (``"the project file"``...).
+    """
+    spath = str(path)
+    try:
+        st = os.stat(path)
+    except OSError as exc:
+        raise ConfigError(f"cannot read {what}: {exc.strerror}", path=spath) from exc
+    if not stat.S_ISREG(st.st_mode):
+        kind = "a folder" if stat.S_ISDIR(st.st_mode) else "not a regular file (a FIFO, device or socket)"
+        raise ConfigError(f"{what} is {kind}; name a .toml file", path=spath)
+    try:
+        fd = os.open(path, os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
+        with os.fdopen(fd, "rb") as fh:
+            if not stat.S_ISREG(os.fstat(fh.fileno()).st_mode):
+                raise ConfigError(f"{what} is not a regular file (a FIFO, device or socket)", path=spath)
+            data = fh.read(MAX_FILE_BYTES + 1)
+    except OSError as exc:
+        raise ConfigError(f"cannot read {what}: {exc.strerror}", path=spath) from exc
+    if len(data) > MAX_FILE_BYTES:
+        raise ConfigError(f"{what} is larger than {MAX_FILE_BYTES / 1e6:g} MB; is it the right file?", path=spath)
+    try:
+        return tomllib.loads(data.decode("utf-8"))
+    except UnicodeDecodeError as exc:
+        raise ConfigError(f"{what} is not UTF-8 text (byte {exc.start})", path=spath) from exc
+    except tomllib.TOMLDecodeError as exc:
+        raise ConfigError(f"{what} is not valid TOML: {exc}", path=spath) from exc
+    except (ValueError, RecursionError) as exc:  # an integer of thousands of digits, arrays nested too deep
+        raise ConfigError(f"{what} cannot be read as TOML ({_short(exc)})", path=spath) from exc
+
+
+def _short(exc: BaseException) -> str:
+    text = str(exc).split(";")[0]
+    return text if len(text) <= 120 else text[:117] + "..."
+
+
+def _parse_layers(raw: Any, path: str, base: dict[Role, tuple[str, ...]]) -> dict[Role, tuple[str, ...]]:
+    """``base`` with the roles of a ``[layers]`` table replaced."""
+    if not isinstance(raw, dict):
+        raise ConfigError("[layers] must be a table", path=path)
+    layers = dict(base)
+    roles = {r.value: r for r in Role}
+    for key, value in raw.items():
+        if key not in roles:
+            raise ConfigError(f"[layers] has an unknown role {key!r} (roles: {', '.join(roles)})", path=path)
+        if isinstance(value, str):
+            value = [value]
+        if not isinstance(value, list) or not all(isinstance(v, str) and v for v in value):
+            raise ConfigError(f"[layers] {key} must be a list of layer names", path=path)
+        layers[roles[key]] = tuple(v.upper() for v in value)
+    seen: dict[str, Role] = {}
+    for role, names in layers.items():
+        for n in names:
+            if n in seen and seen[n] is not role:
+                raise ConfigError(f"[layers] layer {n!r} is given two roles ({seen[n]}, {role})", path=path)
+            seen[n] = role
+    return layers
+
+
+def _apply(data: dict[str, Any], spath: str, base: Config) -> Config:
+    """``base`` with a file's ``[layers]`` and ``[markup]`` applied (its
+    ``[spec]`` is checked to be a table, and read by :mod:`dxfcheck.gate.spec`)."""
+    unknown = set(data) - _TOP_LEVEL
+    if unknown:
+        raise ConfigError(
+            f"unknown table or key {sorted(unknown)[0]!r} (known: {', '.join(sorted(_TOP_LEVEL))})",
+            path=spath,
+        )
+    layers = _parse_layers(data.get("layers", {}), spath, base.layers)
+    if not isinstance(data.get("spec", {}), dict):
+        raise ConfigError("[spec] must be a table", path=spath)
+    markup = data.get("markup", {})
+    if not isinstance(markup, dict):
+        raise ConfigError("[markup] must be a table", path=spath)
+    for key, value in markup.items():
+        if key not in _MARKUP_KEYS:
+            raise ConfigError(
+                f"[markup] has an unknown key {key!r} (known: {', '.join(sorted(_MARKUP_KEYS))})", path=spath
+            )
+        if not isinstance(value, str) or not value.strip():
+            raise ConfigError(f"[markup] {key} must be a layer name", path=spath)
+    skeleton = {n for names in layers.values() for n in names}
+    force_layer = markup.get("force_layer", base.force_layer)
+    note_layer = markup.get("note_layer", base.note_layer)
+    for name in (force_layer, note_layer):
+        if name.upper() in skeleton:
+            raise ConfigError(f"[markup] layer {name!r} is also a skeleton layer", path=spath)
+    return replace(base, layers=layers, force_layer=force_layer, note_layer=note_layer)
+
+
+def load_config(path: Path | None) -> Config:
+    """Read a project file; ``None`` gives the defaults.
+
+    Raises
+    ------
+    ConfigError
+        When the file cannot be read, is not TOML, or has unknown keys.
+    """
+    if path is None:
+        return Config()
+    spath = str(path)
+    data = read_toml(path, "the project file")
+    cfg = _apply(data, spath, Config())
+    return replace(cfg, path=spath, spec=data.get("spec", {}))
+
+
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return os.path.samefile(a, b)
+    except OSError:
+        return False
+
+
+def config_for_drawing(drawing: Path, project: Path | None = None) -> Config:
+    """The configuration of one drawing, as every command reads it: the
+    project file (``project``, else the one :func:`find_config` finds) with
+    the ``[layers]`` and ``[markup]`` of the drawing's own file
+    (:func:`sidecar_of`) applied over it.  A sidecar named as the project
+    file is read once, as the project file.
+
+    Raises
+    ------
+    ConfigError
+    """
+    path = project if project is not None else find_config(drawing)
+    cfg = load_config(path)
+    side = sidecar_of(drawing)
+    if side is None or (path is not None and _same_file(side, path)):
+        return cfg
+    data = read_toml(side, "the drawing's own file (sidecar)")
+    applied = _apply(data, str(side), cfg)
+    return replace(applied, sidecar=str(side), sidecar_layers="layers" in data)

@@ -1,0 +1,13 @@
+"""dxfcheck's version, read once from the installed package's metadata
+(``pyproject.toml`` is the one place it is written)."""
+
+from __future__ import annotations
+
+from importlib.metadata import PackageNotFoundError, version
+
+__all__ = ["__version__"]
+
+try:
+    __version__ = version("dxfcheck")
+except PackageNotFoundError:  # run from a source tree that was never installed
+    __version__ = "0+unknown"

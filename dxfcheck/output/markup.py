@@ -1,0 +1,539 @@
+"""A marked-up copy of the drawing: the computed forces on layers of our own.
+
+The copy keeps every original entity as it was (same handles, layers,
+geometry and header; blocks and paper-space layouts untouched) and adds, on
+two new layers,
+
+* the force layer: an arrow for every pin force (the force on the first part
+  the pin joins), each shoe's normal and friction resultants on their lines of action,
+  each applied load, and a pair of arrowheads at the middle of each
+  two-force member (pointing out for tension, in for compression);
+* the note layer: a label with name and magnitude beside each arrow, each
+  member's axial force written along it, and a summary block (torque per
+  direction, μ, the efforts, the force scale, the verdict when a spec was
+  judged, the caution).
+
+Arrows are a LINE plus a filled SOLID head, labels are TEXT: entities every
+DXF version (R12 included) and every viewer shows the same way.  Arrow
+lengths are scaled so that the largest force is :data:`ARROW_FRACTION` of
+the drum diameter, with a round scale stated in the summary.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+import os
+from collections.abc import Sequence
+from dataclasses import dataclass
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from dxfcheck.core.config import Config
+from dxfcheck.core.errors import ConfigError
+from dxfcheck.core.files import MARKER, atomic_target
+from dxfcheck.core.geometry import Point
+from dxfcheck.core.textsafe import one_line
+from dxfcheck.core.version import __version__
+from dxfcheck.output.text import CAUTION
+from dxfcheck.read.drawing import BINARY_SENTINEL, load_document, raw_header_values
+from dxfcheck.statics import CaseSolution, Solution
+from dxfcheck.statics.contact import Direction
+
+if TYPE_CHECKING:
+    from dxfcheck.gate.rules import Judgement
+
+__all__ = [
+    "ARROW_FRACTION",
+    "Arrow",
+    "Markup",
+    "MemberNote",
+    "add_markup",
+    "marked_document",
+    "plan_markup",
+    "save_copy",
+]
+
+#: The largest force arrow is this fraction of the drum diameter.
+ARROW_FRACTION = 0.5
+#: Arrowhead length as a fraction of the drum diameter.
+HEAD_FRACTION = 0.03
+#: Arrowhead width over its length.
+HEAD_ASPECT = 0.4
+#: Label text height as a fraction of the drum diameter.
+TEXT_FRACTION = 0.03
+#: Smallest label height [mm].
+TEXT_MIN_MM = 2.5
+#: Approximate width of one character over the text height.
+CHAR_ASPECT = 0.62
+#: Turns from the arrow's direction tried when placing a label [degrees].
+LABEL_TURNS_DEG = (0, 30, -30, 60, -60, 90, -90, 120, -120, 150, -150, 180)
+#: The largest pressure curve stands this fraction of the drum diameter
+#: off its base circle, which is this other fraction outside the drum.
+CURVE_FRACTION = 0.12
+CURVE_GAP_FRACTION = 0.03
+#: Clear space kept between a label and any line, over the text height.
+LABEL_PAD = 0.4
+#: ACI colours and lineweights [1/100 mm] of the new layers.
+FORCE_COLOR = 6
+NOTE_COLOR = 5
+FORCE_LINEWEIGHT = 50
+NOTE_LINEWEIGHT = 25
+
+
+@dataclass(frozen=True)
+class Arrow:
+    """A force drawn as an arrow, in world [mm].
+
+    Attributes
+    ----------
+    kind : str
+        ``pin``, ``normal``, ``friction``, ``load``, ``band`` or ``spring``.
+    name : str
+        What it belongs to (pin, shoe or load name).
+    tail, head : Point
+        Ends of the arrow [mm]; the tail is the point of application.
+    force : Point
+        The force [N].
+    label : str
+    """
+
+    kind: str
+    name: str
+    tail: Point
+    head: Point
+    force: Point
+    label: str
+
+    @property
+    def force_N(self) -> float:
+        return math.hypot(*self.force)
+
+
+@dataclass(frozen=True)
+class MemberNote:
+    """A two-force member's axial force written along it."""
+
+    name: str
+    ends: tuple[Point, Point]
+    axial_N: float
+    label: str
+
+
+@dataclass(frozen=True)
+class Markup:
+    """Everything a marked-up copy adds, in world [mm].
+
+    Attributes
+    ----------
+    direction : Direction
+    mm_per_N : float
+        Arrow length per newton [mm/N].
+    scale_text : str
+    text_height_mm : float
+    head_mm : float
+        Arrowhead length [mm].
+    arrows : tuple of Arrow
+    members : tuple of MemberNote
+    summary : tuple of str
+    anchor : Point
+        Top-left corner of the summary block [mm].
+    curves : tuple of (str, tuple of Point)
+        Each shoe's pressure distribution drawn outside the drum: the
+        distance from the curve to the drum circle is proportional to the
+        line load (label, points [mm]).
+    """
+
+    direction: Direction
+    mm_per_N: float
+    scale_text: str
+    text_height_mm: float
+    head_mm: float
+    arrows: tuple[Arrow, ...]
+    members: tuple[MemberNote, ...]
+    summary: tuple[str, ...]
+    anchor: Point
+    curves: tuple[tuple[str, tuple[Point, ...]], ...] = ()
+
+
+def _fmt_force(f: float) -> str:
+    a = abs(f)
+    if a >= 1000:
+        return f"{a / 1000:.3g} kN"
+    return f"{a:.3g} N"
+
+
+def _nice_scale(mm_per_N: float) -> tuple[float, str]:
+    """Round a scale down to 1, 2 or 5 × 10^k mm per kN."""
+    per_kN = mm_per_N * 1000
+    k = math.floor(math.log10(per_kN))
+    for m in (5, 2, 1):
+        if m * 10**k <= per_kN:
+            nice = m * 10**k
+            break
+    else:  # pragma: no cover - per_kN >= 10**k always
+        nice = 10**k
+    return nice / 1000, f"force scale: {nice:g} mm = 1 kN"
+
+
+def _governing(sol: Solution) -> Direction:
+    """The direction with the lower braking torque (it sets the holding duty)."""
+    return min(sol.cases, key=lambda c: c.torque_Nm).direction
+
+
+def plan_markup(
+    sol: Solution,
+    direction: Direction | str | None = None,
+    judgement: Judgement | None = None,
+) -> Markup:
+    """Lay out the arrows, labels and summary for one drum direction.
+
+    Parameters
+    ----------
+    sol : Solution
+    direction : Direction or str, optional
+        Default: the direction with the lower braking torque.
+    judgement : Judgement, optional
+        Adds the release gate's verdict to the summary.
+    """
+
+    d = Direction(direction) if direction is not None else _governing(sol)
+    try:
+        case: CaseSolution = sol.case(d)
+    except StopIteration:
+        raise ConfigError(f"direction {d} was not solved") from None
+    mech = sol.mechanism
+    drum_d = 2 * mech.drum.radius_mm if mech.drum else mech.length_scale_mm / 4
+    forces: list[tuple[str, str, Point, Point, str]] = []
+    for p in case.pins:
+        forces.append(("pin", p.name, (p.x_mm, p.y_mm), (p.fx_N, p.fy_N), f"{p.name} {_fmt_force(p.force_N)}"))
+    for s in case.shoes:
+        # the solver's normal and friction resultants on the shoe, each on its own line of action
+        forces.append(("normal", s.name, s.normal_at, s.normal_force, f"N {s.name} {_fmt_force(s.normal_N)}"))
+        forces.append(
+            ("friction", s.name, s.friction_at, s.friction_force, f"F {s.name} {_fmt_force(s.friction_resultant_N)}")
+        )
+    for ld in case.loads:
+        forces.append(("load", ld.name, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N), f"{ld.name} {_fmt_force(ld.force_N)}"))
+    for br in case.bands:
+        for end in br.ends:
+            side = "T1" if end.tight else "T2"
+            at = mech.pin(end.pin).center
+            forces.append(("band", br.name, at, end.pull, f"{br.name} {side} {_fmt_force(end.tension_N)}"))
+    for sr in case.springs:
+        for e in sr.ends:
+            if e.part is None:
+                continue
+            state = "T" if sr.state == "tension" else "C"
+            forces.append(("spring", sr.name, e.point, e.force, f"{sr.name} {_fmt_force(sr.force_N)} {state}"))
+    fmax = max([math.hypot(*f[3]) for f in forces] + [1e-300])
+    mm_per_N, scale_text = _nice_scale(ARROW_FRACTION * drum_d / fmax)
+    arrows = tuple(
+        Arrow(kind, name, tail, (tail[0] + mm_per_N * f[0], tail[1] + mm_per_N * f[1]), f, label)
+        for kind, name, tail, f, label in forces
+    )
+    members = tuple(
+        MemberNote(
+            m.name,
+            (
+                (case.pin(m.ends[0]).x_mm, case.pin(m.ends[0]).y_mm),
+                (case.pin(m.ends[1]).x_mm, case.pin(m.ends[1]).y_mm),
+            ),
+            m.axial_N,
+            f"{m.name}: {_fmt_force(m.axial_N)} {m.state}",
+        )
+        for m in case.members
+    )
+    curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()
+    torques = ", ".join(
+        f"{c.direction} {c.torque_Nm:.1f} N·m" if c.brakes else f"{c.direction} does not brake" for c in sol.cases
+    )
+    efforts = ", ".join(
+        [f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads]
+        + [f"{sp.name} {_fmt_force(sp.force_N)} {sp.state}" for sp in case.springs]
+    )
+    summary = [
+        f"dxfcheck: forces for drum {d} at mu = {case.mu:g} ({Path(mech.drawing.path).name})",
+        f"braking torque: {torques}",
+        f"efforts: {efforts}",
+        scale_text,
+    ]
+    if judgement is not None:
+        counts = judgement.counts()
+        summary.append(
+            f"release gate: {str(judgement.verdict).upper()} ({counts['pass']} pass, {counts['fail']} fail, "
+            f"{counts['warn']} warn, {counts['skip']} skipped)"
+        )
+    summary += _wrap(CAUTION, 70)
+    xs = [a.tail[0] for a in arrows] + [a.head[0] for a in arrows]
+    ys = [a.tail[1] for a in arrows] + [a.head[1] for a in arrows]
+    for part in mech.parts:
+        for seg in part.segments:
+            xs += [seg[0][0], seg[1][0]]
+            ys += [seg[0][1], seg[1][1]]
+    if mech.drum is not None:
+        xs += [mech.drum.center[0] - mech.drum.radius_mm, mech.drum.center[0] + mech.drum.radius_mm]
+        ys += [mech.drum.center[1] + mech.drum.radius_mm]
+    h = max(TEXT_MIN_MM, TEXT_FRACTION * drum_d)
+    anchor = (min(xs), max(ys) + h * (len(summary) + 2) * 1.6)
+    return Markup(d, mm_per_N, scale_text, h, HEAD_FRACTION * drum_d, arrows, members, tuple(summary), anchor, curves)
+
+
+def _pressure_curves(case: CaseSolution, drum: Any, drum_d: float) -> tuple[tuple[str, tuple[Point, ...]], ...]:
+    qmax = max([q for s in case.shoes for _, q in s.line_load] + [0.0])
+    if qmax <= 0:
+        return ()
+    k = CURVE_FRACTION * drum_d / qmax
+    gap = CURVE_GAP_FRACTION * drum_d
+    out = []
+    for s in case.shoes:
+        if not s.line_load:
+            continue
+        pts = []
+        for deg, q in s.line_load:
+            t = math.radians(deg)
+            rad = drum.radius_mm + gap + k * max(q, 0.0)
+            pts.append((drum.center[0] + rad * math.cos(t), drum.center[1] + rad * math.sin(t)))
+        label = f"p·b {s.name}: peak {s.peak_line_load_N_per_mm:.3g} N/mm at {s.peak_at_deg:.0f}°"
+        out.append((label, tuple(pts)))
+    return tuple(out)
+
+
+def _wrap(text: str, width: int) -> list[str]:
+    lines: list[str] = []
+    cur = ""
+    for word in text.split():
+        if cur and len(cur) + 1 + len(word) > width:
+            lines.append(cur)
+            cur = word
+        else:
+            cur = f"{cur} {word}".strip()
+    if cur:
+        lines.append(cur)
+    return lines
+
+
+@dataclass
+class _Placer:
+    """Greedy label placement: try spots around the anchor and keep the first
+    that overlaps no label placed before and covers no line (lines are
+    sampled as points); else the spot that is least in the way."""
+
+    height: float
+    boxes: list[tuple[float, float, float, float]]
+    points: list[Point]
+
+    @staticmethod
+    def sample(segments: Sequence[tuple[Point, Point]], step: float) -> list[Point]:
+        pts: list[Point] = []
+        for (x0, y0), (x1, y1) in segments:
+            n = max(1, int(math.hypot(x1 - x0, y1 - y0) / step))
+            pts += [(x0 + (x1 - x0) * i / n, y0 + (y1 - y0) * i / n) for i in range(n + 1)]
+        return pts
+
+    def place(self, text: str, at: Point, away: Point) -> Point:
+        w = CHAR_ASPECT * self.height * len(text)
+        h = self.height
+        ux, uy = away
+        n = math.hypot(ux, uy) or 1.0
+        ux, uy = ux / n, uy / n
+        base = math.atan2(uy, ux)
+        candidates: list[Point] = []
+        for ring in (0.8, 2.0, 3.5):
+            for off_deg in LABEL_TURNS_DEG:
+                ang = base + math.radians(off_deg)
+                cx, cy = at[0] + ring * h * math.cos(ang), at[1] + ring * h * math.sin(ang)
+                # text grows to the right of its insertion point: shift it left when the spot is leftward
+                if math.cos(ang) < -0.3:
+                    cx -= w
+                candidates.append((cx, cy - h / 2))
+        best = candidates[0]
+        best_overlap = math.inf
+        for c in candidates:
+            box = (c[0], c[1], c[0] + w, c[1] + h)
+            overlap = sum(_overlap(box, b) for b in self.boxes)
+            pad = LABEL_PAD * h
+            overlap += (
+                h
+                * h
+                * sum(
+                    1
+                    for q in self.points
+                    if box[0] - pad <= q[0] <= box[2] + pad and box[1] - pad <= q[1] <= box[3] + pad
+                )
+            )
+            if overlap < best_overlap:
+                best, best_overlap = c, overlap
+                if overlap == 0:
+                    break
+        self.boxes.append((best[0], best[1], best[0] + w, best[1] + h))
+        return best
+
+
+def _overlap(a: tuple[float, float, float, float], b: tuple[float, float, float, float]) -> float:
+    dx = min(a[2], b[2]) - max(a[0], b[0])
+    dy = min(a[3], b[3]) - max(a[1], b[1])
+    return dx * dy if dx > 0 and dy > 0 else 0.0
+
+
+def _head(tail: Point, head: Point, length: float) -> tuple[Point, Point, Point] | None:
+    dx, dy = head[0] - tail[0], head[1] - tail[1]
+    n = math.hypot(dx, dy)
+    if n == 0:
+        return None
+    ux, uy = dx / n, dy / n
+    length = min(length, n)
+    bx, by = head[0] - length * ux, head[1] - length * uy
+    hw = HEAD_ASPECT * length / 2
+    return head, (bx - hw * uy, by + hw * ux), (bx + hw * uy, by - hw * ux)
+
+
+def add_markup(
+    doc: Any,
+    markup: Markup,
+    mm_per_unit: float,
+    config: Config | None = None,
+    skeleton: Sequence[tuple[Point, Point]] = (),
+) -> int:
+    """Add the markup's entities to ``doc``'s modelspace on the force and
+    note layers; returns the number of entities added.  ``skeleton`` are the
+    centreline segments [mm] that labels should keep off."""
+    config = config or Config()
+    k = 1.0 / mm_per_unit
+
+    def u(p: Point) -> tuple[float, float]:
+        return (p[0] * k, p[1] * k)
+
+    for name, color, lw in (
+        (config.force_layer, FORCE_COLOR, FORCE_LINEWEIGHT),
+        (config.note_layer, NOTE_COLOR, NOTE_LINEWEIGHT),
+    ):
+        if name not in doc.layers:
+            attribs: dict[str, Any] = {"color": color}
+            if doc.dxfversion > "AC1009":
+                attribs["lineweight"] = lw
+            doc.layers.add(name, **attribs)
+    msp = doc.modelspace()
+    fa = {"layer": config.force_layer}
+    na = {"layer": config.note_layer}
+    h = markup.text_height_mm
+    lines = [(a.tail, a.head) for a in markup.arrows] + [m.ends for m in markup.members]
+    placer = _Placer(h, [], _Placer.sample([*lines, *skeleton], h / 2))
+    count = 0
+    for a in markup.arrows:
+        if a.force_N == 0.0:
+            continue
+        msp.add_line(u(a.tail), u(a.head), dxfattribs=fa)
+        tri = _head(a.tail, a.head, markup.head_mm)
+        if tri is not None:
+            p0, p1, p2 = tri
+            msp.add_solid([u(p0), u(p1), u(p2)], dxfattribs=fa)
+            count += 1
+        pos = placer.place(a.label, a.head, (a.head[0] - a.tail[0], a.head[1] - a.tail[1]))
+        msp.add_text(a.label, height=h * k, dxfattribs={**na, "insert": u(pos)})
+        count += 2
+    for m in markup.members:
+        (x0, y0), (x1, y1) = m.ends
+        mid = ((x0 + x1) / 2, (y0 + y1) / 2)
+        ang = math.atan2(y1 - y0, x1 - x0)
+        ux, uy = math.cos(ang), math.sin(ang)
+        s = markup.head_mm
+        sign = 1.0 if m.axial_N >= 0 else -1.0
+        for end in (1.0, -1.0):
+            base = (mid[0] + end * 0.5 * s * ux, mid[1] + end * 0.5 * s * uy)
+            tip = (base[0] + sign * end * s * ux, base[1] + sign * end * s * uy)
+            tri = _head(base, tip, s)
+            if tri is not None:
+                msp.add_solid([u(tri[0]), u(tri[1]), u(tri[2])], dxfattribs=fa)
+                count += 1
+        rot = math.degrees(ang)
+        if rot > 90 or rot <= -90:
+            rot += 180
+        off = (-uy * 1.2 * h, ux * 1.2 * h) if abs(rot - math.degrees(ang)) < 1e-9 else (uy * 1.2 * h, -ux * 1.2 * h)
+        pos = (mid[0] + off[0], mid[1] + off[1])
+        msp.add_text(m.label, height=h * k, rotation=rot, dxfattribs={**na, "insert": u(pos)})
+        count += 1
+    for label, pts in markup.curves:
+        for p0, p1 in itertools.pairwise(pts):
+            msp.add_line(u(p0), u(p1), dxfattribs=fa)
+            count += 1
+        top = max(pts, key=lambda q: math.hypot(q[0], q[1]))
+        pos = placer.place(label, top, (top[0] - pts[0][0] + 1e-9, top[1] - pts[0][1]))
+        msp.add_text(label, height=h * k, dxfattribs={**na, "insert": u(pos)})
+        count += 1
+    x, y = markup.anchor
+    for line in markup.summary:
+        msp.add_text(line, height=h * k, dxfattribs={**na, "insert": u((x, y))})
+        y -= 1.6 * h
+        count += 1
+    return count
+
+
+def marked_document(sol: Solution, markups: Sequence[Markup], config: Config | None = None) -> Any:
+    """A fresh ezdxf document of the solved drawing with ``markups`` added.
+    The drawing file is only read."""
+
+    mech = sol.mechanism
+    doc, _ = load_document(Path(mech.drawing.path))
+    # ezdxf stamps a fresh creation date on loading: keep the drawing's own
+    for name, value in raw_header_values(Path(mech.drawing.path)).items():
+        doc.header[name] = value
+    skeleton = [seg for part in mech.parts for seg in part.segments]
+    before = {e.dxf.handle for e in doc.modelspace()}
+    for m in markups:
+        add_markup(doc, m, mech.drawing.mm_per_unit, config, skeleton)
+    _printable_texts(doc, before)
+    return doc
+
+
+def _printable_texts(doc: Any, before: set[str]) -> None:
+    """Labels are drawing texts: the control characters in the TEXT entities
+    the markup added are written as visible escapes (a line break would cut
+    a DXF value in two; an ESC sequence garbles viewers)."""
+
+    for e in doc.modelspace().query("TEXT"):
+        if e.dxf.handle not in before:
+            text = one_line(e.dxf.text)
+            if text != e.dxf.text:
+                e.dxf.text = text
+
+
+def _is_binary(path: str | os.PathLike[str]) -> bool:
+
+    try:
+        with open(path, "rb") as fh:
+            return fh.read(len(BINARY_SENTINEL)) == BINARY_SENTINEL
+    except OSError:
+        return False
+
+
+def save_copy(
+    doc: Any,
+    out: str | os.PathLike[str],
+    *,
+    source: str | os.PathLike[str],
+    force: bool = False,
+    protect: tuple[str | os.PathLike[str], ...] = (),
+) -> None:
+    """Write a marked-up ``doc`` to ``out`` atomically, in the format of
+    ``source`` (a binary DXF stays binary, an ASCII one ASCII, the version
+    is the document's), carrying the marker of dxfcheck's outputs
+    (:data:`dxfcheck.core.files.MARKER`): an ASCII file starts with the comment
+    ``999`` / ``DXFCHECK_OUTPUT <version>`` (DXF comments are ignored by
+    readers); a binary one gets the header custom property
+    ``DXFCHECK_OUTPUT`` (R2004 and later) or an APPID of that name (R12,
+    R2000)."""
+
+    binary = _is_binary(source)
+    if binary and doc.dxfversion >= "AC1018":
+        if not doc.header.custom_vars.has_tag(MARKER):
+            doc.header.custom_vars.append(MARKER, __version__)
+    elif binary and MARKER not in doc.appids:
+        doc.appids.new(MARKER)
+    with atomic_target(out, force=force, protect=(source, *protect)) as tmp:
+        if binary:
+            doc.saveas(tmp, fmt="bin")
+        else:
+            with open(tmp, "w", encoding=doc.output_encoding, errors="dxfreplace") as fp:
+                fp.write(f"999\n{MARKER} {__version__}\n")
+                doc.write(fp)

@@ -1,0 +1,2 @@
+"""Stage 5, Judgement × Judgement → Comparison: matching two revisions of a
+drawing and listing what changed."""

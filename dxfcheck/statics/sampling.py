@@ -1,0 +1,331 @@
+"""Design sensitivity: the torque and the loads over the friction range and
+the pins' positional tolerance, by Monte Carlo sampling.
+
+μ is drawn uniformly over its range, every pin's position uniformly within
+its tolerance (a square of side 2 × tolerance about its drawn position).  For
+a given geometry the statics is linear in the unknowns, and every entry of
+the equilibrium matrix is known in closed form from μ and the pin positions:
+moment-row entries move with the pins; shoe columns are affine in μ (the
+pressure laws do not depend on μ), band columns carry e^(μθ) on their tight
+end, and a short pivoted shoe's contact point follows the friction-circle
+construction from its (moved) pin.  So the matrices are assembled once as
+parts and the samples are solved as stacked numpy systems, chunk by chunk.
+
+Part reference points for the moment equations stay where the drawing puts
+them (equilibrium holds about any point).  Loads keep their points.  A long
+pivoted shoe must be in full contact at the nominal geometry (the patch
+trimming of partial contact is not sampled).
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import threading
+import time
+from collections.abc import Sequence
+from concurrent.futures import ThreadPoolExecutor
+from concurrent.futures import TimeoutError as FuturesTimeout
+from dataclasses import dataclass, field
+
+import numpy as np
+from numpy.typing import NDArray
+
+from dxfcheck.core import deadline
+from dxfcheck.core.errors import ConfigError
+from dxfcheck.mechanism import FRAME, Mechanism
+from dxfcheck.statics.contact import ContactOptions, Direction
+from dxfcheck.statics.contact.short_shoe import ShortPivotedShoe
+from dxfcheck.statics.equations import DEFAULT_OPTIONS, assemble, contact_models
+
+__all__ = ["CHUNK", "MAX_SAMPLES", "DirectionStats", "SensitivityResult", "sample_design", "torque_curve"]
+
+#: Samples solved at once (memory: CHUNK × n² × 8 bytes).
+CHUNK = 4_000
+#: Most samples of one run: the pin offsets alone take samples × pins × 16
+#: bytes (a 12-pin linkage: 190 MB at this bound), and the percentiles of a
+#: million samples are steady to far more digits than the inputs.
+MAX_SAMPLES = 1_000_000
+#: Percentiles reported.
+PERCENTILES = (1.0, 5.0, 50.0, 95.0, 99.0)
+
+
+@dataclass(frozen=True)
+class DirectionStats:
+    """Distributions for one drum direction.
+
+    ``torque_Nm`` and ``max_pin_force_N`` map a percentile (or ``min``,
+    ``mean``, ``max``) to its value; ``p_below_required`` is the share of
+    samples whose torque is below the required torque (None without one).
+    """
+
+    direction: str
+    torque_Nm: dict[str, float]
+    max_pin_force_N: dict[str, float]
+    governing_pin: str
+    p_below_required: float | None
+
+
+@dataclass(frozen=True)
+class SensitivityResult:
+    samples: int
+    seed: int
+    mu_range: tuple[float, float]
+    pin_tolerance_mm: float
+    required_torque_Nm: float | None
+    directions: tuple[DirectionStats, ...]
+    seconds: float
+    curve: dict[str, list[tuple[float, float]]] = field(default_factory=dict)
+
+
+def _stats(values: NDArray[np.float64]) -> dict[str, float]:
+    out = {f"p{p:g}": float(np.percentile(values, p)) for p in PERCENTILES}
+    out.update(min=float(values.min()), mean=float(values.mean()), max=float(values.max()))
+    return out
+
+
+class _Parts:
+    """The equilibrium matrix of one direction, split into what is fixed,
+    what scales with μ, with e^(μθ), and with the pin positions."""
+
+    def __init__(self, mech: Mechanism, direction: Direction, options: ContactOptions) -> None:
+        models, _ = contact_models(mech, options)  # fresh models: every lining in full contact
+        s0 = assemble(mech, models, 0.0, direction)
+        s1 = assemble(mech, models, 1.0, direction)
+        self.keep = [i for i in range(s0.a.shape[0]) if i not in s0.dropped]
+        if len(self.keep) != s0.a.shape[1]:
+            raise ConfigError("sampling needs a statically determinate linkage")
+        self.mech = mech
+        self.direction = direction
+        self.b = s0.b[self.keep]
+        a0, a1 = s0.a, s1.a
+        self.fixed = a0.copy()
+        self.mu_part = np.zeros_like(a0)
+        self.exp_part = np.zeros_like(a0)
+        self.exp_theta: dict[int, float] = {}
+        self.torque0 = np.zeros(a0.shape[1])
+        self.torque_mu = np.zeros(a0.shape[1])
+        self.torque_exp = np.zeros(a0.shape[1])
+        self.pivoted: list[tuple[int, ShortPivotedShoe, int]] = []
+        body_row = {p.name: 3 * k for k, p in enumerate(mech.parts)}
+        for j, (kind, name, idx) in enumerate(s0.col_owner):
+            if kind == "shoe":
+                model = models[name]
+                w0, w1 = s0.bases[name][int(idx)], s1.bases[name][int(idx)]
+                if isinstance(model, ShortPivotedShoe):
+                    shoe = next(s for s in mech.shoes if s.name == name)
+                    self.pivoted.append((j, model, body_row[shoe.part]))
+                    self.fixed[:, j] = 0.0
+                    self.torque_mu[j] = w1.torque_per_unit_Nmm  # μ·r per unit normal force
+                    continue
+                self.mu_part[:, j] = a1[:, j] - a0[:, j]
+                self.torque_mu[j] = w1.torque_per_unit_Nmm - w0.torque_per_unit_Nmm
+                self.torque0[j] = w0.torque_per_unit_Nmm
+            elif kind == "band":
+                band = next(b for b in mech.bands if b.name == name)
+                theta = math.radians(band.wrap_deg)
+                tight = (a1[:, j] - a0[:, j]) / (math.exp(theta) - 1.0)
+                self.exp_part[:, j] = tight
+                self.fixed[:, j] = a0[:, j] - tight
+                self.exp_theta[j] = theta
+                self.torque_exp[j] = band.radius_mm  # (e^(μθ) − 1)·r per unit slack tension
+                self.torque0[j] = -band.radius_mm
+        # pin columns: (moment row, column, which coordinate) entries that move with a pin
+        self.pin_terms: list[tuple[int, int, int, int]] = []  # (pin index, row, col, sign·axis)
+        self.pin_cols: list[tuple[int, int]] = []  # (pin index, first column) of the first body
+        c = 0
+        for k, pin in enumerate(mech.pins):
+            first = True
+            for body in pin.bodies:
+                if first:
+                    self.pin_cols.append((k, c))
+                    first = False
+                if body != FRAME:
+                    r = body_row[body] + 2
+                    self.pin_terms.append((k, r, c, 0))  # −dy/L on the x column
+                    self.pin_terms.append((k, r, c + 1, 1))  # +dx/L on the y column
+                c += 2
+        self.L = mech.length_scale_mm
+
+    def prepare(self) -> None:
+        """Keep only the rows that are solved, and the columns that vary."""
+        rows = {orig: new for new, orig in enumerate(self.keep)}
+        self.fixed_k = np.ascontiguousarray(self.fixed[self.keep])
+        self.mu_cols = [j for j in range(self.fixed.shape[1]) if np.any(self.mu_part[:, j])]
+        self.mu_k = {j: self.mu_part[self.keep, j] for j in self.mu_cols}
+        self.exp_k = {j: self.exp_part[self.keep, j] for j in self.exp_theta}
+        self.pin_terms_k = [(k, rows[r], c, axis) for k, r, c, axis in self.pin_terms if r in rows]
+        pin_index = {p.center: i for i, p in enumerate(self.mech.pins)}
+        self.pivoted_k = [
+            (j, model, pin_index[model.pin_center], rows[row], rows[row + 1], rows.get(row + 2))
+            for j, model, row in self.pivoted
+        ]
+        self._local = threading.local()  # one work buffer per thread
+
+    def solve(
+        self, mu: NDArray[np.float64], dpin: NDArray[np.float64]
+    ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        """Torque [N·m] and every pin's force [N] (on its first body) for each sample."""
+        if not hasattr(self, "fixed_k"):
+            self.prepare()
+        n = mu.shape[0]
+        buf = getattr(self._local, "buf", None)
+        if buf is None or buf.shape[0] < n:
+            buf = self._local.buf = np.empty((n, *self.fixed_k.shape))
+        a = buf[:n]
+        a[:] = self.fixed_k
+        for j in self.mu_cols:
+            a[:, :, j] += mu[:, None] * self.mu_k[j]
+        for j, theta in self.exp_theta.items():
+            a[:, :, j] += np.exp(mu * theta)[:, None] * self.exp_k[j]
+        for k, r, c, axis in self.pin_terms_k:
+            if axis == 0:
+                a[:, r, c] -= dpin[:, k, 1] / self.L
+            else:
+                a[:, r, c] += dpin[:, k, 0] / self.L
+        pins = self.mech.pins
+        for j, model, k, r0, r1, r2 in self.pivoted_k:
+            fx, fy, px_c, py_c = _pivoted_contact(model, mu, dpin[:, k, :], self.direction)
+            a[:, r0, j] = fx
+            a[:, r1, j] = fy
+            if r2 is not None:
+                ref = pins[k].center
+                a[:, r2, j] = ((px_c - ref[0]) * fy - (py_c - ref[1]) * fx) / self.L
+        x = np.linalg.solve(a, np.broadcast_to(self.b, (n, self.b.shape[0]))[..., None])[..., 0]
+        torque = x @ self.torque0 + (mu[:, None] * x) @ self.torque_mu
+        for j, theta in self.exp_theta.items():
+            torque += x[:, j] * np.exp(mu * theta) * self.torque_exp[j]
+        forces = np.stack([np.hypot(x[:, c], x[:, c + 1]) for _, c in self.pin_cols], axis=1)
+        return torque / 1000.0, forces
+
+
+def _pivoted_contact(
+    model: ShortPivotedShoe, mu: NDArray[np.float64], dpin: NDArray[np.float64], direction: Direction
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
+    """Vectorised friction-circle contact (see ShortPivotedShoe.wrench)."""
+    cx, cy = model.drum.center
+    r = model.drum.radius_mm
+    px = model.pin_center[0] + dpin[:, 0] - cx
+    py = model.pin_center[1] + dpin[:, 1] - cy
+    p = np.hypot(px, py)
+    beta = np.arctan2(py, px)
+    s = float(direction.sign)
+    phi_s = s * np.arctan(mu)
+    k = np.clip(r * np.sin(phi_s) / p, -1.0, 1.0)
+    asn = np.arcsin(k)
+    mid = math.radians(model.shoe.arc.mid_deg)
+    sgn = -1.0 if model.shoe.internal else 1.0
+    best_alpha = np.full_like(mu, np.nan)
+    best_off = np.full_like(mu, np.inf)
+    for delta in (asn - phi_s, np.pi - asn - phi_s) if model.shoe.internal else (phi_s - asn, phi_s - np.pi + asn):
+        alpha = beta - delta
+        nx, ny = sgn * np.cos(alpha), sgn * np.sin(alpha)
+        tx, ty = -s * np.sin(alpha), s * np.cos(alpha)
+        fx, fy = nx + mu * tx, ny + mu * ty
+        qx, qy = r * np.cos(alpha), r * np.sin(alpha)
+        ahead = (px - qx) * fx + (py - qy) * fy > 0
+        off = np.abs(np.remainder(alpha - mid + np.pi, 2 * np.pi) - np.pi)
+        better = ahead & (off < best_off)
+        best_alpha = np.where(better, alpha, best_alpha)
+        best_off = np.where(better, off, best_off)
+    alpha = best_alpha
+    nx, ny = sgn * np.cos(alpha), sgn * np.sin(alpha)
+    tx, ty = -s * np.sin(alpha), s * np.cos(alpha)
+    return nx + mu * tx, ny + mu * ty, cx + r * np.cos(alpha), cy + r * np.sin(alpha)
+
+
+def _chunk(
+    parts: _Parts, mu: NDArray[np.float64], dpin: NDArray[np.float64]
+) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+    deadline.check("sampling")  # a chunk that starts after the deadline is not solved
+    return parts.solve(mu, dpin)
+
+
+def _solve_chunks(
+    parts: _Parts, mu_all: NDArray[np.float64], dpin_all: NDArray[np.float64], chunk: int
+) -> list[tuple[NDArray[np.float64], NDArray[np.float64]]]:
+    """Every chunk of samples solved on a thread pool (numpy's batched
+    solve releases the GIL: chunks run on every core), within the run's
+    deadline: each result is waited for no longer than the time left, and
+    on the deadline the chunks not started are cancelled and the pool is
+    left without waiting for the one running."""
+    pool = ThreadPoolExecutor(max_workers=os.cpu_count() or 1)
+    done = False
+    try:
+        futures = [
+            pool.submit(_chunk, parts, mu_all[i : i + chunk], dpin_all[i : i + chunk])
+            for i in range(0, len(mu_all), chunk)
+        ]
+        results = []
+        for f in futures:
+            try:
+                results.append(f.result(timeout=deadline.remaining()))
+            except FuturesTimeout:
+                raise deadline.TimeLimitExceeded(deadline.limit_seconds() or 0.0, "sampling") from None
+        done = True
+        return results
+    finally:
+        pool.shutdown(wait=done, cancel_futures=True)
+
+
+def sample_design(
+    mech: Mechanism,
+    mu_range: tuple[float, float],
+    samples: int,
+    *,
+    pin_tolerance_mm: float = 0.0,
+    seed: int = 0,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    options: ContactOptions = DEFAULT_OPTIONS,
+    required_torque_Nm: float | None = None,
+    chunk: int = CHUNK,
+) -> SensitivityResult:
+    """Sample μ and the pin positions and solve every sample exactly.
+
+    Raises
+    ------
+    ConfigError
+        On a bad range or sample count, or a linkage that cannot be sampled.
+    """
+    lo, hi = mu_range
+    if not (0 <= lo <= hi < math.inf) or not 1 <= samples <= MAX_SAMPLES or not 0 <= pin_tolerance_mm < math.inf:
+        raise ConfigError(
+            f"sampling needs 0 ≤ mu_min ≤ mu_max, 1 to {MAX_SAMPLES:,} samples and a tolerance ≥ 0 "
+            f"(got μ {lo:g}..{hi:g}, {samples} samples, tolerance {pin_tolerance_mm:g} mm)"
+        )
+    rng = np.random.default_rng(seed)
+    t0 = time.perf_counter()
+    stats = []
+    curve: dict[str, list[tuple[float, float]]] = {}
+    for d in directions:
+        direction = Direction(d)
+        parts = _Parts(mech, direction, options)
+        parts.prepare()
+        mu_all = rng.uniform(lo, hi, samples)
+        dpin_all = rng.uniform(-pin_tolerance_mm, pin_tolerance_mm, (samples, len(mech.pins), 2))
+        results = _solve_chunks(parts, mu_all, dpin_all, chunk)
+        torque = np.concatenate([t for t, _ in results])
+        force = np.concatenate([f for _, f in results])
+        worst = int(np.argmax(np.percentile(force, 95, axis=0)))
+        below = None if required_torque_Nm is None else float(np.mean(torque < required_torque_Nm))
+        stats.append(
+            DirectionStats(str(direction), _stats(torque), _stats(force[:, worst]), mech.pins[worst].name, below)
+        )
+        grid = np.linspace(lo, hi, 41)
+        t_grid, _ = parts.solve(grid, np.zeros((grid.size, len(mech.pins), 2)))
+        curve[str(direction)] = [(float(m), float(t)) for m, t in zip(grid, t_grid, strict=True)]
+    return SensitivityResult(
+        samples, seed, (lo, hi), pin_tolerance_mm, required_torque_Nm, tuple(stats), time.perf_counter() - t0, curve
+    )
+
+
+def torque_curve(
+    mech: Mechanism,
+    mu_values: NDArray[np.float64],
+    direction: Direction | str,
+    options: ContactOptions = DEFAULT_OPTIONS,
+) -> NDArray[np.float64]:
+    """Braking torque [N·m] at each μ for the drawn geometry (vectorised)."""
+    parts = _Parts(mech, Direction(direction), options)
+    t, _ = parts.solve(np.asarray(mu_values, dtype=float), np.zeros((len(mu_values), len(mech.pins), 2)))
+    return t

@@ -1,0 +1,567 @@
+"""Planar rigid-body statics of the whole brake linkage, with Coulomb
+friction at the shoes.
+
+The method is the general one of planar statics (the "method of members" for
+frames and machines): every moving part contributes three equilibrium
+equations (two force sums and one moment sum); every pin is a massless
+particle with two equations; the unknowns are the components of the force
+each pin exerts on each body it joins (the frame included for pivots) and
+one scalar per shoe, the shoe's normal force.  Two-force and three-force
+members are not special-cased: they come out of the one linear solve.
+
+Before solving, the equations are examined by singular-value decomposition:
+
+* a left null vector (an equation combination the unknowns cannot reach)
+  is a *free motion* of the linkage; if the loads do work on it, the drawing
+  shows a mechanism, not a brake, and the parts that move are named;
+* a right null vector is a *self-stress*: the linkage is statically
+  indeterminate (redundant) and its pin forces are not fixed by statics.
+
+The self-locking limit is the friction coefficient at which the equations
+become singular with every shoe pressing on the drum: there the drum holds
+the shoes on with no effort at all.
+
+References
+----------
+.. [1] F. P. Beer, E. R. Johnston et al., *Vector Mechanics for Engineers:
+   Statics*, 11th ed., McGraw-Hill, 2016, ch. 4 (equilibrium of rigid
+   bodies, statical indeterminacy) and ch. 6.3 (frames and machines).
+.. [2] G. Strang, *Linear Algebra and Its Applications*, 4th ed., 2006,
+   §6.3 (singular value decomposition: rank and the four subspaces).
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from dataclasses import replace
+
+import numpy as np
+from numpy.typing import NDArray
+
+from dxfcheck.core.errors import SolveError
+from dxfcheck.core.findings import Code, Finding, Severity, has_errors
+from dxfcheck.core.geometry import Point, dist
+from dxfcheck.mechanism import Band, Mechanism
+from dxfcheck.statics.contact import (
+    ContactModel,
+    ContactOptions,
+    ContactWrench,
+    Direction,
+    ShoeModelChoice,
+    combine,
+    line_of_action_point,
+    moment_about_center,
+)
+from dxfcheck.statics.contact.long_shoe import LongPivotedShoe, equivalent_mu
+from dxfcheck.statics.diagnosis import CONDITION_WARN, diagnose
+from dxfcheck.statics.equations import (
+    DEFAULT_OPTIONS,
+    System,
+    assemble,
+    band_ratio,
+    coefficients,
+    contact_models,
+    solve_system,
+    tight_at_end,
+)
+from dxfcheck.statics.locking import critical_mu
+from dxfcheck.statics.results import (
+    Attachment,
+    BandEnd,
+    BandResult,
+    CaseSolution,
+    LoadResult,
+    MemberResult,
+    PinResult,
+    ShoeResult,
+    Solution,
+    SpringEnd,
+    SpringResult,
+)
+from dxfcheck.statics.verify import verify_case
+
+__all__ = [
+    "Attachment",
+    "BandEnd",
+    "BandResult",
+    "CaseSolution",
+    "LoadResult",
+    "MemberResult",
+    "PinResult",
+    "ShoeResult",
+    "Solution",
+    "SpringEnd",
+    "SpringResult",
+    "critical_mu",
+    "solve",
+    "solve_case",
+    "solve_for_torque",
+]
+
+#: Largest relative equilibrium residual accepted.
+RESIDUAL_LIMIT = 1e-8
+#: A normal force below minus this fraction of the largest force means the
+#: shoe would have to pull on the drum.
+LIFT_RTOL = 1e-9
+#: μ this close (relative) to the self-locking limit counts as at the limit.
+AT_LIMIT_RTOL = 1e-6
+#: Most re-solves while pivoted long shoes settle their contact patches.
+PATCH_ITERATIONS = 30
+
+
+def _settle_contact(
+    mech: Mechanism, models: dict[str, ContactModel], sys_: System, mu: float, direction: Direction
+) -> tuple[System, NDArray[np.float64]]:
+    """Solve, then trim each pivoted long shoe's contact patch to where the
+    pressure is not negative and solve again, until no patch changes.
+
+    Raises
+    ------
+    SolveError
+        With S313 when the patches do not settle, or the equations become
+        singular on a trimmed patch: no contact with positive pressure
+        everywhere balances the loads.
+    """
+    changed: list[str] = []
+    for k in range(PATCH_ITERATIONS + 1):
+        try:
+            x = solve_system(sys_)
+        except np.linalg.LinAlgError:
+            if k == 0:
+                raise SolveError(
+                    f"{direction}: the equilibrium equations are singular", path=mech.drawing.path
+                ) from None
+            break
+        changed = [s.name for s in mech.shoes if models[s.name].refine(coefficients(sys_, x, s.name), mu, direction)]
+        edge = [s.name for s in mech.shoes if getattr(models[s.name], "on_edge", False)]
+        if edge:
+            changed = edge
+            break
+        if not changed:
+            return sys_, x
+        sys_ = assemble(mech, models, mu, direction)
+    names = changed or [s.name for s in mech.shoes if getattr(models[s.name], "partial", False)]
+    shoes = [s for s in mech.shoes if s.name in names] or list(mech.shoes)
+    raise SolveError(
+        f"{direction}: the shoes' contact cannot be settled",
+        path=mech.drawing.path,
+        findings=[
+            Finding(
+                Code.CONTACT_UNSETTLED,
+                f"{direction}: shoe {s.name}: no contact patch with a positive pressure everywhere balances the "
+                "loads (the patch keeps moving, shrinks to the lining's edge, or the linkage locks on it); check the "
+                "shoe pin's position against the lining, and the lining's extent",
+                (s.arc.source.ref,),
+                (s.arc.source.layer,),
+                s.arc.point_at(s.arc.mid_deg),
+            )
+            for s in shoes
+        ],
+    )
+
+
+def solve_case(
+    mech: Mechanism,
+    mu: float,
+    direction: Direction | str,
+    options: ContactOptions = DEFAULT_OPTIONS,
+    *,
+    locking: bool = True,
+) -> CaseSolution:
+    """Solve the statics of one drum direction.
+
+    Parameters
+    ----------
+    mech : Mechanism
+        A mechanism without error findings.
+    mu : float
+        Coefficient of friction between lining and drum [-].
+    direction : Direction or str
+        ``"cw"`` or ``"ccw"``, as seen in the drawing.
+    options : ContactOptions
+        Shoe theory (short, long or auto) and the auto threshold.
+    locking : bool
+        Search for the self-locking limit (``critical_mu``); False skips the
+        search and reports none.
+
+    Returns
+    -------
+    CaseSolution
+
+    Raises
+    ------
+    SolveError
+        When the linkage has a free motion the loads drive, or is redundant;
+        the error carries the findings that name the parts and pins.
+    """
+    try:
+        return _solve_case(mech, mu, Direction(direction), options, locking)
+    except SolveError as exc:
+        raise _with_warnings(mech, exc) from None
+
+
+def _with_warnings(mech: Mechanism, exc: SolveError) -> SolveError:
+    """``exc`` with the mechanism's warnings after its errors: a refusal
+    shows the reading and topology findings that may explain it (an open
+    end, a one-part pin) even though they are only warnings."""
+    errors = list(exc.findings)
+    warnings = [f for f in mech.findings if f.severity is Severity.WARNING and f not in errors]
+    # warnings on the entities an error names first
+    named = {h for f in errors for h in f.handles}
+    warnings.sort(key=lambda f: not (set(f.handles) & named))
+    return SolveError(exc.message, path=exc.path, findings=[*errors, *warnings])
+
+
+def _solve_case(
+    mech: Mechanism, mu: float, direction: Direction, options: ContactOptions, locking: bool
+) -> CaseSolution:
+    if has_errors(list(mech.findings)):
+        raise SolveError(
+            "the mechanism has errors; fix the drawing first",
+            path=mech.drawing.path,
+            findings=[f for f in mech.findings if f.severity is Severity.ERROR],
+        )
+    if not math.isfinite(mu) or mu < 0:
+        raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
+    models, notes = contact_models(mech, options)
+    sys_ = assemble(mech, models, mu, direction)
+    if has_errors(sys_.findings):  # a contact model that cannot place its force explains the rest
+        raise SolveError(
+            f"{direction}: a shoe's contact cannot be placed",
+            path=mech.drawing.path,
+            findings=[f for f in sys_.findings if f.severity is Severity.ERROR],
+        )
+    findings, cond = diagnose(mech, sys_, direction)
+    if has_errors(findings) or cond > CONDITION_WARN:
+        mu_c = critical_mu(mech, direction, options)
+        if mu_c is not None and abs(mu - mu_c) <= AT_LIMIT_RTOL * max(1.0, mu_c):
+            raise SolveError(
+                f"{direction}: μ = {mu:g} is at the self-locking limit",
+                path=mech.drawing.path,
+                findings=[
+                    Finding(
+                        Code.SELF_LOCKING,
+                        f"{direction}: μ = {mu:g} is at the self-locking limit (critical μ = {mu_c:.6g}): the "
+                        "equations are singular there, any effort or none holds the brake; move away from it",
+                    )
+                ],
+            )
+    if has_errors(findings):
+        raise SolveError(
+            f"{direction}: the linkage cannot be solved",
+            path=mech.drawing.path,
+            findings=[f for f in findings if f.severity is Severity.ERROR],
+        )
+    sys_, x = _settle_contact(mech, models, sys_, mu, direction)
+    findings = list(dict.fromkeys([*notes, *sys_.findings, *findings]))
+    fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(sys_.b).max(initial=0.0)), 1e-300)
+    residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale
+    if residual > RESIDUAL_LIMIT:
+        findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
+    case = _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options if locking else None)
+    verify_case(mech, case)
+    return case
+
+
+def _shoe_result(
+    mech: Mechanism, model: ContactModel, ws: tuple[ContactWrench, ...], coeffs: list[float], mu: float
+) -> ShoeResult:
+    s = next(sh for sh in mech.shoes if sh.name == ws[0].model or sh is getattr(model, "shoe", None))
+    force, normal, friction, torque = combine(ws, coeffs)
+    assert mech.drum is not None
+    center, radius = mech.drum.center, mech.drum.radius_mm
+    m_o = moment_about_center(ws, coeffs, center)
+    point = line_of_action_point(center, radius, force, m_o, s.arc.mid_deg)
+    total = sum(c * w.torque_per_unit_Nmm for c, w in zip(coeffs, ws, strict=True))
+    sign = 1.0 if total >= 0 else -1.0
+    peak, peak_deg = model.peak(coeffs)
+    load = tuple(
+        (ws[0].line_load[k][0], sum(c * w.line_load[k][1] for c, w in zip(coeffs, ws, strict=True)))
+        for k in range(len(ws[0].line_load))
+    )
+    offset = model.offset_deg(coeffs) if isinstance(model, LongPivotedShoe) else None
+    patch = (
+        (math.degrees(model.patch[0]) % 360, math.degrees(model.patch[1]) % 360)
+        if isinstance(model, LongPivotedShoe)
+        else (s.arc.start_deg, s.arc.end_deg)
+    )
+    # the normal forces are radial: their resultant runs through the axis and
+    # the whole moment about the axis is the friction's
+    normal_at = line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg)
+    friction_at = _foot_of_line(center, friction, m_o, point)
+    return ShoeResult(
+        name=s.name,
+        part=s.part,
+        model=model.name,
+        mounting=str(s.mounting),
+        contact_angle_deg=s.contact_angle_deg,
+        normal_N=sign * math.hypot(*normal),
+        friction_resultant_N=sign * math.hypot(*friction),
+        friction_lining_N=torque / radius,
+        torque_Nm=torque / 1000.0,
+        contact=point,
+        force=force,
+        normal_force=normal,
+        normal_at=normal_at,
+        friction_force=friction,
+        friction_at=friction_at,
+        internal=s.internal,
+        peak_line_load_N_per_mm=peak,
+        peak_at_deg=peak_deg,
+        mu_equivalent=equivalent_mu(mu, s.contact_angle_deg),
+        pressure_offset_deg=offset,
+        contact_from_deg=patch[0],
+        contact_to_deg=patch[1],
+        line_load=load,
+    )
+
+
+def _foot_of_line(center: Point, force: Point, moment: float, fallback: Point) -> Point:
+    """The foot of the perpendicular from ``center`` to the line of action of
+    ``force`` [N] whose moment about ``center`` is ``moment`` [N·mm]."""
+    f2 = force[0] ** 2 + force[1] ** 2
+    if f2 == 0.0:
+        return fallback
+    return (center[0] + moment * force[1] / f2, center[1] - moment * force[0] / f2)
+
+
+def _band_result(band: Band, slack: float, mu: float, direction: Direction) -> BandResult:
+    tight = slack * band_ratio(band, mu)
+    at_end = tight_at_end(direction)
+    ends = []
+    for pin, u, deg, is_tight in (
+        (band.start_pin, band.start_dir, band.start_deg, not at_end),
+        (band.end_pin, band.end_dir, band.end_deg, at_end),
+    ):
+        t = tight if is_tight else slack
+        tangent = (
+            band.center[0] + band.radius_mm * math.cos(math.radians(deg)),
+            band.center[1] + band.radius_mm * math.sin(math.radians(deg)),
+        )
+        ends.append(BandEnd(pin, is_tight, t, tangent, (t * u[0], t * u[1])))
+    return BandResult(
+        name=band.name,
+        kind=band.kind,
+        tight_N=tight,
+        slack_N=slack,
+        tight_pin=band.end_pin if at_end else band.start_pin,
+        slack_pin=band.start_pin if at_end else band.end_pin,
+        wrap_deg=band.wrap_deg,
+        torque_Nm=(tight - slack) * band.radius_mm / 1000.0,
+        peak_line_load_N_per_mm=tight / band.radius_mm,
+        ends=tuple(ends),
+    )
+
+
+def _results(
+    mech: Mechanism,
+    models: dict[str, ContactModel],
+    sys_: System,
+    x: NDArray[np.float64],
+    mu: float,
+    direction: Direction,
+    residual: float,
+    cond: float,
+    findings: list[Finding],
+    options: ContactOptions | None,
+) -> CaseSolution:
+    """The results of one solve; ``options`` None skips the self-locking
+    search."""
+    att: dict[str, list[Attachment]] = {}
+    j = 0
+    while j < len(sys_.col_owner):
+        kind, name, body = sys_.col_owner[j]
+        if kind == "pin":
+            att.setdefault(name, []).append(Attachment(body, float(x[j]), float(x[j + 1])))
+            j += 2
+        else:
+            j += 1
+    shoes = [
+        _shoe_result(mech, models[s.name], sys_.bases[s.name], coefficients(sys_, x, s.name), mu) for s in mech.shoes
+    ]
+    pins: list[PinResult] = []
+    for p in mech.pins:
+        lst = att[p.name]
+        first = lst[0]
+        pins.append(
+            PinResult(
+                name=p.name,
+                x_mm=p.center[0],
+                y_mm=p.center[1],
+                diameter_mm=p.diameter_mm,
+                grounded=p.grounded,
+                parts=p.bodies,
+                fx_N=first.fx_N,
+                fy_N=first.fy_N,
+                force_N=first.force_N,
+                max_force_N=max(a.force_N for a in lst),
+                attachments=tuple(lst),
+            )
+        )
+    shoe_parts = {s.part for s in mech.shoes}
+    loaded = {ld.part for ld in mech.loads} | {p for sp in mech.springs for p in sp.parts if p}
+    members: list[MemberResult] = []
+    for part in mech.parts:
+        if len(part.pins) != 2 or part.name in shoe_parts or part.name in loaded:
+            continue
+        pa, pb = mech.pin(part.pins[0]), mech.pin(part.pins[1])
+        length = dist(pa.center, pb.center)
+        if length <= mech.tolerance_mm:
+            continue
+        ux, uy = (pb.center[0] - pa.center[0]) / length, (pb.center[1] - pa.center[1]) / length
+        fb = next(a for a in att[pb.name] if a.body == part.name)
+        members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
+    loads = tuple(LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part)
+    bands: list[BandResult] = []
+    for j, (kind, name, _) in enumerate(sys_.col_owner):
+        if kind != "band":
+            continue
+        band = next(b for b in mech.bands if b.name == name)
+        bands.append(_band_result(band, float(x[j]), mu, direction))
+    torque = sum(s.torque_Nm for s in shoes) + sum(b.torque_Nm for b in bands)
+    mu_c = critical_mu(mech, direction, options) if options is not None else None
+    fmax = max(
+        [abs(s.normal_N) for s in shoes] + [abs(b.tight_N) for b in bands] + [ld.force_N for ld in loads] + [1e-300]
+    )
+    locked = mu_c is not None and mu >= mu_c
+    if locked:
+        findings.append(
+            Finding(
+                Code.SELF_LOCKING,
+                f"{direction}: the brake self-locks at μ = {mu:g} (critical μ = {mu_c:.4g}): the drum drags "
+                "the shoes on with no effort, and the effort would have to pull them off",
+            )
+        )
+    else:
+        for br in bands:
+            if br.slack_N < -LIFT_RTOL * fmax:
+                band = next(b for b in mech.bands if b.name == br.name)
+                findings.append(
+                    Finding(
+                        Code.BAND_SLACK,
+                        f"{direction}: {br.name} would have to push (tension {br.slack_N:.4g} N): under these "
+                        "loads the band goes slack",
+                        tuple(s.ref for s in band.sources),
+                        tuple(s.layer for s in band.sources),
+                    )
+                )
+        all_lift = bool(shoes) and all(sr.normal_N < -LIFT_RTOL * fmax for sr in shoes)
+        spring_hint = (
+            "; every shoe lifts while a spring sets the brake: is the spring's sense reversed? ('C' pushes its "
+            "ends apart, 'T' pulls them together)"
+            if all_lift and mech.springs
+            else ""
+        )
+        for sr in shoes:
+            if sr.normal_N < -LIFT_RTOL * fmax:
+                sh = next(x for x in mech.shoes if x.name == sr.name)
+                findings.append(
+                    Finding(
+                        Code.SHOE_LIFTS,
+                        f"{direction}: shoe {sr.name} would have to pull on the drum (normal force "
+                        f"{sr.normal_N:.4g} N): under these loads it lifts off"
+                        + (spring_hint if sr is shoes[0] else ""),
+                        (sh.arc.source.ref,),
+                        (sh.arc.source.layer,),
+                        sr.contact,
+                    )
+                )
+    return CaseSolution(
+        direction=direction,
+        mu=mu,
+        torque_Nm=torque,
+        shoes=tuple(shoes),
+        pins=tuple(pins),
+        members=tuple(members),
+        loads=loads,
+        critical_mu=mu_c,
+        residual=residual,
+        condition=cond,
+        findings=tuple(findings),
+        bands=tuple(bands),
+        springs=tuple(
+            SpringResult(
+                sp.name,
+                sp.force_N or 0.0,
+                "tension" if sp.tension else "compression",
+                tuple(SpringEnd(sp.parts[k], sp.ends[k], sp.force_on(k)) for k in (0, 1)),
+            )
+            for sp in mech.springs
+        ),
+    )
+
+
+def solve(
+    mech: Mechanism,
+    mu: float,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    options: ContactOptions = DEFAULT_OPTIONS,
+) -> Solution:
+    """Solve every requested drum direction.
+
+    Raises
+    ------
+    SolveError
+        As :func:`solve_case`.
+    """
+    cases = tuple(_beside_short(mech, solve_case(mech, mu, d, options), options) for d in directions)
+    return _solution(mech, cases, options)
+
+
+def _beside_short(mech: Mechanism, case: CaseSolution, options: ContactOptions) -> CaseSolution:
+    """``case`` with the short-shoe torque of the same drawing beside it,
+    where any of its shoes was solved by long-shoe theory."""
+    if not any(s.model.startswith("long") for s in case.shoes):
+        return case
+    short = ContactOptions(ShoeModelChoice.SHORT, options.long_threshold_deg)
+    try:
+        other = solve_case(mech, case.mu, case.direction, short, locking=False)
+    except SolveError:
+        return case
+    return replace(case, short_shoe_torque_Nm=other.torque_Nm)
+
+
+def _solution(mech: Mechanism, cases: tuple[CaseSolution, ...], options: ContactOptions) -> Solution:
+    findings = list(mech.findings)
+    for c in cases:
+        findings += [f for f in c.findings if f not in findings]
+    return Solution(mechanism=mech, cases=cases, findings=tuple(findings), options=options)
+
+
+def solve_for_torque(
+    mech: Mechanism,
+    torque_Nm: float,
+    mu: float,
+    directions: Sequence[Direction | str] = (Direction.CW, Direction.CCW),
+    options: ContactOptions = DEFAULT_OPTIONS,
+) -> Solution:
+    """The inverse question: the efforts that give ``torque_Nm`` [N·m] of
+    braking torque in each direction, and the forces that result.
+
+    For a given μ the statics is linear in the loads, so one solve with the
+    drawing's loads (their ratios kept) gives the torque per unit of them,
+    and a second at the exact scale gives the forces; no search.  Each case's
+    ``effort_scale`` is the factor applied to the drawing's loads and springs.
+
+    Raises
+    ------
+    SolveError
+        As :func:`solve_case`, or when the loads give no positive torque in a
+        direction (the brake would self-lock or the efforts release it).
+    """
+    if not math.isfinite(torque_Nm) or torque_Nm <= 0:
+        raise SolveError(f"the required torque must be positive, got {torque_Nm:g} N·m")
+    cases: list[CaseSolution] = []
+    for d in directions:
+        base = solve_case(mech, mu, d, options)
+        if base.torque_Nm <= 0 or any(f.code is Code.SELF_LOCKING for f in base.findings):
+            raise SolveError(
+                f"{Direction(d)}: the drawing's efforts give {base.torque_Nm:.4g} N·m of braking torque "
+                "(the brake self-locks or the efforts release it); no effort gives the required torque",
+                path=mech.drawing.path,
+            )
+        k = torque_Nm / base.torque_Nm
+        case = _beside_short(mech.scaled(k), solve_case(mech.scaled(k), mu, d, options), options)
+        cases.append(replace(case, effort_scale=k))
+    return _solution(mech.scaled(1.0), tuple(cases), options)
