@@ -8,7 +8,13 @@ The public API, in pipeline order::
     sol = dxfcheck.solve(mech, mu=0.35)                # statics, both drum directions
     sol.case("cw").torque_Nm
 
-or all at once: ``dxfcheck.analyse("brake.dxf", mu=0.35)``.
+or all at once: ``dxfcheck.analyse("brake.dxf", mu=0.35)``.  The release gate
+is ``dxfcheck.check("brake.dxf")`` (a :class:`Judgement` against the
+drawing's :class:`Spec`), the marked-up copy ``dxfcheck.annotate(sol,
+out=...)``, two revisions ``dxfcheck.compare_judgements(old, new)``, and the
+friction range and pin tolerances ``dxfcheck.sensitivity(...)``.  These, and
+the option and result types, load their stage on first use, so that
+``import dxfcheck`` stays light.
 
 dxfcheck is a design aid; final design must follow the applicable codes and
 standards and be checked by a qualified engineer.
@@ -25,6 +31,45 @@ from dxfcheck.pipeline import DEFAULT_MU, analyse
 from dxfcheck.read.drawing import Drawing, read_drawing
 from dxfcheck.statics import CaseSolution, Solution, solve, solve_case
 from dxfcheck.statics.contact import Direction
+
+#: Public names whose stage is imported on first use: name -> module.
+_LAZY = {
+    "check": "dxfcheck.pipeline",
+    "sensitivity": "dxfcheck.pipeline",
+    "Spec": "dxfcheck.gate.spec",
+    "Judgement": "dxfcheck.gate.rules",
+    "RuleResult": "dxfcheck.gate.rules",
+    "Verdict": "dxfcheck.gate.rules",
+    "annotate": "dxfcheck.output.annotate",
+    "compare_judgements": "dxfcheck.revision.compare",
+    "Comparison": "dxfcheck.revision.compare",
+    "Thresholds": "dxfcheck.revision.compare",
+    "SensitivityResult": "dxfcheck.statics.sampling",
+    "ContactOptions": "dxfcheck.statics.contact",
+    "ShoeModelChoice": "dxfcheck.statics.contact",
+    "ShoeResult": "dxfcheck.statics.results",
+    "PinResult": "dxfcheck.statics.results",
+    "BandResult": "dxfcheck.statics.results",
+    "MemberResult": "dxfcheck.statics.results",
+    "SpringResult": "dxfcheck.statics.results",
+    "LoadResult": "dxfcheck.statics.results",
+    "VerificationError": "dxfcheck.core.errors",
+    "OutputError": "dxfcheck.core.errors",
+    "LimitError": "dxfcheck.core.errors",
+    "Sketch": "dxfcheck.output.sketch",
+}
+
+
+def __getattr__(name: str) -> object:
+    """Load a lazily exported name's stage on first use (PEP 562)."""
+    if name in _LAZY:
+        import importlib
+
+        value = getattr(importlib.import_module(_LAZY[name]), name)
+        globals()[name] = value
+        return value
+    raise AttributeError(f"module 'dxfcheck' has no attribute {name!r}")
+
 
 __all__ = [
     "DEFAULT_MU",
@@ -51,4 +96,5 @@ __all__ = [
     "read_drawing",
     "solve",
     "solve_case",
+    *_LAZY,
 ]
