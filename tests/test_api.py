@@ -32,3 +32,13 @@ def test_the_gate_is_public(tmp_path):
     j = dxfcheck.check(path, overrides=[("mu", "0.35")])
     assert isinstance(j, dxfcheck.Judgement) and isinstance(j.spec, dxfcheck.Spec)
     assert str(j.verdict) in ("pass", "warn", "fail")
+
+
+def test_errors_are_also_the_builtins_they_stand_for():
+    from dxfcheck.core import errors as e
+
+    assert issubclass(e.ConfigError, ValueError) and issubclass(e.SolveError, ValueError)
+    assert issubclass(e.MechanismError, ValueError) and issubclass(e.OutputError, OSError)
+    assert issubclass(e.LimitError, RuntimeError) and issubclass(e.VerificationError, AssertionError)
+    err = e.OutputError("cannot write", path="x.dxf")
+    assert str(err) == "x.dxf: cannot write" and err.path == "x.dxf"

@@ -5,6 +5,13 @@ user can fix in the drawing are *not* raised one at a time: they are collected
 as :class:`dxfcheck.core.findings.Finding` entries.  An exception is raised only
 when a stage cannot produce its result at all; it carries the findings that
 explain why, so the command line can print every one of them.
+
+Each class also inherits the built-in it stands for, so that code which
+knows nothing of dxfcheck still catches it sensibly: a :class:`ConfigError`,
+:class:`MechanismError` or :class:`SolveError` is a ``ValueError`` (a value
+given to dxfcheck cannot be used), an :class:`OutputError` an ``OSError``, a
+:class:`LimitError` a ``RuntimeError``, a :class:`VerificationError` an
+``AssertionError``.
 """
 
 from __future__ import annotations
@@ -60,19 +67,19 @@ class DrawingReadError(DxfcheckError):
     """The file is missing, unreadable or not a usable DXF drawing."""
 
 
-class ConfigError(DxfcheckError):
+class ConfigError(DxfcheckError, ValueError):
     """A project file (``dxfcheck.toml``) or a command-line value is invalid."""
 
 
-class MechanismError(DxfcheckError):
+class MechanismError(DxfcheckError, ValueError):
     """The drawing was read, but no mechanism can be built from it."""
 
 
-class SolveError(DxfcheckError):
+class SolveError(DxfcheckError, ValueError):
     """The mechanism was built, but its statics cannot be solved."""
 
 
-class OutputError(DxfcheckError):
+class OutputError(DxfcheckError, OSError):
     """An output (marked-up copy, picture, report file) cannot be written."""
 
 
@@ -81,5 +88,5 @@ class VerificationError(DxfcheckError, AssertionError):
     (:mod:`dxfcheck.statics.verify`): an internal error, never a result."""
 
 
-class LimitError(DxfcheckError):
+class LimitError(DxfcheckError, RuntimeError):
     """A size or time limit was reached; an option raises it."""
