@@ -22,7 +22,7 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
 import dxfcheck  # noqa: E402
-from dxfcheck.statics import _assemble, _solve_system, contact_models  # noqa: E402
+from dxfcheck.statics.equations import assemble, contact_models, solve_system  # noqa: E402
 from dxfcheck.statics.contact import Direction  # noqa: E402
 from dxfcheck.statics.sampling import sample_design  # noqa: E402
 
@@ -52,7 +52,7 @@ def main() -> None:
         models, _ = contact_models(moved)
         for direction in (Direction.CW, Direction.CCW):
             # the same linear solve, one sample at a time (no self-locking scan)
-            _solve_system(_assemble(moved, models, mu, direction))
+            solve_system(assemble(moved, models, mu, direction))
     loop = (time.perf_counter() - t0) / loop_n * n
     print(f"{n} samples, both directions:")
     print(
