@@ -20,7 +20,8 @@ full reader (and that to ezdxf's recover mode).
 
 from __future__ import annotations
 
-from collections.abc import Iterator
+import functools
+from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import Any
 
@@ -30,6 +31,13 @@ __all__ = ["MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported",
 #: each block), counted on the entity's own layer: enough to recognise a pin
 #: or drum layer, bounded on a vendor sheet with thousands of holes.
 MAX_LOOSE_CIRCLES_PER_LAYER = 200
+
+#: Polyline flag bits (group code 70; DXF Reference, POLYLINE and
+#: LWPOLYLINE; from memory): closed, 3D polyline, polygon mesh, polyface mesh.
+_CLOSED = 1
+_POLY_3D = 8
+_POLY_MESH = 16
+_POLY_FACE = 64
 
 _KEEP = {"CIRCLE", "ARC", "LINE", "LWPOLYLINE", "POLYLINE", "TEXT", "MTEXT", "INSERT"}
 
@@ -85,16 +93,16 @@ class FastEntity:
 
     @property
     def closed(self) -> bool:
-        return bool(int(self.dxf.get("flags", 0)) & 1)
+        return bool(int(self.dxf.get("flags", 0)) & _CLOSED)
 
     # POLYLINE
     def get_mode(self) -> str:
         flags = int(self.dxf.get("flags", 0))
-        if flags & 16:
+        if flags & _POLY_MESH:
             return "AcDbPolygonMesh"
-        if flags & 64:
+        if flags & _POLY_FACE:
             return "AcDbPolyFaceMesh"
-        if flags & 8:
+        if flags & _POLY_3D:
             return "AcDb3dPolyline"
         return "AcDb2dPolyline"
 
@@ -154,85 +162,165 @@ class FastDocument:
         return self._msp
 
 
+# DXF group codes (AutoCAD DXF Reference, "Group codes in numerical order"
+# and the entity sections' group-code tables; from memory).
+#: Entity type, or the SECTION/ENDSEC/BLOCK/EOF structure markers.
+GC_TYPE = 0
+#: Primary text value (a TEXT's string, an MTEXT's last chunk).
+GC_TEXT = 1
+#: Name: a section's, a block's, the block an INSERT places.
+GC_NAME = 2
+#: More text: an MTEXT's chunks of 250 characters before the last one.
+GC_TEXT_MORE = 3
+#: Entity handle.
+GC_HANDLE = 5
+#: Layer name.
+GC_LAYER = 8
+#: Header variable name (HEADER section).
+GC_HEADER_VAR = 9
+#: Primary point X (10), Y (20), Z (30); other points X at 11-18, Y at 21-28, Z at 31-38.
+GC_X = 10
+GC_Y = 20
+GC_Z = 30
+#: Last point X code of the point range (18; Y 28, Z 38).
+GC_X_LAST = 18
+#: Floating-point value: a circle's or arc's radius, a text's height.
+GC_SIZE = 40
+#: An INSERT's X scale factor.
+GC_XSCALE = 41
+#: An INSERT's Y scale factor; an LWPOLYLINE's or VERTEX's bulge.
+GC_YSCALE_OR_BULGE = 42
+#: An INSERT's (MINSERT's) column and row spacing.
+GC_COLUMN_SPACING = 44
+GC_ROW_SPACING = 45
+#: Angle: an arc's start angle, a text's or INSERT's rotation [degrees].
+GC_ANGLE = 50
+#: An arc's end angle [degrees].
+GC_END_ANGLE = 51
+#: "Entities follow" flag of an INSERT (its ATTRIBs, then SEQEND).
+GC_ATTRIBS_FOLLOW = 66
+#: Space: 1 for paper space, absent or 0 for model space.
+GC_SPACE = 67
+#: Integer flags (polylines: closed, 3D, mesh); an INSERT's column count.
+GC_FLAGS = 70
+#: An INSERT's row count.
+GC_ROW_COUNT = 71
+#: A TEXT's horizontal and vertical alignment.
+GC_HALIGN = 72
+GC_VALIGN = 73
+#: Extrusion direction X, Y, Z.
+GC_EXTRUSION_X = 210
+GC_EXTRUSION_Y = 220
+GC_EXTRUSION_Z = 230
+#: The group codes above as they stand on their line of the file.
+_TYPE, _NAME, _LAYER, _SPACE = str(GC_TYPE), str(GC_NAME), str(GC_LAYER), str(GC_SPACE)
+#: Value of a flag that is set (paper space, attributes follow).
+_FLAG_SET = "1"
+
+#: The point each point group code names, per entity kind (GC_X + k).
+_POINT_NAMES: dict[str, dict[int, str]] = {
+    "CIRCLE": {GC_X: "center"},
+    "ARC": {GC_X: "center"},
+    "LINE": {GC_X: "start", GC_X + 1: "end"},
+    "TEXT": {GC_X: "insert", GC_X + 1: "align_point"},
+    "MTEXT": {GC_X: "insert"},
+    "INSERT": {GC_X: "insert"},
+    "POLYLINE": {GC_X: "elevation_point"},
+}
+#: Structures the group walk keeps besides the entities of :data:`_KEEP`.
+_STRUCTURE = frozenset({"SECTION", "BLOCK", "ENDBLK", "VERTEX", "SEQEND"})
+#: The sections the group walk reads.
+_READ_SECTIONS = frozenset({"HEADER", "BLOCKS", "ENTITIES"})
+#: The container number of model space (blocks count from 0).
+_MODEL_SPACE = -1
+
+
 def _float(v: str) -> float:
     return float(v)
 
 
+def _is_point_code(code: int) -> bool:
+    """A coordinate of a point (X, Y or Z of 10-18) or of the extrusion."""
+    return (GC_X <= code <= GC_Z + 8 and code % 10 <= 8) or code in (GC_EXTRUSION_X, GC_EXTRUSION_Y, GC_EXTRUSION_Z)
+
+
+@functools.cache
+def _attributes(dxftype: str) -> dict[int, tuple[str, Callable[[str], Any]]]:
+    """Group code -> (ezdxf's attribute name, conversion) of the single
+    values one entity kind keeps (points are read by :func:`_point`)."""
+    table: dict[int, tuple[str, Callable[[str], Any]]] = {
+        GC_HANDLE: ("handle", str),
+        GC_LAYER: ("layer", str),
+        GC_SIZE: ("radius" if dxftype in ("CIRCLE", "ARC") else "height", _float),
+        GC_ANGLE: ("start_angle" if dxftype == "ARC" else "rotation", _float),
+        GC_FLAGS: ("flags", int),
+    }
+    if dxftype != "MTEXT":  # an MTEXT's text is its chunks joined
+        table[GC_TEXT] = ("text", str)
+    if dxftype == "ARC":
+        table[GC_END_ANGLE] = ("end_angle", _float)
+    if dxftype == "INSERT":
+        table[GC_NAME] = ("name", str)
+        table[GC_XSCALE] = ("xscale", _float)
+        table[GC_YSCALE_OR_BULGE] = ("yscale", _float)
+        table[GC_COLUMN_SPACING] = ("column_spacing", _float)
+        table[GC_ROW_SPACING] = ("row_spacing", _float)
+        table[GC_FLAGS] = ("column_count", int)
+        table[GC_ROW_COUNT] = ("row_count", int)
+    if dxftype == "TEXT":
+        table[GC_HALIGN] = ("halign", int)
+        table[GC_VALIGN] = ("valign", int)
+    return table
+
+
+def _point(points: dict[int, list[float]], code: int, value: str) -> None:
+    """One coordinate of a point, kept under its X code (the extrusion under
+    :data:`GC_EXTRUSION_X`, (0, 0, 1) until given)."""
+    if code >= GC_EXTRUSION_X:
+        points.setdefault(GC_EXTRUSION_X, [0.0, 0.0, 1.0])[(code - GC_EXTRUSION_X) // 10] = _float(value)
+        return
+    base, axis = GC_X + code % 10, code // 10 - 1  # x, y, z of point 10 + k
+    points.setdefault(base, [0.0, 0.0, 0.0])[axis] = _float(value)
+
+
+def _lw_vertex(vertices: list[list[float]], code: int, value: str) -> None:
+    """An LWPOLYLINE's vertex: X starts one, Y and the bulge complete it."""
+    if code == GC_X:
+        vertices.append([_float(value), 0.0, 0.0])
+    elif vertices:
+        vertices[-1][1 if code == GC_Y else 2] = _float(value)
+
+
 def _entity(dxftype: str, tags: list[tuple[int, str]]) -> FastEntity:
     """Build the stand-in from one entity's tags (group code, value)."""
-    v: dict[str, Any] = {}
-    extra: dict[str, Any] = {}
-    pts: dict[int, list[float]] = {}
-    lw_points: list[list[float]] = []
-    mtext_chunks: list[str] = []
+    values: dict[str, Any] = {}
+    points: dict[int, list[float]] = {}
+    lw_vertices: list[list[float]] = []
+    mtext_chunks: list[str] = []  # the code-3 chunks, then the last one (code 1)
+    attributes = _attributes(dxftype)
+    lw = dxftype == "LWPOLYLINE"
     for code, value in tags:
-        if code == 5:
-            v["handle"] = value
-        elif code == 8:
-            v["layer"] = value
-        elif dxftype == "LWPOLYLINE" and code in (10, 20, 42):
-            if code == 10:
-                lw_points.append([_float(value), 0.0, 0.0])
-            elif lw_points:
-                lw_points[-1][1 if code == 20 else 2] = _float(value)
-        elif 10 <= code <= 18 or 20 <= code <= 28 or 30 <= code <= 38:
-            base, axis = 10 + code % 10, code // 10 - 1  # x, y, z of point 10 + k
-            pts.setdefault(base, [0.0, 0.0, 0.0])[axis] = _float(value)
-        elif code in (210, 220, 230):
-            pts.setdefault(210, [0.0, 0.0, 1.0])[(code - 210) // 10] = _float(value)
-        elif code == 40:
-            v["radius" if dxftype in ("CIRCLE", "ARC") else "height"] = _float(value)
-        elif code == 50:
-            v["start_angle" if dxftype == "ARC" else "rotation"] = _float(value)
-        elif code == 51 and dxftype == "ARC":
-            v["end_angle"] = _float(value)
-        elif code == 1:
-            if dxftype == "MTEXT":
-                mtext_chunks.append(value)  # the last chunk, after the code-3 ones
-            else:
-                v["text"] = value
-        elif code == 3 and dxftype == "MTEXT":
+        if lw and code in (GC_X, GC_Y, GC_YSCALE_OR_BULGE):
+            _lw_vertex(lw_vertices, code, value)
+        elif _is_point_code(code):
+            _point(points, code, value)
+        elif dxftype == "MTEXT" and code in (GC_TEXT, GC_TEXT_MORE):
             mtext_chunks.append(value)
-        elif code == 2 and dxftype == "INSERT":
-            v["name"] = value
-        elif code == 41 and dxftype == "INSERT":
-            v["xscale"] = _float(value)
-        elif code == 42 and dxftype == "INSERT":
-            v["yscale"] = _float(value)
-        elif code == 44 and dxftype == "INSERT":
-            v["column_spacing"] = _float(value)
-        elif code == 45 and dxftype == "INSERT":
-            v["row_spacing"] = _float(value)
-        elif code == 70:
-            if dxftype == "INSERT":
-                v["column_count"] = int(value)
-            else:
-                v["flags"] = int(value)
-        elif code == 71 and dxftype == "INSERT":
-            v["row_count"] = int(value)
-        elif code == 72 and dxftype == "TEXT":
-            v["halign"] = int(value)
-        elif code == 73 and dxftype == "TEXT":
-            v["valign"] = int(value)
-    names = {
-        "CIRCLE": {10: "center"},
-        "ARC": {10: "center"},
-        "LINE": {10: "start", 11: "end"},
-        "TEXT": {10: "insert", 11: "align_point"},
-        "MTEXT": {10: "insert"},
-        "INSERT": {10: "insert"},
-        "POLYLINE": {10: "elevation_point"},
-    }.get(dxftype, {})
-    for base, xyz in pts.items():
-        if base == 210:
-            v["extrusion"] = tuple(xyz)
+        elif code in attributes:
+            name, convert = attributes[code]
+            values[name] = convert(value)
+    names = _POINT_NAMES.get(dxftype, {})
+    for base, xyz in points.items():
+        if base == GC_EXTRUSION_X:
+            values["extrusion"] = tuple(xyz)
         elif base in names:
-            v[names[base]] = tuple(xyz)
+            values[names[base]] = tuple(xyz)
+    extra: dict[str, Any] = {}
     if dxftype == "MTEXT":
-        v["text"] = "".join(mtext_chunks)
-    if dxftype == "LWPOLYLINE":
-        extra["points"] = [(p[0], p[1], p[2]) for p in lw_points]
-    return FastEntity(dxftype, v, extra)
+        values["text"] = "".join(mtext_chunks)
+    if lw:
+        extra["points"] = [(p[0], p[1], p[2]) for p in lw_vertices]
+    return FastEntity(dxftype, values, extra)
 
 
 def _header(doc: FastDocument, body: list[tuple[int, str]]) -> None:
@@ -240,7 +328,7 @@ def _header(doc: FastDocument, body: list[tuple[int, str]]) -> None:
     current: str | None = None
     pending: str | None = None
     for code, value in body:
-        if code == 9:
+        if code == GC_HEADER_VAR:
             current = value
             continue
         if current in ("$INSUNITS", "$MEASUREMENT"):
@@ -254,6 +342,86 @@ def _header(doc: FastDocument, body: list[tuple[int, str]]) -> None:
             pending = None
 
 
+class _GroupWalk:
+    """The state of :func:`_groups` between group codes 0: the structure
+    being read, its tags, the section and container it is in, and the
+    layers met without a role."""
+
+    def __init__(self, roles: dict[str, Any]) -> None:
+        self.roles = roles
+        self.name: str | None = None
+        self.body: list[tuple[int, str]] = []
+        self.keeping = True
+        self.stub = False
+        self.paper = False  # an entity of paper space (group code 67 = 1): not model space
+        self.section = ""
+        self.want_section = False
+        self.container = _MODEL_SPACE  # else the block's number
+        self.loose: dict[tuple[int, str], int] = {}  # circles kept per (container, layer)
+        self.listed: set[tuple[int, str, str]] = set()  # (container, layer, kind) yielded
+
+    def pending(self) -> bool:
+        """The structure read so far is yielded (kept, or a stub)."""
+        return self.name is not None and (self.keeping or self.stub)
+
+    def start(self, value: str) -> bool:
+        """A group code 0 opens the next structure; False at the EOF marker
+        (what follows it is not read, see ``drawing.TAIL_BYTES``)."""
+        name = self.name = value.strip()
+        self.body = []
+        self.keeping = True
+        self.stub = False
+        self.paper = False
+        if name == "EOF":
+            return False
+        if name == "SECTION":
+            self.want_section = True
+        elif name == "ENDSEC":
+            self.section = ""
+        elif name == "BLOCK":
+            self.container += 1
+        return True
+
+    def layer_tag(self, value: str) -> bool:
+        """The layer tag of an entity the skeleton may hold: False when the
+        entity is dropped here (paper space; a layer with no role, past its
+        circle quota or already listed for the kind; a stub keeps the tag)."""
+        if self.paper and self.section == "ENTITIES":
+            self.keeping = False
+            return False
+        layer = value.strip()
+        if layer.upper() in self.roles or (self.section == "BLOCKS" and layer == "0"):
+            return True
+        where = self.container if self.section == "BLOCKS" else _MODEL_SPACE
+        if self.name == "CIRCLE":
+            n = self.loose.get((where, value), 0)
+            self.loose[(where, value)] = n + 1
+            self.keeping = n < MAX_LOOSE_CIRCLES_PER_LAYER
+        else:
+            key = (where, value, str(self.name))
+            self.keeping, self.stub = False, key not in self.listed
+            self.listed.add(key)
+        if self.keeping:
+            return True
+        if self.stub:
+            self.body.append((GC_LAYER, value))
+        return False
+
+    def wanted(self) -> bool:
+        """The current structure is read on (a section, or what the reader
+        builds inside the read sections); else it is dropped."""
+        if self.section not in _READ_SECTIONS:
+            self.keeping = self.name == "SECTION"
+            return self.keeping
+        if self.name not in _KEEP and self.name not in _STRUCTURE and self.section != "HEADER":
+            self.keeping = False
+            return False
+        return True
+
+    def group(self) -> tuple[str, str, list[tuple[int, str]]]:
+        return str(self.name), self.section, self.body
+
+
 def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, str, list[tuple[int, str]]]]:
     """(structure name, section, tags) at every group code 0, reading the
     file's line pairs directly.  The tags of an entity on a layer that does
@@ -261,75 +429,142 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
     each such layer in a container (they may name a layer near miss), and the
     first entity of each kind on it is yielded with its tags up to the layer
     tag, so that the layer's kinds can be listed."""
-
-    name: str | None = None
-    body: list[tuple[int, str]] = []
-    keeping = True
-    stub = False
-    paper = False  # an entity of paper space (group code 67 = 1): not model space
-    section = ""
-    want_section = False
-    container = -1  # -1 model space, else the block's number
-    loose: dict[tuple[int, str], int] = {}  # circles kept per (container, layer)
-    listed: set[tuple[int, str, str]] = set()  # (container, layer, kind) yielded
+    w = _GroupWalk(roles)
     for code_line in lines:
         value = next(lines, None)
         if value is None:
             break
         code = code_line.strip()
         value = value.rstrip("\r\n")
-        if code == "0":
-            if name is not None and (keeping or stub):
-                yield name, section, body
-            name = value.strip()
-            body = []
-            keeping = True
-            stub = False
-            paper = False
-            if name == "EOF":  # what follows the marker is not read (see drawing.TAIL_BYTES)
+        if code == _TYPE:
+            if w.pending():
+                yield w.group()
+            if not w.start(value):
                 return
-            if name == "SECTION":
-                want_section = True
-            elif name == "ENDSEC":
-                section = ""
-            elif name == "BLOCK":
-                container += 1
             continue
-        if want_section and code == "2":
-            section = value.strip()
-            want_section = False
-        if not keeping:
+        if w.want_section and code == _NAME:
+            w.section = value.strip()
+            w.want_section = False
+        if not w.keeping:
             continue
-        if code == "67" and value.strip() == "1":
-            paper = True
-        if code == "8" and name in _KEEP and name not in ("INSERT", "POLYLINE"):
-            if paper and section == "ENTITIES":
-                keeping = False
-                continue
-            layer = value.strip()
-            if layer.upper() not in roles and not (section == "BLOCKS" and layer == "0"):
-                where = container if section == "BLOCKS" else -1
-                if name == "CIRCLE":
-                    n = loose.get((where, value), 0)
-                    loose[(where, value)] = n + 1
-                    keeping = n < MAX_LOOSE_CIRCLES_PER_LAYER
-                else:
-                    keeping, stub = False, (where, value, name) not in listed
-                    listed.add((where, value, name))
-                if not keeping:
-                    if stub:
-                        body.append((8, value))
-                    continue
-        if section not in ("HEADER", "BLOCKS", "ENTITIES"):
-            keeping = name == "SECTION"
-            if not keeping:
-                continue
-        if name not in _KEEP and name not in ("SECTION", "BLOCK", "ENDBLK", "VERTEX", "SEQEND") and section != "HEADER":
-            keeping = False
+        if code == _SPACE and value.strip() == _FLAG_SET:
+            w.paper = True
+        if code == _LAYER and w.name in _KEEP and w.name not in ("INSERT", "POLYLINE") and not w.layer_tag(value):
             continue
-        body.append((int(code), value))
-    if name is not None and (keeping or stub):
-        yield name, section, body
+        if w.wanted():
+            w.body.append((int(code), value))
+    if w.pending():
+        yield w.group()
+
+
+def _xyz(body: list[tuple[int, str]]) -> tuple[float, float, float]:
+    """The primary point (group codes 10, 20, 30) of a structure's tags."""
+    xyz = [0.0, 0.0, 0.0]
+    for c, val in body:
+        if c in (GC_X, GC_Y, GC_Z):
+            xyz[(c - GC_X) // 10] = float(val)
+    return xyz[0], xyz[1], xyz[2]
+
+
+def _vertex(body: list[tuple[int, str]]) -> _Vertex:
+    """A polyline's VERTEX: its location and bulge."""
+    bulge = 0.0
+    for c, val in body:
+        if c == GC_YSCALE_OR_BULGE:
+            bulge = float(val)
+    return _Vertex(_xyz(body), bulge)
+
+
+def _flag_set(body: list[tuple[int, str]], code: int) -> bool:
+    return any(c == code and v.strip() == _FLAG_SET for c, v in body)
+
+
+class _Loader:
+    """Builds a :class:`FastDocument` from the structures :func:`_groups`
+    yields: the header, the blocks, the entities with their vertices."""
+
+    def __init__(self, roles: dict[str, Any]) -> None:
+        self.roles = roles
+        self.doc = FastDocument()
+        self.block: _Block | None = None
+        self.poly: FastEntity | None = None
+        self.skip_attribs = False
+        self.listed: set[tuple[int, str, str]] = set()  # (container, layer, kind) already listed
+
+    def take(self, name: str, section: str, body: list[tuple[int, str]]) -> None:
+        """One structure: section, block bounds, vertex, or entity."""
+        if name == "SECTION":
+            if section == "HEADER":
+                _header(self.doc, body)
+            return
+        if name in ("ENDSEC", "EOF"):
+            return
+        if section == "BLOCKS" and name in ("BLOCK", "ENDBLK"):
+            self.block = self._block(body) if name == "BLOCK" else None
+            return
+        target = self._target(section)
+        if target is not None:
+            self._in_container(name, section, body, target)
+
+    def _block(self, body: list[tuple[int, str]]) -> _Block:
+        """A BLOCK opens: its name and base point."""
+        block = _Block(next((v for c, v in body if c == GC_NAME), ""), _xyz(body))
+        self.doc.blocks.add(block)
+        return block
+
+    def _target(self, section: str) -> list[FastEntity] | None:
+        """The entity list of model space or of the open block."""
+        if section == "ENTITIES":
+            return self.doc._msp
+        if section == "BLOCKS" and self.block is not None:
+            return self.block.entities
+        return None
+
+    def _in_container(self, name: str, section: str, body: list[tuple[int, str]], target: list[FastEntity]) -> None:
+        """A structure inside model space or a block: a polyline's VERTEX
+        (they follow until SEQEND), an INSERT's ATTRIB, or an entity."""
+        if name == "VERTEX" and self.poly is not None:
+            self.poly._extra.setdefault("vertices", []).append(_vertex(body))
+            return
+        if name == "SEQEND":
+            self.poly = None
+            self.skip_attribs = False
+            return
+        if (self.skip_attribs and name == "ATTRIB") or name not in _KEEP:
+            return
+        if section == "ENTITIES" and _flag_set(body, GC_SPACE):
+            if name == "POLYLINE":
+                self.poly = FastEntity("POLYLINE", {})  # paper space: swallow its vertices
+            return
+        layer = next((v for c, v in body if c == GC_LAYER), "0")
+        if name == "INSERT" or layer.upper() in self.roles or (section == "BLOCKS" and layer == "0"):
+            self._entity(name, body, target)
+        else:
+            self._no_role(name, layer, body, target)
+
+    def _entity(self, name: str, body: list[tuple[int, str]], target: list[FastEntity]) -> None:
+        """An entity the skeleton may use, built in full."""
+        ent = _entity(name, body)
+        target.append(ent)
+        if name == "POLYLINE":
+            self.poly = ent
+        if name == "INSERT" and _flag_set(body, GC_ATTRIBS_FOLLOW):
+            self.skip_attribs = True
+
+    def _no_role(self, name: str, layer: str, body: list[tuple[int, str]], target: list[FastEntity]) -> None:
+        """An entity on a layer with no role: a circle within its layer's
+        quota (see :func:`_groups`), else one token per layer and kind."""
+        if name == "POLYLINE":
+            self.poly = FastEntity("POLYLINE", {})  # swallow its vertices
+        if name == "CIRCLE":
+            target.append(_entity(name, body))
+        elif (id(target), layer, name) not in self.listed:  # one token lists the layer's kind
+            self.listed.add((id(target), layer, name))
+            target.append(FastEntity(name, {"layer": layer}))
+
+
+#: The first bytes of a binary DXF file.
+_BINARY_SENTINEL = b"AutoCAD Binary DXF"
 
 
 def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
@@ -351,78 +586,11 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
     from ezdxf.filemanagement import dxf_file_info
 
     with open(path, "rb") as fh:
-        if fh.read(22).startswith(b"AutoCAD Binary DXF"):
+        if fh.read(len(_BINARY_SENTINEL) + 4).startswith(_BINARY_SENTINEL):
             raise FastReadUnsupported("binary DXF")
     info = dxf_file_info(str(path))
-    doc = FastDocument()
-    block: _Block | None = None
-    poly: FastEntity | None = None
-    skip_attribs = False
-    listed: set[tuple[int, str, str]] = set()  # (container, layer, kind) already listed
+    loader = _Loader(roles)
     with open(path, encoding=info.encoding or "cp1252", errors="surrogateescape") as fh:
         for name, section, body in _groups(iter(fh), roles):
-            if name == "SECTION":
-                if section == "HEADER":
-                    _header(doc, body)
-                continue
-            if name in ("ENDSEC", "EOF"):
-                continue
-            if section == "BLOCKS":
-                if name == "BLOCK":
-                    bname = next((v for c, v in body if c == 2), "")
-                    base = [0.0, 0.0, 0.0]
-                    for c, val in body:
-                        if c in (10, 20, 30):
-                            base[(c - 10) // 10] = float(val)
-                    block = _Block(bname, (base[0], base[1], base[2]))
-                    doc.blocks.add(block)
-                    continue
-                if name == "ENDBLK":
-                    block = None
-                    continue
-            if section not in ("ENTITIES", "BLOCKS"):
-                continue
-            target = doc._msp if section == "ENTITIES" else (block.entities if block is not None else None)
-            if target is None:
-                continue
-            # polylines: VERTEX entities follow until SEQEND
-            if name == "VERTEX" and poly is not None:
-                loc = [0.0, 0.0, 0.0]
-                bulge = 0.0
-                for c, val in body:
-                    if c in (10, 20, 30):
-                        loc[(c - 10) // 10] = float(val)
-                    elif c == 42:
-                        bulge = float(val)
-                poly._extra.setdefault("vertices", []).append(_Vertex((loc[0], loc[1], loc[2]), bulge))
-                continue
-            if name == "SEQEND":
-                poly = None
-                skip_attribs = False
-                continue
-            if skip_attribs and name == "ATTRIB":
-                continue
-            if name not in _KEEP:
-                continue
-            if section == "ENTITIES" and any(c == 67 and v.strip() == "1" for c, v in body):
-                if name == "POLYLINE":
-                    poly = FastEntity("POLYLINE", {})  # paper space: swallow its vertices
-                continue
-            layer = next((v for c, v in body if c == 8), "0")
-            keep = name == "INSERT" or layer.upper() in roles or (section == "BLOCKS" and layer == "0")
-            if not keep:
-                if name == "POLYLINE":
-                    poly = FastEntity("POLYLINE", {})  # swallow its vertices
-                if name == "CIRCLE":  # within its layer's quota (see _groups)
-                    target.append(_entity(name, body))
-                elif (id(target), layer, name) not in listed:  # one token lists the layer's kind
-                    listed.add((id(target), layer, name))
-                    target.append(FastEntity(name, {"layer": layer}))
-                continue
-            ent = _entity(name, body)
-            target.append(ent)
-            if name == "POLYLINE":
-                poly = ent
-            if name == "INSERT" and any(c == 66 and val.strip() == "1" for c, val in body):
-                skip_attribs = True
-    return doc
+            loader.take(name, section, body)
+    return loader.doc
