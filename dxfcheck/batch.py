@@ -1208,7 +1208,7 @@ def results_csv(batch: BatchResult) -> str:
 
 def results_json(batch: BatchResult) -> dict[str, Any]:
     """The ``dxfcheck.batch/2`` JSON document."""
-    from dxfcheck.output.report import CAUTION
+    from dxfcheck.output.text import CAUTION
 
     return {
         "schema": BATCH_SCHEMA,

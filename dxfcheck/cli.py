@@ -1,7 +1,7 @@
 """The ``dxfcheck`` command: a thin layer over the library.
 
 Each sub-command checks its options, calls one library function and prints
-through :mod:`dxfcheck.output.report`.  Exit codes:
+through :mod:`dxfcheck.output.terminal` (``--json``: :mod:`dxfcheck.output.json`).  Exit codes:
 
 * 0 -- solved (and, for ``check``, no rule failed);
 * 1 -- solved, but a rule of ``check`` failed (or warned, with ``--strict``);
@@ -336,7 +336,8 @@ def _mu_arg(text: str | None) -> tuple[float | None, tuple[float, float] | None]
 
 def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int:
     from dxfcheck.core.files import write_atomic
-    from dxfcheck.output.report import print_sensitivity, sensitivity_to_dict, write_json
+    from dxfcheck.output.json import sensitivity_to_dict, write_json
+    from dxfcheck.output.terminal import print_sensitivity
     from dxfcheck.pipeline import sensitivity
     from dxfcheck.revision.compare import history_svg
 
@@ -377,7 +378,8 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 
 
 def _solve(args: argparse.Namespace) -> int:
-    from dxfcheck.output.report import print_solution, solution_to_dict, write_json
+    from dxfcheck.output.json import solution_to_dict, write_json
+    from dxfcheck.output.terminal import print_solution
     from dxfcheck.pipeline import DEFAULT_MU, analyse, resolve_config
 
     mu_value, mu_range = _mu_arg(args.mu)
@@ -422,7 +424,9 @@ def _check(args: argparse.Namespace) -> int:
     from dxfcheck.core.files import Target, check_targets, write_atomic
     from dxfcheck.gate.rules import Verdict
     from dxfcheck.gate.spec import parse_assignment
-    from dxfcheck.output.report import judgement_to_dict, junit_xml, print_judgement, write_json
+    from dxfcheck.output.json import judgement_to_dict, write_json
+    from dxfcheck.output.junit import junit_xml
+    from dxfcheck.output.terminal import print_judgement
     from dxfcheck.pipeline import check, resolve_config
 
     overrides = [parse_assignment(s) for s in args.set]
@@ -536,7 +540,8 @@ def _compare(args: argparse.Namespace) -> int:
     from dxfcheck.core.files import Target, check_targets, write_atomic
     from dxfcheck.gate.spec import parse_assignment
     from dxfcheck.output.annotate import mark_revision
-    from dxfcheck.output.report import comparisons_to_dict, print_comparisons, write_json
+    from dxfcheck.output.json import comparisons_to_dict, write_json
+    from dxfcheck.output.terminal import print_comparisons
     from dxfcheck.pipeline import check, resolve_config
     from dxfcheck.revision.compare import (
         compare_judgements,
@@ -587,7 +592,8 @@ def _batch_options(args: argparse.Namespace) -> Any:
 
 def _batch(args: argparse.Namespace) -> int:
     from dxfcheck.batch import DEFAULT_TIMEOUT_EACH_S, check_inputs, find_drawings, results_csv, results_json, run_batch
-    from dxfcheck.output.report import batch_progress, print_batch, write_json
+    from dxfcheck.output.json import write_json
+    from dxfcheck.output.terminal import batch_progress, print_batch
 
     options = _batch_options(args)
     timeout_each = DEFAULT_TIMEOUT_EACH_S if args.timeout_each is None else args.timeout_each
@@ -650,7 +656,7 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
     """With ``--json``, a refusal still prints one JSON document on stdout."""
     if not getattr(args, "json", False) or args.command not in ("solve", "check", "compare"):
         return
-    from dxfcheck.output.report import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
+    from dxfcheck.output.json import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
 
     schema = {"check": CHECK_SCHEMA, "compare": COMPARE_SCHEMA}.get(args.command, SOLVE_SCHEMA)
     drawing = str(args.drawing) if getattr(args, "drawing", None) else None
@@ -672,7 +678,7 @@ def main(argv: Sequence[str] | None = None) -> int:
         try:
             stdout.flush()  # a full disk shows here, not at the interpreter's exit
         except DxfcheckError as exc:
-            from dxfcheck.output.report import print_error
+            from dxfcheck.output.terminal import print_error
 
             print_error(exc)
             return EXIT_UNUSABLE
@@ -700,7 +706,7 @@ def _route_library_logs() -> None:
 
 
 def _main(argv: Sequence[str] | None) -> int:
-    from dxfcheck.output.report import print_error
+    from dxfcheck.output.terminal import print_error
 
     args = _parser().parse_args(argv)
     _route_library_logs()

@@ -1,0 +1,433 @@
+"""Output: the JSON documents (every ``*_to_dict``) and writing them.
+
+One function per result kind, so that each JSON object's keys stand in one
+place.  The keys are the published schemas' (``dxfcheck.solve/2``,
+``dxfcheck.check/2``, ``dxfcheck.revision.compare/2``,
+``dxfcheck.statics.sampling/1``; README): this module only copies the
+results' fields, it never computes physics.
+"""
+
+from __future__ import annotations
+
+import json
+import sys
+from typing import IO, Any
+
+from dxfcheck.core.errors import DxfcheckError
+from dxfcheck.core.version import __version__
+from dxfcheck.gate.rules import Judgement, RuleResult
+from dxfcheck.gate.spec import SpecValue
+from dxfcheck.mechanism.layers import layers_json
+from dxfcheck.mechanism.model import Drum, Load, Mechanism, Pin, Shoe
+from dxfcheck.output.text import CAUTION
+from dxfcheck.revision.compare import Comparison, Thresholds, change_to_dict, required_torque
+from dxfcheck.statics import (
+    BandEnd,
+    BandResult,
+    CaseSolution,
+    LoadResult,
+    MemberResult,
+    PinResult,
+    ShoeResult,
+    Solution,
+    SpringResult,
+)
+
+__all__ = [
+    "CHECK_SCHEMA",
+    "COMPARE_SCHEMA",
+    "SENSITIVITY_SCHEMA",
+    "SOLVE_SCHEMA",
+    "case_to_dict",
+    "comparisons_to_dict",
+    "error_document",
+    "judgement_to_dict",
+    "rule_to_dict",
+    "sensitivity_to_dict",
+    "solution_to_dict",
+    "trend_rows",
+    "write_json",
+]
+
+#: Versioned name of the ``solve --json`` document.
+SOLVE_SCHEMA = "dxfcheck.solve/2"
+#: Versioned name of the ``check --json`` document.
+CHECK_SCHEMA = "dxfcheck.check/2"
+#: Versioned name of the ``compare --json`` document.
+COMPARE_SCHEMA = "dxfcheck.revision.compare/2"
+#: Versioned name of the ``solve --samples --json`` document.
+SENSITIVITY_SCHEMA = "dxfcheck.statics.sampling/1"
+
+
+def _tool() -> dict[str, str]:
+    return {"name": "dxfcheck", "version": __version__}
+
+
+def write_json(doc: dict[str, Any], out: IO[str] | None = None) -> None:
+    """Write one JSON document followed by a newline."""
+    out = out or sys.stdout
+    json.dump(doc, out, indent=2, allow_nan=False, default=str)
+    out.write("\n")
+
+
+# --- one solved direction: one function per result kind --------------------
+
+
+def _shoe_result(s: ShoeResult) -> dict[str, Any]:
+    """A shoe's resultants and their lines of action ([N], [mm], [deg])."""
+    return {
+        "name": s.name,
+        "part": s.part,
+        "model": s.model,
+        "mounting": s.mounting,
+        "contact_angle_deg": s.contact_angle_deg,
+        "normal_N": s.normal_N,
+        "friction_resultant_N": s.friction_resultant_N,
+        "friction_lining_N": s.friction_lining_N,
+        "torque_Nm": s.torque_Nm,
+        "contact_mm": list(s.contact),
+        "force_N": list(s.force),
+        "normal_force_N": list(s.normal_force),
+        "normal_at_mm": list(s.normal_at),
+        "friction_force_N": list(s.friction_force),
+        "friction_at_mm": list(s.friction_at),
+        "peak_line_load_N_per_mm": s.peak_line_load_N_per_mm,
+        "peak_at_deg": s.peak_at_deg,
+        "mu_equivalent": s.mu_equivalent,
+        "pressure_offset_deg": s.pressure_offset_deg,
+        "contact_from_deg": s.contact_from_deg,
+        "contact_to_deg": s.contact_to_deg,
+    }
+
+
+def _pin_result(p: PinResult) -> dict[str, Any]:
+    """A pin's force (on the first part listed) and its share on each part [N]."""
+    return {
+        "name": p.name,
+        "x_mm": p.x_mm,
+        "y_mm": p.y_mm,
+        "diameter_mm": p.diameter_mm,
+        "pivot": p.grounded,
+        "fx_N": p.fx_N,
+        "fy_N": p.fy_N,
+        "force_N": p.force_N,
+        "max_force_N": p.max_force_N,
+        "parts": list(p.parts),
+        "on_parts": [{"part": a.body, "fx_N": a.fx_N, "fy_N": a.fy_N} for a in p.attachments],
+    }
+
+
+def _member_result(m: MemberResult) -> dict[str, Any]:
+    """A two-force member's axial force [N] (sign as solved) and state."""
+    return {"name": m.name, "ends": list(m.ends), "axial_N": m.axial_N, "state": m.state, "length_mm": m.length_mm}
+
+
+def _band_end(e: BandEnd) -> dict[str, Any]:
+    """One band end: its tension [N] and pull on the pin [N] along the tangent."""
+    return {
+        "pin": e.pin,
+        "tight": e.tight,
+        "tension_N": e.tension_N,
+        "tangent_mm": list(e.tangent),
+        "pull_N": list(e.pull),
+    }
+
+
+def _band_result(b: BandResult) -> dict[str, Any]:
+    """A band's tight and slack tensions [N], wrap [deg] and torque [N·m]."""
+    return {
+        "name": b.name,
+        "kind": b.kind,
+        "tight_N": b.tight_N,
+        "slack_N": b.slack_N,
+        "tight_pin": b.tight_pin,
+        "slack_pin": b.slack_pin,
+        "wrap_deg": b.wrap_deg,
+        "torque_Nm": b.torque_Nm,
+        "peak_line_load_N_per_mm": b.peak_line_load_N_per_mm,
+        "ends": [_band_end(e) for e in b.ends],
+    }
+
+
+def _spring_result(s: SpringResult) -> dict[str, Any]:
+    """A spring's force [N], state and the force on each end's part."""
+    return {
+        "name": s.name,
+        "force_N": s.force_N,
+        "state": s.state,
+        "ends": [{"part": e.part, "at_mm": list(e.point), "force_N": list(e.force)} for e in s.ends],
+    }
+
+
+def _load_result(ld: LoadResult) -> dict[str, Any]:
+    """An applied load as solved (scaled when an effort was asked for) [N]."""
+    return {
+        "name": ld.name,
+        "part": ld.part,
+        "x_mm": ld.x_mm,
+        "y_mm": ld.y_mm,
+        "fx_N": ld.fx_N,
+        "fy_N": ld.fy_N,
+        "force_N": ld.force_N,
+    }
+
+
+def case_to_dict(c: CaseSolution) -> dict[str, Any]:
+    """The JSON form of one solved direction."""
+    return {
+        "direction": str(c.direction),
+        "mu": c.mu,
+        "torque_Nm": c.braking_torque_Nm,
+        "not_braking": c.why_not_braking,
+        "short_shoe_torque_Nm": c.short_shoe_torque_Nm,
+        "critical_mu": c.critical_mu,
+        "residual": c.residual,
+        "condition": c.condition,
+        "shoes": [_shoe_result(s) for s in c.shoes],
+        "pins": [_pin_result(p) for p in c.pins],
+        "members": [_member_result(m) for m in c.members],
+        "bands": [_band_result(b) for b in c.bands],
+        "springs": [_spring_result(s) for s in c.springs],
+        "effort_scale": c.effort_scale,
+        "loads": [_load_result(ld) for ld in c.loads],
+    }
+
+
+# --- the mechanism as read: one function per element kind ------------------
+
+
+def _drum(drum: Drum | None) -> dict[str, Any] | None:
+    if drum is None:
+        return None
+    return {"x_mm": drum.center[0], "y_mm": drum.center[1], "radius_mm": drum.radius_mm}
+
+
+def _pin(p: Pin) -> dict[str, Any]:
+    return {
+        "name": p.name,
+        "x_mm": p.center[0],
+        "y_mm": p.center[1],
+        "diameter_mm": p.diameter_mm,
+        "pivot": p.grounded,
+        "parts": list(p.bodies),
+    }
+
+
+def _shoe(s: Shoe) -> dict[str, Any]:
+    return {
+        "name": s.name,
+        "part": s.part,
+        "mounting": str(s.mounting),
+        "pin": s.pin,
+        "internal": s.internal,
+        "start_deg": s.arc.start_deg,
+        "end_deg": s.arc.end_deg,
+        "contact_angle_deg": s.contact_angle_deg,
+    }
+
+
+def _load(ld: Load) -> dict[str, Any]:
+    return {
+        "name": ld.name,
+        "part": ld.part,
+        "x_mm": ld.point[0],
+        "y_mm": ld.point[1],
+        "direction": list(ld.direction),
+        "force_N": ld.magnitude_N,
+        "text": ld.text,
+    }
+
+
+def _mechanism(mech: Mechanism) -> dict[str, Any]:
+    """The mechanism as inferred from the drawing (before any solve)."""
+    return {
+        "drum": _drum(mech.drum),
+        "parts": [{"name": p.name, "pins": list(p.pins)} for p in mech.parts],
+        "pins": [_pin(p) for p in mech.pins],
+        "shoes": [_shoe(s) for s in mech.shoes],
+        "loads": [_load(ld) for ld in mech.loads],
+    }
+
+
+def solution_to_dict(sol: Solution) -> dict[str, Any]:
+    """The ``dxfcheck.solve/2`` JSON document (schema in the README)."""
+    mech = sol.mechanism
+    d = mech.drawing
+    return {
+        "schema": SOLVE_SCHEMA,
+        "tool": _tool(),
+        "drawing": d.path,
+        "config": d.config_path,
+        "sidecar": d.sidecar_path,
+        "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
+        "layers": layers_json(d),
+        "tolerance_mm": mech.tolerance_mm,
+        "family": mech.family,
+        "mechanism": _mechanism(mech),
+        "cases": [case_to_dict(c) for c in sol.cases],
+        "findings": [f.as_dict() for f in sol.findings],
+        "caution": CAUTION,
+    }
+
+
+def error_document(exc: DxfcheckError, schema: str, drawing: str | None, *, internal: bool = False) -> dict[str, Any]:
+    """The JSON document of a refusal (exit 2) or an internal error (exit
+    3): the command's schema, the drawing, ``"error"`` and every finding, so
+    that ``--json`` always prints one document."""
+
+    return {
+        "schema": schema,
+        "tool": _tool(),
+        "drawing": exc.path or drawing,
+        "error": {"kind": "internal" if internal else "unusable", "message": exc.message},
+        "findings": [f.as_dict() for f in exc.findings],
+        "caution": CAUTION,
+    }
+
+
+# --- the release gate --------------------------------------------------------
+
+
+def _num(x: float | None) -> float | None:
+    """JSON has no NaN or infinity: both become ``null``."""
+    if x is None or x != x:
+        return None
+    if x in (float("inf"), float("-inf")):
+        return None
+    return x
+
+
+def rule_to_dict(r: RuleResult) -> dict[str, Any]:
+    """One rule's verdict, value, limit and margin, with its inputs and source."""
+    return {
+        "rule": r.rule,
+        "title": r.title,
+        "verdict": str(r.verdict),
+        "value": _num(r.value),
+        "limit": _num(r.limit),
+        "unit": r.unit,
+        "margin": _num(r.margin),
+        "inputs": {k: (_num(v) if isinstance(v, float) else v) for k, v in r.inputs.items()},
+        "source": r.source,
+        "message": r.message,
+    }
+
+
+def _spec_value(v: SpecValue) -> dict[str, Any]:
+    """One spec value and where it came from."""
+    return {
+        "key": v.key,
+        "value": list(v.value) if isinstance(v.value, tuple) else v.value,
+        "unit": v.unit,
+        "text": v.text,
+        "source": v.source,
+    }
+
+
+def judgement_to_dict(j: Judgement) -> dict[str, Any]:
+    """The ``dxfcheck.check/2`` JSON document: the solve document at the
+    nominal μ plus the verdict, the rules and the spec with its sources."""
+    doc = solution_to_dict(j.nominal)
+    doc["schema"] = CHECK_SCHEMA
+    doc["verdict"] = str(j.verdict)
+    doc["counts"] = j.counts()
+    doc["friction"] = {"mu": j.mu, "mu_min": j.mu_min, "mu_max": j.mu_max}
+    doc["rules"] = [rule_to_dict(r) for r in j.rules]
+    doc["spec"] = [_spec_value(v) for v in j.spec.all_values()]
+    doc["caution"] = CAUTION
+    return doc
+
+
+# --- revisions ---------------------------------------------------------------
+
+
+def _thresholds(th: Thresholds) -> dict[str, Any]:
+    return {
+        "max_torque_drop": th.max_torque_drop,
+        "max_torque_drop_source": th.torque_drop_source,
+        "max_force_rise": th.max_force_rise,
+        "max_force_rise_source": th.force_rise_source,
+    }
+
+
+def _step(c: Comparison) -> dict[str, Any]:
+    """One revision step: the rigid motion found, the matches, the changes."""
+    m = c.motion
+    return {
+        "old": c.old.mechanism.drawing.path,
+        "new": c.new.mechanism.drawing.path,
+        "rigid_motion": {"a": m.a, "b": m.b, "c": m.c, "d": m.d, "e": m.e, "f": m.f, "found_from": c.motion_source},
+        "pin_map": c.pin_map,
+        "part_map": c.part_map,
+        "matched": {
+            "pins": len(c.pin_map),
+            "old_pins": len(c.old.mechanism.pins),
+            "new_pins": len(c.new.mechanism.pins),
+            "parts": len(c.part_map),
+            "old_parts": len(c.old.mechanism.parts),
+            "new_parts": len(c.new.mechanism.parts),
+        },
+        "failed": c.failed,
+        "changes": [change_to_dict(x) for x in c.changes],
+    }
+
+
+def trend_rows(comps: list[Any]) -> list[dict[str, Any]]:
+    """One row per revision (oldest first): verdict, required torque and,
+    per drum direction, the torque [N·m] and the largest pin force [N]."""
+    if not comps:
+        return []
+    judgements = [comps[0].old] + [c.new for c in comps]
+    out = []
+    for j in judgements:
+        row: dict[str, Any] = {"drawing": j.mechanism.drawing.path, "verdict": str(j.verdict)}
+        row["required_torque_Nm"] = required_torque(j)
+        for c in j.nominal.cases:
+            row[f"torque_{c.direction}_Nm"] = c.torque_Nm
+            row[f"max_pin_force_{c.direction}_N"] = max((p.max_force_N for p in c.pins), default=0.0)
+        out.append(row)
+    return out
+
+
+def comparisons_to_dict(comps: list[Any], names: list[str]) -> dict[str, Any]:
+    """The ``dxfcheck.revision.compare/2`` JSON document."""
+    th = comps[0].thresholds if comps else Thresholds()
+    return {
+        "schema": COMPARE_SCHEMA,
+        "drawings": names,
+        "failed": any(c.failed for c in comps),
+        "thresholds": _thresholds(th),
+        "steps": [_step(c) for c in comps],
+        "trend": trend_rows(comps),
+        "caution": CAUTION,
+    }
+
+
+# --- sampling ----------------------------------------------------------------
+
+
+def _sampled_direction(d: Any) -> dict[str, Any]:
+    return {
+        "direction": d.direction,
+        "torque_Nm": d.torque_Nm,
+        "max_pin_force_N": d.max_pin_force_N,
+        "governing_pin": d.governing_pin,
+        "p_below_required": d.p_below_required,
+    }
+
+
+def sensitivity_to_dict(res: Any, drawing: str) -> dict[str, Any]:
+    """The ``dxfcheck.statics.sampling/1`` JSON document of ``solve --samples``."""
+    return {
+        "schema": SENSITIVITY_SCHEMA,
+        "drawing": drawing,
+        "samples": res.samples,
+        "seed": res.seed,
+        "mu_range": list(res.mu_range),
+        "pin_tolerance_mm": res.pin_tolerance_mm,
+        "required_torque_Nm": res.required_torque_Nm,
+        "seconds": res.seconds,
+        "directions": [_sampled_direction(d) for d in res.directions],
+        "torque_vs_mu": {d: [[m, t] for m, t in c] for d, c in res.curve.items()},
+        "caution": CAUTION,
+    }
