@@ -303,6 +303,15 @@ def _ocs_affine(extrusion: Any) -> Affine | None:
     return Affine() if z > 0 else Affine(-1.0, 0.0, 0.0, 0.0, 1.0, 0.0)
 
 
+def _finding(code: Code, message: str, src: Source | None = None, at: Point | None = None) -> Finding:
+    """The one way this reader makes a finding: on an entity (``src``: its
+    handle, with the INSERTs that placed it, and its effective layer; ``at``
+    where it is [mm]) or, without ``src``, on the whole file."""
+    if src is None:
+        return Finding(code, message, at=at)
+    return Finding(code, message, (src.ref,), (src.layer,), at)
+
+
 @dataclass
 class _Collector:
     path: str
@@ -353,8 +362,9 @@ class _Collector:
         """Remember that a layer with no role holds a ``dxftype``."""
         self.other.setdefault(layer.upper(), (layer, set()))[1].add(dxftype)
 
-    def finding(self, code: Code, message: str, src: Source, at: Point | None = None) -> None:
-        self.findings.append(Finding(code, message, (src.ref,), (src.layer,), at))
+    def finding(self, code: Code, message: str, src: Source | None = None, at: Point | None = None) -> None:
+        """Record a finding made by :func:`_finding`."""
+        self.findings.append(_finding(code, message, src, at))
 
     def duplicate(self, key: tuple[Any, ...], src: Source, at: Point) -> bool:
         if key in self._seen:
@@ -376,9 +386,7 @@ class _Collector:
         """Findings that sum up what was counted."""
         more = self.duplicates - MAX_DUPLICATE_FINDINGS
         if more > 0:
-            self.findings.append(
-                Finding(Code.DUPLICATE_ENTITY, f"{more} more entities drawn twice (not listed one by one); ignored")
-            )
+            self.finding(Code.DUPLICATE_ENTITY, f"{more} more entities drawn twice (not listed one by one); ignored")
 
 
 def _cells(e: Any) -> int:
@@ -832,17 +840,14 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
     if measurement is not None and int(measurement) in (0, 1):
         name, factor = ("inch", 25.4) if int(measurement) == 0 else ("mm", 1.0)
         findings.append(
-            Finding(
+            _finding(
                 Code.UNITS_ASSUMED,
                 f"$INSUNITS is unset; {name} assumed from $MEASUREMENT = {int(measurement)}. {_CONFIRM_UNITS}",
             )
         )
         return name, factor, "$MEASUREMENT", findings
     findings.append(
-        Finding(
-            Code.UNITS_ASSUMED,
-            f"$INSUNITS and $MEASUREMENT are unset; millimetres assumed. {_CONFIRM_UNITS}",
-        )
+        _finding(Code.UNITS_ASSUMED, f"$INSUNITS and $MEASUREMENT are unset; millimetres assumed. {_CONFIRM_UNITS}")
     )
     return "mm", 1.0, "default", findings
 
@@ -913,8 +918,8 @@ def _after_eof_finding(after: bytes) -> Finding | None:
     if not after.strip(_PADDING):
         only_ctrl_z = after.strip(b" \t\r\n") == b"\x1a"
         what = "a DOS end-of-file byte (^Z)" if only_ctrl_z else f"{len(after)} bytes of padding (NUL, ^Z)"
-        return Finding(Code.AFTER_EOF, f"{what} after the EOF marker, as old programs wrote; ignored")
-    return Finding(
+        return _finding(Code.AFTER_EOF, f"{what} after the EOF marker, as old programs wrote; ignored")
+    return _finding(
         Code.AFTER_EOF,
         f"{len(after)} bytes after the EOF marker (not shown); ignored: the drawing ends at the marker. "
         "If the file was joined from pieces, export it again",
@@ -1017,14 +1022,14 @@ def load_document(
                 "is damaged beyond repair: nothing could be recovered from it; re-export the drawing", path=spath
             ) from None
         findings.append(
-            Finding(
+            _finding(
                 Code.REPAIRED,
                 f"the file is damaged; ezdxf's recover mode read it ({len(auditor.errors)} "
                 f"errors, {len(auditor.fixes)} fixes): check the results against the drawing",
             )
         )
         for err in list(auditor.errors)[:MAX_REPAIR_FINDINGS]:
-            findings.append(Finding(Code.REPAIRED, f"repaired on reading: {err.message}"))
+            findings.append(_finding(Code.REPAIRED, f"repaired on reading: {err.message}"))
     return doc, findings
 
 
@@ -1038,6 +1043,8 @@ def _unreadable() -> tuple[type[BaseException], ...]:
 
 #: ezdxf's log messages kept as findings while a drawing is read.
 MAX_READER_MESSAGES = 20
+#: Characters of one ezdxf log message kept in its finding.
+MAX_READER_MESSAGE_CHARS = 300
 _SAYS = "ezdxf says: "
 
 
@@ -1058,10 +1065,10 @@ class _ReaderLog(logging.Handler):
             text = " ".join(record.getMessage().split())
         except (TypeError, ValueError):  # a record whose arguments do not fit its format
             text = str(record.msg)
-        self.findings.append(Finding(Code.READER_MESSAGE, f"{_SAYS}{text[:300]}"))
+        self.findings.append(_finding(Code.READER_MESSAGE, f"{_SAYS}{text[:MAX_READER_MESSAGE_CHARS]}"))
 
     def collected(self) -> list[Finding]:
-        more = [Finding(Code.READER_MESSAGE, f"{self.more} more messages from ezdxf")] if self.more else []
+        more = [_finding(Code.READER_MESSAGE, f"{self.more} more messages from ezdxf")] if self.more else []
         return [*self.findings, *more]
 
 
@@ -1146,20 +1153,42 @@ def read_drawing(
     p = Path(path)
     config = config or Config()
     doc, findings = _open(p, config, max_bytes, reader)
-    unit_name, factor, unit_src, unit_findings = _units(doc, units, str(p))
-    col = _Collector(path=str(p), roles=config.role_of_layer())
-    _check_expansion(doc, str(p))
-    _walk(col, doc, doc.modelspace(), Affine.scaling(factor, factor), None, (), 0)
+    unit = _units(doc, units, str(p))
+    col = _collect(doc, config, unit[1], str(p))
+    return _drawing(str(p), config, doc, unit, [*findings, *unit[3], *col.findings], col)
+
+
+def _collect(doc: Any, config: Config, mm_per_unit: float, path: str) -> _Collector:
+    """Walk model space and the blocks it places (refused first when they
+    fan out too far), keeping the skeleton in world [mm]; refuse more than
+    :data:`MAX_SKELETON_ENTITIES` skeleton items."""
+    col = _Collector(path=path, roles=config.role_of_layer())
+    _check_expansion(doc, path)
+    _walk(col, doc, doc.modelspace(), Affine.scaling(mm_per_unit, mm_per_unit), None, (), 0)
     col.close()
     n = len(col.circles) + len(col.arcs) + len(col.paths) + len(col.texts)
     if n > MAX_SKELETON_ENTITIES:
         raise DrawingReadError(
             f"has {n} entities on the skeleton layers (more than {MAX_SKELETON_ENTITIES}): the layer map probably "
             "names a layer of outlines or hatching; check the [layers] table of dxfcheck.toml",
-            path=str(p),
+            path=path,
         )
+    return col
+
+
+def _drawing(
+    path: str,
+    config: Config,
+    doc: Any,
+    unit: tuple[str, float, str, list[Finding]],
+    findings: list[Finding],
+    col: _Collector,
+) -> Drawing:
+    """The :class:`Drawing`: what was collected, the unit (name, [mm] per
+    unit, its source), the findings in reading order, the layer map."""
+    unit_name, factor, unit_src, _ = unit
     return Drawing(
-        path=str(p),
+        path=path,
         units=unit_name,
         mm_per_unit=factor,
         units_source=unit_src,
@@ -1168,7 +1197,7 @@ def read_drawing(
         arcs=tuple(col.arcs),
         paths=tuple(col.paths),
         texts=tuple(col.texts),
-        findings=tuple(findings + unit_findings + col.findings),
+        findings=tuple(findings),
         custom_properties=_custom_properties(doc),
         layer_map=tuple((role, tuple(config.layers.get(role, ()))) for role in Role),
         layer_map_source=config.layers_source,
@@ -1189,7 +1218,7 @@ def raw_header_values(path: Path, names: tuple[str, ...] = CREATION_STAMPS) -> d
     out: dict[str, float] = {}
     try:
         with open(path, "rb") as fh:
-            if fh.read(22).startswith(b"AutoCAD Binary DXF"):
+            if fh.read(len(BINARY_SENTINEL)).startswith(BINARY_SENTINEL):
                 return out
             fh.seek(0)
             want: str | None = None
