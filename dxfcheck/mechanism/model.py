@@ -13,7 +13,7 @@ from dxfcheck.core.findings import Finding
 from dxfcheck.core.geometry import Point, dist, point_segment_distance
 from dxfcheck.read.drawing import ArcGeom, Drawing, Source
 
-__all__ = ["FRAME", "Band", "Drum", "Load", "Mechanism", "Mounting", "Part", "Pin", "Shoe", "Spring"]
+__all__ = ["FRAME", "Band", "BandKind", "Drum", "Load", "Mechanism", "Mounting", "Part", "Pin", "Shoe", "Spring"]
 
 #: Name of the fixed body (the machine frame and the drum's bearings).
 FRAME = "frame"
@@ -24,6 +24,14 @@ class Mounting(enum.StrEnum):
 
     PIVOTED = "pivoted"
     FIXED = "fixed"
+
+
+class BandKind(enum.StrEnum):
+    """How a band's ends are held (its value is the trade's word)."""
+
+    SIMPLE = "simple"  # an end anchored to a frame pivot
+    DIFFERENTIAL = "differential"  # both ends on one lever
+    TWO_LEVER = "two-lever"  # each end on its own lever
 
 
 @dataclass(frozen=True)
@@ -206,7 +214,7 @@ class Band:
     start_dir, end_dir : Point
         Unit vectors from each pin towards where the band leaves the drum:
         the direction of the band's pull on the pin.
-    kind : str
+    kind : BandKind
         ``simple`` (an end anchored to a frame pivot), ``differential``
         (both ends on one lever) or ``two-lever``.
     sources : tuple of Source
@@ -221,7 +229,7 @@ class Band:
     end_pin: str
     start_dir: Point
     end_dir: Point
-    kind: str
+    kind: BandKind
     sources: tuple[Source, ...]
 
     @property
