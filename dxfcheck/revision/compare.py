@@ -424,6 +424,8 @@ def _require_related(mo: Mechanism, mn: Mechanism, pin_map: dict[str, str], part
 
 
 def _geometry_changes(mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dict[str, str]) -> list[Change]:
+    """Each pin moved (after the rigid motion) or resized; the pins removed
+    and added."""
     out: list[Change] = []
     new_pins = {p.name: p for p in mn.pins}
     for p in mo.pins:
@@ -434,34 +436,9 @@ def _geometry_changes(mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dic
         q = new_pins[pin_map[p.name]]
         moved = dist(motion.apply(p.center), q.center)
         if moved > mn.tolerance_mm:
-            out.append(
-                Change(
-                    "moved",
-                    q.name,
-                    "",
-                    0.0,
-                    moved,
-                    "mm",
-                    moved,
-                    None,
-                    note=f"{p.name} moved {moved:.4g} mm",
-                    at=q.center,
-                )
-            )
+            out.append(_moved("moved", q.name, moved, f"{p.name} moved {moved:.4g} mm", q.center))
         if abs(q.diameter_mm - p.diameter_mm) > mn.tolerance_mm:
-            out.append(
-                Change(
-                    "diameter",
-                    q.name,
-                    "",
-                    p.diameter_mm,
-                    q.diameter_mm,
-                    "mm",
-                    q.diameter_mm - p.diameter_mm,
-                    _rel(p.diameter_mm, q.diameter_mm),
-                    at=q.center,
-                )
-            )
+            out.append(_resized("diameter", q.name, p.diameter_mm, q.diameter_mm, "mm", "", q.center))
     matched = set(pin_map.values())
     out += [
         Change("added", q.name, "", None, "pivot" if q.grounded else "pin", "")
@@ -502,6 +479,35 @@ def _shape_distance(a: Sequence[tuple[Point, Point]], b: Sequence[tuple[Point, P
     return max(one_way(a, b), one_way(b, a))
 
 
+def _moved(kind: str, label: str, d: float, note: str, at: Point) -> Change:
+    """A point that moved ``d`` [mm] (after the rigid motion)."""
+    return Change(kind, label, "", 0.0, d, "mm", d, None, note=note, at=at)
+
+
+def _resized(kind: str, label: str, old: float, new: float, unit: str, note: str, at: Point | None) -> Change:
+    """A size (a length, a force) that changed from ``old`` to ``new``."""
+    return Change(kind, label, "", old, new, unit, new - old, _rel(old, new), note=note, at=at)
+
+
+def _force_differs(fo: float, fn: float) -> bool:
+    """Two forces [N] differ beyond rounding."""
+    return abs(fn - fo) > UNCHANGED_RTOL * max(abs(fo), abs(fn))
+
+
+def _renamed(old: str, new: str) -> str:
+    """A matched item's name in the newer revision, with its old one if it changed."""
+    return new if old == new else f"{new} (was {old})"
+
+
+def _unpaired(what: str, olds: Sequence[Any], news: Sequence[Any], pairs: list[tuple[Any, Any]]) -> list[Change]:
+    """The old items left unpaired (removed), then the new ones (added)."""
+    paired_old = {id(a) for a, _ in pairs}
+    paired_new = {id(b) for _, b in pairs}
+    out = [Change("removed", x.name, "", what, None, "") for x in olds if id(x) not in paired_old]
+    out += [Change("added", x.name, "", None, what, "") for x in news if id(x) not in paired_new]
+    return out
+
+
 def _part_changes(
     mo: Mechanism, mn: Mechanism, motion: Affine, pin_map: dict[str, str], part_map: dict[str, str], tol: float
 ) -> list[Change]:
@@ -510,70 +516,59 @@ def _part_changes(
     place (the largest distance between the old one, moved by the rigid
     motion, and the new one)."""
     out: list[Change] = []
-    new_pins = {p.name: p for p in mn.pins}
-    old_pins = {p.name: p for p in mo.pins}
+    pins = ({p.name: p.center for p in mo.pins}, {p.name: p.center for p in mn.pins})
     for po in mo.parts:
         name = part_map.get(po.name)
         if name is None:
             continue
         pn = mn.part(name)
-        found: list[Change] = []
-        mapped = [(a, pin_map[a]) for a in po.pins if a in pin_map and pin_map[a] in pn.pins]
-        for i, (a, a2) in enumerate(mapped):
-            for b, b2 in mapped[i + 1 :]:
-                d_old = dist(old_pins[a].center, old_pins[b].center)
-                d_new = dist(new_pins[a2].center, new_pins[b2].center)
-                if abs(d_new - d_old) > tol:
-                    found.append(
-                        Change(
-                            "part",
-                            f"{name} {a2}–{b2}",
-                            "",
-                            d_old,
-                            d_new,
-                            "mm",
-                            d_new - d_old,
-                            _rel(d_old, d_new),
-                            note=f"{name}: {a2} to {b2} {d_old:.4g} -> {d_new:.4g} mm",
-                            at=_mid(new_pins[a2].center, new_pins[b2].center),
-                        )
-                    )
+        found = _span_changes(name, po, pn, pin_map, pins, tol)
         l_old, l_new = _part_length(po), _part_length(pn)
         if abs(l_new - l_old) > tol:
-            found.append(
-                Change(
-                    "part",
-                    f"{name} length",
-                    "",
-                    l_old,
-                    l_new,
-                    "mm",
-                    l_new - l_old,
-                    _rel(l_old, l_new),
-                    note=f"{name}: centreline {l_old:.4g} -> {l_new:.4g} mm long",
-                    at=_far_end(pn),
-                )
-            )
+            note = f"{name}: centreline {l_old:.4g} -> {l_new:.4g} mm long"
+            found.append(_resized("part", f"{name} length", l_old, l_new, "mm", note, _far_end(pn)))
         if not found:
-            moved = [(motion.apply(a), motion.apply(b)) for a, b in po.segments]
-            h = _shape_distance(moved, pn.segments)
-            if h > tol:
-                found.append(
-                    Change(
-                        "part",
-                        f"{name} centreline",
-                        "",
-                        0.0,
-                        h,
-                        "mm",
-                        h,
-                        None,
-                        note=f"{name}: centreline moved or re-shaped, up to {h:.4g} mm",
-                        at=_far_end(pn),
-                    )
-                )
+            found = _centreline_changes(name, po, pn, motion, tol)
         out += found
     return out
+
+
+def _span_changes(
+    name: str,
+    po: Part,
+    pn: Part,
+    pin_map: dict[str, str],
+    pins: tuple[dict[str, Point], dict[str, Point]],
+    tol: float,
+) -> list[Change]:
+    """The span between each two of a part's matched pins (``pins``: the old
+    and new pin centres by name [mm])."""
+    old_pins, new_pins = pins
+    found: list[Change] = []
+    mapped = [(a, pin_map[a]) for a in po.pins if a in pin_map and pin_map[a] in pn.pins]
+    for i, (a, a2) in enumerate(mapped):
+        for b, b2 in mapped[i + 1 :]:
+            d_old = dist(old_pins[a], old_pins[b])
+            d_new = dist(new_pins[a2], new_pins[b2])
+            if abs(d_new - d_old) > tol:
+                note = f"{name}: {a2} to {b2} {d_old:.4g} -> {d_new:.4g} mm"
+                at = _mid(new_pins[a2], new_pins[b2])
+                found.append(_resized("part", f"{name} {a2}–{b2}", d_old, d_new, "mm", note, at))
+    return found
+
+
+def _centreline_changes(name: str, po: Part, pn: Part, motion: Affine, tol: float) -> list[Change]:
+    """A part's centreline moved or re-shaped: the largest distance between
+    the old one, moved by the rigid motion, and the new one [mm]."""
+    moved = [(motion.apply(a), motion.apply(b)) for a, b in po.segments]
+    h = _shape_distance(moved, pn.segments)
+    if h <= tol:
+        return []
+    return [
+        _moved(
+            "part", f"{name} centreline", h, f"{name}: centreline moved or re-shaped, up to {h:.4g} mm", _far_end(pn)
+        )
+    ]
 
 
 def _angle_deg(v: Point) -> float:
@@ -620,67 +615,45 @@ def _load_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[s
     )
     out: list[Change] = []
     for lo, ln in pairs:
-        name = ln.name if lo.name == ln.name else f"{ln.name} (was {lo.name})"
-        d = dist(motion.apply(lo.point), ln.point)
-        if d > tol:
-            x, y = ln.point
-            out.append(
-                Change(
-                    "load",
-                    f"{name} point",
-                    "",
-                    0.0,
-                    d,
-                    "mm",
-                    d,
-                    None,
-                    note=f"{name}: moved {d:.4g} mm to ({x:.6g}, {y:.6g})",
-                    at=ln.point,
-                )
-            )
-        was = motion.apply_vector(lo.direction)
-        turn = _turn_deg(was, ln.direction)
-        if abs(turn) > ANGLE_TOL_DEG:
-            out.append(
-                Change(
-                    "load",
-                    f"{name} direction",
-                    "",
-                    _angle_deg(was),
-                    _angle_deg(ln.direction),
-                    "deg",
-                    turn,
-                    None,
-                    note=f"{name}: turned {turn:+.4g}° (counter-clockwise positive)",
-                    at=ln.point,
-                )
-            )
+        name = _renamed(lo.name, ln.name)
+        out += _load_place_changes(name, lo, ln, motion, tol)
         fo, fn = lo.magnitude_N, ln.magnitude_N
-        if fo is not None and fn is not None and abs(fn - fo) > UNCHANGED_RTOL * max(abs(fo), abs(fn)):
-            out.append(
-                Change(
-                    "load",
-                    f"{name} force",
-                    "",
-                    fo,
-                    fn,
-                    "N",
-                    fn - fo,
-                    _rel(fo, fn),
-                    note=f"{name}: {lo.text} -> {ln.text}",
-                    at=ln.point,
-                )
-            )
+        if fo is not None and fn is not None and _force_differs(fo, fn):
+            out.append(_resized("load", f"{name} force", fo, fn, "N", f"{name}: {lo.text} -> {ln.text}", ln.point))
         if key(lo) != ln.part:
             out.append(
                 Change(
                     "load", f"{name} part", "", lo.part, ln.part, "", note=f"{name}: now acts on {ln.part}", at=ln.point
                 )
             )
-    paired_old = {id(a) for a, _ in pairs}
-    paired_new = {id(b) for _, b in pairs}
-    out += [Change("removed", ld.name, "", "load", None, "") for ld in mo.loads if id(ld) not in paired_old]
-    out += [Change("added", ld.name, "", None, "load", "") for ld in mn.loads if id(ld) not in paired_new]
+    return out + _unpaired("load", mo.loads, mn.loads, pairs)
+
+
+def _load_place_changes(name: str, lo: Load, ln: Load, motion: Affine, tol: float) -> list[Change]:
+    """A matched load's point moved [mm] and its direction turned
+    [degrees, counter-clockwise positive], after the rigid motion."""
+    out: list[Change] = []
+    d = dist(motion.apply(lo.point), ln.point)
+    if d > tol:
+        x, y = ln.point
+        out.append(_moved("load", f"{name} point", d, f"{name}: moved {d:.4g} mm to ({x:.6g}, {y:.6g})", ln.point))
+    was = motion.apply_vector(lo.direction)
+    turn = _turn_deg(was, ln.direction)
+    if abs(turn) > ANGLE_TOL_DEG:
+        out.append(
+            Change(
+                "load",
+                f"{name} direction",
+                "",
+                _angle_deg(was),
+                _angle_deg(ln.direction),
+                "deg",
+                turn,
+                None,
+                note=f"{name}: turned {turn:+.4g}° (counter-clockwise positive)",
+                at=ln.point,
+            )
+        )
     return out
 
 
@@ -703,80 +676,51 @@ def _spring_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict
     )
     out: list[Change] = []
     for so, sn in pairs:
-        name = sn.name if so.name == sn.name else f"{sn.name} (was {so.name})"
-        a, b = (motion.apply(q) for q in so.ends)
-        ends = (
-            (a, b) if dist(a, sn.ends[0]) + dist(b, sn.ends[1]) <= dist(a, sn.ends[1]) + dist(b, sn.ends[0]) else (b, a)
+        name = _renamed(so.name, sn.name)
+        out += _spring_end_changes(name, so, sn, motion, tol)
+        out += _spring_size_changes(name, so, sn, tol)
+    return out + _unpaired("spring", mo.springs, mn.springs, pairs)
+
+
+def _spring_end_changes(name: str, so: Spring, sn: Spring, motion: Affine, tol: float) -> list[Change]:
+    """Each end of a matched spring that moved [mm], after the rigid motion;
+    the old ends are paired with the new ones the nearer way round."""
+    a, b = (motion.apply(q) for q in so.ends)
+    ends = (a, b) if dist(a, sn.ends[0]) + dist(b, sn.ends[1]) <= dist(a, sn.ends[1]) + dist(b, sn.ends[0]) else (b, a)
+    out: list[Change] = []
+    for k in range(2):
+        d = dist(ends[k], sn.ends[k])
+        if d > tol:
+            on = sn.parts[k] or "frame"
+            x, y = sn.ends[k]
+            note = f"{name}: its end on {on} moved {d:.4g} mm to ({x:.6g}, {y:.6g})"
+            out.append(_moved("spring", f"{name} end on {on}", d, note, sn.ends[k]))
+    return out
+
+
+#: A spring's sense by its ``tension`` flag.
+_SENSE = {True: "tension", False: "compression"}
+
+
+def _spring_size_changes(name: str, so: Spring, sn: Spring, tol: float) -> list[Change]:
+    """A matched spring's drawn length [mm], force [N] and sense."""
+    out: list[Change] = []
+    at = _mid(*sn.ends)
+    l_old, l_new = dist(*so.ends), dist(*sn.ends)
+    if abs(l_new - l_old) > tol:
+        out.append(
+            _resized(
+                "spring", f"{name} length", l_old, l_new, "mm", f"{name}: drawn {l_old:.4g} -> {l_new:.4g} mm long", at
+            )
         )
-        for k in range(2):
-            d = dist(ends[k], sn.ends[k])
-            if d > tol:
-                on = sn.parts[k] or "frame"
-                x, y = sn.ends[k]
-                out.append(
-                    Change(
-                        "spring",
-                        f"{name} end on {on}",
-                        "",
-                        0.0,
-                        d,
-                        "mm",
-                        d,
-                        None,
-                        note=f"{name}: its end on {on} moved {d:.4g} mm to ({x:.6g}, {y:.6g})",
-                        at=sn.ends[k],
-                    )
-                )
-        l_old, l_new = dist(*so.ends), dist(*sn.ends)
-        if abs(l_new - l_old) > tol:
-            out.append(
-                Change(
-                    "spring",
-                    f"{name} length",
-                    "",
-                    l_old,
-                    l_new,
-                    "mm",
-                    l_new - l_old,
-                    _rel(l_old, l_new),
-                    note=f"{name}: drawn {l_old:.4g} -> {l_new:.4g} mm long",
-                    at=_mid(*sn.ends),
-                )
-            )
-        fo, fn = so.force_N, sn.force_N
-        if fo is not None and fn is not None and abs(fn - fo) > UNCHANGED_RTOL * max(abs(fo), abs(fn)):
-            out.append(
-                Change(
-                    "spring",
-                    f"{name} force",
-                    "",
-                    fo,
-                    fn,
-                    "N",
-                    fn - fo,
-                    _rel(fo, fn),
-                    note=f"{name}: {so.text} -> {sn.text}",
-                    at=_mid(*sn.ends),
-                )
-            )
-        if so.tension != sn.tension:
-            sense = {True: "tension", False: "compression"}
-            out.append(
-                Change(
-                    "spring",
-                    f"{name} sense",
-                    "",
-                    sense[so.tension],
-                    sense[sn.tension],
-                    "",
-                    note=f"{name}: sense changed",
-                    at=_mid(*sn.ends),
-                )
-            )
-    paired_old = {id(a) for a, _ in pairs}
-    paired_new = {id(b) for _, b in pairs}
-    out += [Change("removed", sp.name, "", "spring", None, "") for sp in mo.springs if id(sp) not in paired_old]
-    out += [Change("added", sp.name, "", None, "spring", "") for sp in mn.springs if id(sp) not in paired_new]
+    fo, fn = so.force_N, sn.force_N
+    if fo is not None and fn is not None and _force_differs(fo, fn):
+        out.append(_resized("spring", f"{name} force", fo, fn, "N", f"{name}: {so.text} -> {sn.text}", at))
+    if so.tension != sn.tension:
+        sense_old, sense_new = _SENSE[so.tension], _SENSE[sn.tension]
+        out.append(
+            Change("spring", f"{name} sense", "", sense_old, sense_new, "", note=f"{name}: sense changed", at=at)
+        )
     return out
 
 
