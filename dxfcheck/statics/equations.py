@@ -8,8 +8,11 @@ References: Beer & Johnston, *Vector Mechanics for Engineers: Statics*,
 
 from __future__ import annotations
 
+import enum
 import math
 from dataclasses import dataclass
+from functools import cached_property
+from typing import NamedTuple
 
 import numpy as np
 from numpy.typing import NDArray
@@ -23,11 +26,19 @@ from dxfcheck.statics.contact.long_shoe import LongHingedShoe, LongPivotedShoe
 
 __all__ = [
     "DEFAULT_OPTIONS",
+    "Axis",
+    "Balance",
+    "ColumnKind",
+    "ColumnOwner",
+    "RowKind",
+    "RowOwner",
     "System",
     "assemble",
     "band_ratio",
     "coefficients",
+    "column_owners",
     "contact_models",
+    "row_owners",
     "solve_system",
     "tight_at_end",
 ]
@@ -40,15 +51,96 @@ DEFAULT_OPTIONS = ContactOptions()
 ZERO_ROW_RTOL = 1e-12
 
 
+class RowKind(enum.StrEnum):
+    """What an equation balances: a moving part (three rows) or a pin (two)."""
+
+    BODY = "body"
+    PIN = "pin"
+
+
+class Balance(enum.IntEnum):
+    """Which sum a row writes: the forces along x and y, the moment."""
+
+    FX = 0
+    FY = 1
+    MOMENT = 2
+
+
+#: The rows of a pin: its two force sums (a pin is a particle).
+PIN_BALANCES = (Balance.FX, Balance.FY)
+
+
+class RowOwner(NamedTuple):
+    """Whose equation a row is."""
+
+    kind: RowKind
+    name: str
+    balance: Balance
+
+
+class ColumnKind(enum.StrEnum):
+    """What an unknown is: a pin's force on a body, a shoe's contact
+    coefficient, a band's slack tension."""
+
+    PIN = "pin"
+    SHOE = "shoe"
+    BAND = "band"
+
+
+class Axis(enum.IntEnum):
+    """The component of a pin force an unknown is."""
+
+    X = 0
+    Y = 1
+
+
+class ColumnOwner(NamedTuple):
+    """Whose unknown a column is.
+
+    ``body`` and ``axis`` belong to pin columns (the force of pin ``name`` on
+    ``body``, component ``axis``), ``basis`` to shoe columns (the index of
+    the shoe's basis wrench).
+    """
+
+    kind: ColumnKind
+    name: str
+    body: str = ""
+    axis: Axis = Axis.X
+    basis: int = 0
+
+
 @dataclass
 class System:
+    """The equilibrium equations ``a·x = b`` of one drum direction and μ,
+    with each row's and column's owner, the shoes' basis wrenches, the rows
+    dropped as identities (0 = 0) and the contact models' findings."""
+
     a: NDArray[np.float64]
     b: NDArray[np.float64]
-    row_owner: list[tuple[str, str]]  # ("body"|"pin", name)
-    col_owner: list[tuple[str, str, str]]  # ("pin", pin, body) | ("shoe", shoe, basis index)
+    row_owner: list[RowOwner]
+    col_owner: list[ColumnOwner]
     bases: dict[str, tuple[ContactWrench, ...]]
     dropped: list[int]
     findings: list[Finding]
+
+    @property
+    def kept(self) -> list[int]:
+        """The rows that are solved (every row not dropped)."""
+        return [i for i in range(self.a.shape[0]) if i not in self.dropped]
+
+    @cached_property
+    def row_index(self) -> dict[RowOwner, int]:
+        """Each row's index by its owner."""
+        return {o: i for i, o in enumerate(self.row_owner)}
+
+    @cached_property
+    def column_index(self) -> dict[ColumnOwner, int]:
+        """Each column's index by its owner."""
+        return {o: j for j, o in enumerate(self.col_owner)}
+
+    def columns(self, kind: ColumnKind) -> list[tuple[int, ColumnOwner]]:
+        """The columns of one kind with their indices, in order."""
+        return [(j, o) for j, o in enumerate(self.col_owner) if o.kind is kind]
 
 
 def band_ratio(band: Band, mu: float) -> float:
@@ -124,64 +216,132 @@ def contact_models(
 
 
 def assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> System:
-    L = mech.length_scale_mm
-    bodies = [p.name for p in mech.parts]
-    bidx = {n: i for i, n in enumerate(bodies)}
-    refs = {p.name: _ref_point(mech, p) for p in mech.parts}
-    pins = mech.pins
-    n_rows = 3 * len(bodies) + 2 * len(pins)
-    cols: list[tuple[str, str, str]] = []
-    for p in pins:
-        for body in p.bodies:
-            cols.append(("pin", p.name, body))
+    """The equilibrium equations of ``mech`` at friction coefficient ``mu``
+    with the drum turning in ``direction``: the moment rows are divided by
+    the mechanism's length scale so that every row is in newtons."""
+    rows = row_owners(mech)
     bases = {sh.name: models[sh.name].basis(mu, direction) for sh in mech.shoes}
-    n_shoe_cols = sum(len(v) for v in bases.values())
-    a = np.zeros((n_rows, 2 * len(cols) + n_shoe_cols + len(mech.bands)))
-    b = np.zeros(n_rows)
-    row_owner = [("body", n) for n in bodies for _ in range(3)] + [("pin", p.name) for p in pins for _ in range(2)]
-    col_owner: list[tuple[str, str, str]] = []
-    c = 0
-    for k, p in enumerate(pins):
-        prow = 3 * len(bodies) + 2 * k
-        px, py = p.center
-        for body in p.bodies:
-            col_owner += [("pin", p.name, body), ("pin", p.name, body)]
-            a[prow, c] = 1.0
-            a[prow + 1, c + 1] = 1.0
-            if body != FRAME:
-                r = 3 * bidx[body]
-                rx, ry = px - refs[body][0], py - refs[body][1]
-                a[r, c] = 1.0
-                a[r + 1, c + 1] = 1.0
-                a[r + 2, c] = -ry / L
-                a[r + 2, c + 1] = rx / L
-            c += 2
+    cols = column_owners(mech, bases)
+    index = {o: i for i, o in enumerate(rows)}
+    refs = {p.name: _ref_point(mech, p) for p in mech.parts}
+    a = np.zeros((len(rows), len(cols)))
+    _pin_columns(mech, a, cols, index, refs)
+    findings = _shoe_columns(mech, a, cols, index, refs, bases)
+    _band_columns(mech, a, cols, index, mu, direction)
+    b = _applied(mech, len(rows), index, refs)
+    # drop identities 0 = 0 (a pivoted shoe's moment about its own pin)
+    scale = float(np.abs(a).max()) if a.size else 1.0
+    dropped = [i for i in range(len(rows)) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
+    return System(a, b, rows, cols, bases, dropped, findings)
+
+
+def row_owners(mech: Mechanism) -> list[RowOwner]:
+    """Every part's three balances, then every pin's two."""
+    return [RowOwner(RowKind.BODY, p.name, bal) for p in mech.parts for bal in Balance] + [
+        RowOwner(RowKind.PIN, p.name, bal) for p in mech.pins for bal in PIN_BALANCES
+    ]
+
+
+def column_owners(mech: Mechanism, bases: dict[str, tuple[ContactWrench, ...]]) -> list[ColumnOwner]:
+    """Every pin's force on each body it joins (x, y), then every shoe's
+    contact coefficients, then every band's slack tension."""
+    return (
+        [ColumnOwner(ColumnKind.PIN, p.name, body, axis) for p in mech.pins for body in p.bodies for axis in Axis]
+        + [ColumnOwner(ColumnKind.SHOE, s.name, basis=k) for s in mech.shoes for k in range(len(bases[s.name]))]
+        + [ColumnOwner(ColumnKind.BAND, band.name) for band in mech.bands]
+    )
+
+
+def _pin_columns(
+    mech: Mechanism,
+    a: NDArray[np.float64],
+    cols: list[ColumnOwner],
+    index: dict[RowOwner, int],
+    refs: dict[str, Point],
+) -> None:
+    """Each pin force: on the pin (its own force balance) and on the body
+    (force and moment balance about the body's reference point)."""
+    L = mech.length_scale_mm
+    for c, o in enumerate(cols):
+        if o.kind is not ColumnKind.PIN:
+            continue
+        bal = Balance(o.axis)
+        a[index[RowOwner(RowKind.PIN, o.name, bal)], c] = 1.0
+        if o.body == FRAME:
+            continue
+        px, py = mech.pin(o.name).center
+        rx, ry = px - refs[o.body][0], py - refs[o.body][1]
+        a[index[RowOwner(RowKind.BODY, o.body, bal)], c] = 1.0
+        a[index[RowOwner(RowKind.BODY, o.body, Balance.MOMENT)], c] = -ry / L if o.axis is Axis.X else rx / L
+
+
+def _body_rows(index: dict[RowOwner, int], body: str) -> tuple[int, int, int]:
+    """The force and moment rows of a body."""
+    return (
+        index[RowOwner(RowKind.BODY, body, Balance.FX)],
+        index[RowOwner(RowKind.BODY, body, Balance.FY)],
+        index[RowOwner(RowKind.BODY, body, Balance.MOMENT)],
+    )
+
+
+def _shoe_columns(
+    mech: Mechanism,
+    a: NDArray[np.float64],
+    cols: list[ColumnOwner],
+    index: dict[RowOwner, int],
+    refs: dict[str, Point],
+    bases: dict[str, tuple[ContactWrench, ...]],
+) -> list[Finding]:
+    """Each shoe's basis wrenches on its part's balances; returns the
+    wrenches' findings."""
+    L = mech.length_scale_mm
+    part_of = {s.name: s.part for s in mech.shoes}
     findings: list[Finding] = []
-    for sh in mech.shoes:
-        r = 3 * bidx[sh.part]
-        for k, w in enumerate(bases[sh.name]):
-            findings += w.findings
-            a[r, c] = w.force[0]
-            a[r + 1, c] = w.force[1]
-            a[r + 2, c] = w.moment_about(refs[sh.part]) / L
-            col_owner.append(("shoe", sh.name, str(k)))
-            c += 1
-    # bands: unknown slack-side tension; each end pulls its pin towards the drum
-    pin_row = {p.name: 3 * len(bodies) + 2 * k for k, p in enumerate(pins)}
+    for c, o in enumerate(cols):
+        if o.kind is not ColumnKind.SHOE:
+            continue
+        w = bases[o.name][o.basis]
+        part = part_of[o.name]
+        findings += w.findings
+        rx, ry, rm = _body_rows(index, part)
+        a[rx, c] = w.force[0]
+        a[ry, c] = w.force[1]
+        a[rm, c] = w.moment_about(refs[part]) / L
+    return findings
+
+
+def _band_columns(
+    mech: Mechanism,
+    a: NDArray[np.float64],
+    cols: list[ColumnOwner],
+    index: dict[RowOwner, int],
+    mu: float,
+    direction: Direction,
+) -> None:
+    """Each band's unknown slack-side tension: each end pulls its pin
+    towards the drum, the tight end e^(μθ) times harder."""
     at_end = tight_at_end(direction)
-    for band in mech.bands:
+    bands = {band.name: band for band in mech.bands}
+    for c, o in enumerate(cols):
+        if o.kind is not ColumnKind.BAND:
+            continue
+        band = bands[o.name]
         ratio = band_ratio(band, mu)
         for pin_name, u, tight in (
             (band.start_pin, band.start_dir, not at_end),
             (band.end_pin, band.end_dir, at_end),
         ):
             share = ratio if tight else 1.0
-            r = pin_row[pin_name]
             # pin equilibrium: Σ (pin on bodies) − (band on pin) = 0
-            a[r, c] -= share * u[0]
-            a[r + 1, c] -= share * u[1]
-        col_owner.append(("band", band.name, ""))
-        c += 1
+            a[index[RowOwner(RowKind.PIN, pin_name, Balance.FX)], c] -= share * u[0]
+            a[index[RowOwner(RowKind.PIN, pin_name, Balance.FY)], c] -= share * u[1]
+
+
+def _applied(mech: Mechanism, n_rows: int, index: dict[RowOwner, int], refs: dict[str, Point]) -> NDArray[np.float64]:
+    """The right-hand side: minus the loads' and springs' forces and moments
+    on their parts."""
+    L = mech.length_scale_mm
+    b = np.zeros(n_rows)
     applied: list[tuple[str, Point, Point]] = [(ld.part, ld.point, ld.force) for ld in mech.loads if ld.part]
     for sp in mech.springs:
         for end in (0, 1):
@@ -189,19 +349,18 @@ def assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direct
             if part is not None:
                 applied.append((part, sp.ends[end], sp.force_on(end)))
     for part, point, (fx, fy) in applied:
-        r = 3 * bidx[part]
+        rx_row, ry_row, rm_row = _body_rows(index, part)
         rx, ry = point[0] - refs[part][0], point[1] - refs[part][1]
-        b[r] -= fx
-        b[r + 1] -= fy
-        b[r + 2] -= (rx * fy - ry * fx) / L
-    # drop identities 0 = 0 (a pivoted shoe's moment about its own pin)
-    scale = float(np.abs(a).max()) if a.size else 1.0
-    dropped = [i for i in range(n_rows) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
-    return System(a, b, row_owner, col_owner, bases, dropped, findings)
+        b[rx_row] -= fx
+        b[ry_row] -= fy
+        b[rm_row] -= (rx * fy - ry * fx) / L
+    return b
 
 
 def solve_system(sys_: System) -> NDArray[np.float64]:
-    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
+    """The unknowns: an exact solve of the kept rows when they are square,
+    else least squares."""
+    keep = sys_.kept
     a, b = sys_.a[keep], sys_.b[keep]
     return np.asarray(
         np.linalg.solve(a, b) if a.shape[0] == a.shape[1] else np.linalg.lstsq(a, b, rcond=None)[0],
@@ -210,4 +369,5 @@ def solve_system(sys_: System) -> NDArray[np.float64]:
 
 
 def coefficients(sys_: System, x: NDArray[np.float64], shoe: str) -> list[float]:
-    return [float(x[j]) for j, o in enumerate(sys_.col_owner) if o[0] == "shoe" and o[1] == shoe]
+    """A shoe's contact coefficients in the solution ``x``, in basis order."""
+    return [float(x[j]) for j, o in sys_.columns(ColumnKind.SHOE) if o.name == shoe]

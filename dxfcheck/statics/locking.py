@@ -14,25 +14,27 @@ from dxfcheck.core.directions import Direction
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.statics.contact import ContactModel, ContactOptions
 from dxfcheck.statics.diagnosis import MODE_SHARE
-from dxfcheck.statics.equations import DEFAULT_OPTIONS, System, assemble, contact_models
+from dxfcheck.statics.equations import DEFAULT_OPTIONS, ColumnKind, System, assemble, contact_models
 
 __all__ = ["critical_mu"]
 
 #: Friction coefficients searched for the self-locking limit [-].
 MU_SCAN_MAX = 1.0
-
-
+#: Steps of the scan over 0..``MU_SCAN_MAX``.
 MU_SCAN_STEPS = 100
 
 
 #: Bisection on the self-locking limit stops at this width [-].
 MU_TOL = 1e-12
+#: A shoe load below minus this fraction of the largest pulls on the drum.
+PRESS_RTOL = 1e-6
 
 
 def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> float:
+    """The sign of the kept equations' determinant at ``mu``; NaN when they
+    are not square."""
     sys_ = assemble(mech, models, mu, direction)
-    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
-    a = sys_.a[keep]
+    a = sys_.a[sys_.kept]
     if a.shape[0] != a.shape[1]:
         return math.nan
     sign, _ = np.linalg.slogdet(a)
@@ -84,23 +86,24 @@ def _shoe_loads(sys_: System, v: NDArray[np.float64]) -> dict[str, float]:
     """Each shoe's total normal load Σ (unknown × ∫q·r dφ) for a vector of
     unknowns (the braking torque over μr: positive when it presses)."""
     out: dict[str, float] = {}
-    for j, (kind, name, k) in enumerate(sys_.col_owner):
-        if kind == "shoe":
-            w = sys_.bases[name][int(k)]
-            out[name] = out.get(name, 0.0) + float(v[j]) * w.torque_per_unit_Nmm
-        elif kind == "band":
-            out[name] = float(v[j])  # slack tension: positive when the band is taut
+    for j, o in enumerate(sys_.col_owner):
+        if o.kind is ColumnKind.SHOE:
+            w = sys_.bases[o.name][o.basis]
+            out[o.name] = out.get(o.name, 0.0) + float(v[j]) * w.torque_per_unit_Nmm
+        elif o.kind is ColumnKind.BAND:
+            out[o.name] = float(v[j])  # slack tension: positive when the band is taut
     return out
 
 
 def _all_shoes_press(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> bool:
+    """Whether the unloaded solution at ``mu`` (the last right singular
+    vector) presses every shoe and band onto the drum."""
     sys_ = assemble(mech, models, mu, direction)
-    keep = [i for i in range(sys_.a.shape[0]) if i not in sys_.dropped]
-    _, _, vt = np.linalg.svd(sys_.a[keep])
+    _, _, vt = np.linalg.svd(sys_.a[sys_.kept])
     loads = list(_shoe_loads(sys_, vt[-1]).values())
     if not loads:
         return False
     if sum(loads) < 0:
         loads = [-x for x in loads]
     top = max(abs(x) for x in loads)
-    return top > 0 and all(x >= -1e-6 * top for x in loads) and max(loads) > MODE_SHARE * top
+    return top > 0 and all(x >= -PRESS_RTOL * top for x in loads) and max(loads) > MODE_SHARE * top

@@ -27,16 +27,27 @@ from collections.abc import Sequence
 from concurrent.futures import ThreadPoolExecutor
 from concurrent.futures import TimeoutError as FuturesTimeout
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 from numpy.typing import NDArray
 
 from dxfcheck.core import deadline
 from dxfcheck.core.errors import ConfigError
-from dxfcheck.mechanism import FRAME, Mechanism
-from dxfcheck.statics.contact import ContactOptions, Direction
-from dxfcheck.statics.contact.short_shoe import ShortPivotedShoe
-from dxfcheck.statics.equations import DEFAULT_OPTIONS, assemble, contact_models
+from dxfcheck.core.geometry import Point
+from dxfcheck.mechanism import FRAME, Drum, Mechanism, Shoe
+from dxfcheck.statics.contact import ContactModel, ContactOptions, Direction
+from dxfcheck.statics.equations import (
+    DEFAULT_OPTIONS,
+    Axis,
+    Balance,
+    ColumnKind,
+    RowKind,
+    RowOwner,
+    System,
+    assemble,
+    contact_models,
+)
 
 __all__ = ["CHUNK", "MAX_SAMPLES", "DirectionStats", "SensitivityResult", "sample_design", "torque_curve"]
 
@@ -48,6 +59,31 @@ CHUNK = 4_000
 MAX_SAMPLES = 1_000_000
 #: Percentiles reported.
 PERCENTILES = (1.0, 5.0, 50.0, 95.0, 99.0)
+#: The percentile of a pin's force that picks the governing pin.
+GOVERNING_PERCENTILE = 95.0
+#: Points of the torque-over-μ curve.
+CURVE_POINTS = 41
+#: N·mm per N·m.
+NMM_PER_NM = 1000.0
+
+
+class _Pivoted(NamedTuple):
+    """A shoe column whose contact point follows a pin (friction circle)."""
+
+    column: int
+    shoe: Shoe
+    pin_center: Point
+    body: str
+
+
+class _PinTerm(NamedTuple):
+    """A moment-row entry that moves with a pin: ``-dy/L`` on the pin
+    force's x column, ``+dx/L`` on its y column."""
+
+    pin: int
+    row: int
+    column: int
+    axis: Axis
 
 
 @dataclass(frozen=True)
@@ -92,60 +128,70 @@ class _Parts:
         models, _ = contact_models(mech, options)  # fresh models: every lining in full contact
         s0 = assemble(mech, models, 0.0, direction)
         s1 = assemble(mech, models, 1.0, direction)
-        self.keep = [i for i in range(s0.a.shape[0]) if i not in s0.dropped]
+        self.keep = s0.kept
         if len(self.keep) != s0.a.shape[1]:
             raise ConfigError("sampling needs a statically determinate linkage")
         self.mech = mech
         self.direction = direction
         self.b = s0.b[self.keep]
-        a0, a1 = s0.a, s1.a
-        self.fixed = a0.copy()
-        self.mu_part = np.zeros_like(a0)
-        self.exp_part = np.zeros_like(a0)
+        self.fixed = s0.a.copy()
+        self.mu_part = np.zeros_like(s0.a)
+        self.exp_part = np.zeros_like(s0.a)
         self.exp_theta: dict[int, float] = {}
-        self.torque0 = np.zeros(a0.shape[1])
-        self.torque_mu = np.zeros(a0.shape[1])
-        self.torque_exp = np.zeros(a0.shape[1])
-        self.pivoted: list[tuple[int, ShortPivotedShoe, int]] = []
-        body_row = {p.name: 3 * k for k, p in enumerate(mech.parts)}
-        for j, (kind, name, idx) in enumerate(s0.col_owner):
-            if kind == "shoe":
-                model = models[name]
-                w0, w1 = s0.bases[name][int(idx)], s1.bases[name][int(idx)]
-                if isinstance(model, ShortPivotedShoe):
-                    shoe = next(s for s in mech.shoes if s.name == name)
-                    self.pivoted.append((j, model, body_row[shoe.part]))
-                    self.fixed[:, j] = 0.0
-                    self.torque_mu[j] = w1.torque_per_unit_Nmm  # μ·r per unit normal force
-                    continue
-                self.mu_part[:, j] = a1[:, j] - a0[:, j]
-                self.torque_mu[j] = w1.torque_per_unit_Nmm - w0.torque_per_unit_Nmm
-                self.torque0[j] = w0.torque_per_unit_Nmm
-            elif kind == "band":
-                band = next(b for b in mech.bands if b.name == name)
-                theta = math.radians(band.wrap_deg)
-                tight = (a1[:, j] - a0[:, j]) / (math.exp(theta) - 1.0)
-                self.exp_part[:, j] = tight
-                self.fixed[:, j] = a0[:, j] - tight
-                self.exp_theta[j] = theta
-                self.torque_exp[j] = band.radius_mm  # (e^(μθ) − 1)·r per unit slack tension
-                self.torque0[j] = -band.radius_mm
-        # pin columns: (moment row, column, which coordinate) entries that move with a pin
-        self.pin_terms: list[tuple[int, int, int, int]] = []  # (pin index, row, col, sign·axis)
-        self.pin_cols: list[tuple[int, int]] = []  # (pin index, first column) of the first body
-        c = 0
-        for k, pin in enumerate(mech.pins):
-            first = True
-            for body in pin.bodies:
-                if first:
-                    self.pin_cols.append((k, c))
-                    first = False
-                if body != FRAME:
-                    r = body_row[body] + 2
-                    self.pin_terms.append((k, r, c, 0))  # −dy/L on the x column
-                    self.pin_terms.append((k, r, c + 1, 1))  # +dx/L on the y column
-                c += 2
+        self.torque0 = np.zeros(s0.a.shape[1])
+        self.torque_mu = np.zeros(s0.a.shape[1])
+        self.torque_exp = np.zeros(s0.a.shape[1])
+        self.pivoted: list[_Pivoted] = []
+        self._shoe_columns(models, s0, s1)
+        self._band_columns(s0, s1)
+        self._pin_columns(s0)
         self.L = mech.length_scale_mm
+
+    def _shoe_columns(self, models: dict[str, ContactModel], s0: System, s1: System) -> None:
+        """Shoe columns: affine in μ, except where a pin places the contact
+        (re-placed per sample)."""
+        shoes = {s.name: s for s in self.mech.shoes}
+        for j, o in s0.columns(ColumnKind.SHOE):
+            w0, w1 = s0.bases[o.name][o.basis], s1.bases[o.name][o.basis]
+            pin = models[o.name].contact_pin
+            if pin is not None:
+                self.pivoted.append(_Pivoted(j, shoes[o.name], pin, shoes[o.name].part))
+                self.fixed[:, j] = 0.0
+                self.torque_mu[j] = w1.torque_per_unit_Nmm  # μ·r per unit normal force
+                continue
+            self.mu_part[:, j] = s1.a[:, j] - s0.a[:, j]
+            self.torque_mu[j] = w1.torque_per_unit_Nmm - w0.torque_per_unit_Nmm
+            self.torque0[j] = w0.torque_per_unit_Nmm
+
+    def _band_columns(self, s0: System, s1: System) -> None:
+        """Band columns: the tight end's share scales with e^(μθ)."""
+        bands = {b.name: b for b in self.mech.bands}
+        for j, o in s0.columns(ColumnKind.BAND):
+            band = bands[o.name]
+            theta = math.radians(band.wrap_deg)
+            tight = (s1.a[:, j] - s0.a[:, j]) / (math.exp(theta) - 1.0)
+            self.exp_part[:, j] = tight
+            self.fixed[:, j] = s0.a[:, j] - tight
+            self.exp_theta[j] = theta
+            self.torque_exp[j] = band.radius_mm  # (e^(μθ) − 1)·r per unit slack tension
+            self.torque0[j] = -band.radius_mm
+
+    def _pin_columns(self, s0: System) -> None:
+        """Pin columns: the moment-row entries that move with a pin, and
+        each pin's first column (its force on its first body)."""
+        pin_index = {p.name: k for k, p in enumerate(self.mech.pins)}
+        self.pin_terms: list[_PinTerm] = []
+        self.pin_cols: list[tuple[int, int]] = []  # (pin index, x column) of the first body
+        seen: set[str] = set()
+        for c, o in s0.columns(ColumnKind.PIN):
+            k = pin_index[o.name]
+            if o.axis is Axis.X and o.name not in seen:
+                seen.add(o.name)
+                self.pin_cols.append((k, c))
+            if o.body != FRAME:
+                r = s0.row_index[RowOwner(RowKind.BODY, o.body, Balance.MOMENT)]
+                self.pin_terms.append(_PinTerm(k, r, c, o.axis))
+        self._rows = s0.row_index
 
     def prepare(self) -> None:
         """Keep only the rows that are solved, and the columns that vary."""
@@ -154,11 +200,17 @@ class _Parts:
         self.mu_cols = [j for j in range(self.fixed.shape[1]) if np.any(self.mu_part[:, j])]
         self.mu_k = {j: self.mu_part[self.keep, j] for j in self.mu_cols}
         self.exp_k = {j: self.exp_part[self.keep, j] for j in self.exp_theta}
-        self.pin_terms_k = [(k, rows[r], c, axis) for k, r, c, axis in self.pin_terms if r in rows]
+        self.pin_terms_k = [t._replace(row=rows[t.row]) for t in self.pin_terms if t.row in rows]
         pin_index = {p.center: i for i, p in enumerate(self.mech.pins)}
         self.pivoted_k = [
-            (j, model, pin_index[model.pin_center], rows[row], rows[row + 1], rows.get(row + 2))
-            for j, model, row in self.pivoted
+            (
+                pv,
+                pin_index[pv.pin_center],
+                rows[self._rows[RowOwner(RowKind.BODY, pv.body, Balance.FX)]],
+                rows[self._rows[RowOwner(RowKind.BODY, pv.body, Balance.FY)]],
+                rows.get(self._rows[RowOwner(RowKind.BODY, pv.body, Balance.MOMENT)]),
+            )
+            for pv in self.pivoted
         ]
         self._local = threading.local()  # one work buffer per thread
 
@@ -178,14 +230,16 @@ class _Parts:
             a[:, :, j] += mu[:, None] * self.mu_k[j]
         for j, theta in self.exp_theta.items():
             a[:, :, j] += np.exp(mu * theta)[:, None] * self.exp_k[j]
-        for k, r, c, axis in self.pin_terms_k:
-            if axis == 0:
-                a[:, r, c] -= dpin[:, k, 1] / self.L
+        for t in self.pin_terms_k:
+            if t.axis is Axis.X:
+                a[:, t.row, t.column] -= dpin[:, t.pin, 1] / self.L
             else:
-                a[:, r, c] += dpin[:, k, 0] / self.L
+                a[:, t.row, t.column] += dpin[:, t.pin, 0] / self.L
         pins = self.mech.pins
-        for j, model, k, r0, r1, r2 in self.pivoted_k:
-            fx, fy, px_c, py_c = _pivoted_contact(model, mu, dpin[:, k, :], self.direction)
+        assert self.mech.drum is not None
+        for pv, k, r0, r1, r2 in self.pivoted_k:
+            fx, fy, px_c, py_c = _pivoted_contact(pv, self.mech.drum, mu, dpin[:, k, :], self.direction)
+            j = pv.column
             a[:, r0, j] = fx
             a[:, r1, j] = fy
             if r2 is not None:
@@ -196,28 +250,29 @@ class _Parts:
         for j, theta in self.exp_theta.items():
             torque += x[:, j] * np.exp(mu * theta) * self.torque_exp[j]
         forces = np.stack([np.hypot(x[:, c], x[:, c + 1]) for _, c in self.pin_cols], axis=1)
-        return torque / 1000.0, forces
+        return torque / NMM_PER_NM, forces
 
 
 def _pivoted_contact(
-    model: ShortPivotedShoe, mu: NDArray[np.float64], dpin: NDArray[np.float64], direction: Direction
+    pv: _Pivoted, drum: Drum, mu: NDArray[np.float64], dpin: NDArray[np.float64], direction: Direction
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
     """Vectorised friction-circle contact (see ShortPivotedShoe.wrench)."""
-    cx, cy = model.drum.center
-    r = model.drum.radius_mm
-    px = model.pin_center[0] + dpin[:, 0] - cx
-    py = model.pin_center[1] + dpin[:, 1] - cy
+    shoe = pv.shoe
+    cx, cy = drum.center
+    r = drum.radius_mm
+    px = pv.pin_center[0] + dpin[:, 0] - cx
+    py = pv.pin_center[1] + dpin[:, 1] - cy
     p = np.hypot(px, py)
     beta = np.arctan2(py, px)
     s = float(direction.sign)
     phi_s = s * np.arctan(mu)
     k = np.clip(r * np.sin(phi_s) / p, -1.0, 1.0)
     asn = np.arcsin(k)
-    mid = math.radians(model.shoe.arc.mid_deg)
-    sgn = -1.0 if model.shoe.internal else 1.0
+    mid = math.radians(shoe.arc.mid_deg)
+    sgn = -1.0 if shoe.internal else 1.0
     best_alpha = np.full_like(mu, np.nan)
     best_off = np.full_like(mu, np.inf)
-    for delta in (asn - phi_s, np.pi - asn - phi_s) if model.shoe.internal else (phi_s - asn, phi_s - np.pi + asn):
+    for delta in (asn - phi_s, np.pi - asn - phi_s) if shoe.internal else (phi_s - asn, phi_s - np.pi + asn):
         alpha = beta - delta
         nx, ny = sgn * np.cos(alpha), sgn * np.sin(alpha)
         tx, ty = -s * np.sin(alpha), s * np.cos(alpha)
@@ -306,12 +361,12 @@ def sample_design(
         results = _solve_chunks(parts, mu_all, dpin_all, chunk)
         torque = np.concatenate([t for t, _ in results])
         force = np.concatenate([f for _, f in results])
-        worst = int(np.argmax(np.percentile(force, 95, axis=0)))
+        worst = int(np.argmax(np.percentile(force, GOVERNING_PERCENTILE, axis=0)))
         below = None if required_torque_Nm is None else float(np.mean(torque < required_torque_Nm))
         stats.append(
             DirectionStats(str(direction), _stats(torque), _stats(force[:, worst]), mech.pins[worst].name, below)
         )
-        grid = np.linspace(lo, hi, 41)
+        grid = np.linspace(lo, hi, CURVE_POINTS)
         t_grid, _ = parts.solve(grid, np.zeros((grid.size, len(mech.pins), 2)))
         curve[str(direction)] = [(float(m), float(t)) for m, t in zip(grid, t_grid, strict=True)]
     return SensitivityResult(

@@ -42,9 +42,10 @@ from numpy.typing import NDArray
 from dxfcheck.core.errors import SolveError
 from dxfcheck.core.findings import Code, Finding, Severity, has_errors
 from dxfcheck.core.geometry import Point, dist
-from dxfcheck.mechanism import Band, Mechanism
+from dxfcheck.mechanism import Band, Mechanism, Shoe
 from dxfcheck.statics.contact import (
     ContactModel,
+    ContactModelName,
     ContactOptions,
     ContactWrench,
     Direction,
@@ -53,10 +54,12 @@ from dxfcheck.statics.contact import (
     line_of_action_point,
     moment_about_center,
 )
-from dxfcheck.statics.contact.long_shoe import LongPivotedShoe, equivalent_mu
+from dxfcheck.statics.contact.long_shoe import equivalent_mu
 from dxfcheck.statics.diagnosis import CONDITION_WARN, diagnose
 from dxfcheck.statics.equations import (
     DEFAULT_OPTIONS,
+    Axis,
+    ColumnKind,
     System,
     assemble,
     band_ratio,
@@ -108,6 +111,10 @@ LIFT_RTOL = 1e-9
 AT_LIMIT_RTOL = 1e-6
 #: Most re-solves while pivoted long shoes settle their contact patches.
 PATCH_ITERATIONS = 30
+#: N·mm per N·m.
+NMM_PER_NM = 1000.0
+#: Stands in for the largest force when there is none [N] (no division by 0).
+TINY_FORCE_N = 1e-300
 
 
 def _settle_contact(
@@ -134,16 +141,22 @@ def _settle_contact(
                 ) from None
             break
         changed = [s.name for s in mech.shoes if models[s.name].refine(coefficients(sys_, x, s.name), mu, direction)]
-        edge = [s.name for s in mech.shoes if getattr(models[s.name], "on_edge", False)]
+        edge = [s.name for s in mech.shoes if models[s.name].on_edge]
         if edge:
             changed = edge
             break
         if not changed:
             return sys_, x
         sys_ = assemble(mech, models, mu, direction)
-    names = changed or [s.name for s in mech.shoes if getattr(models[s.name], "partial", False)]
+    names = changed or [s.name for s in mech.shoes if models[s.name].partial]
+    raise _unsettled(mech, direction, names)
+
+
+def _unsettled(mech: Mechanism, direction: Direction, names: list[str]) -> SolveError:
+    """The refusal (S313) of contact patches that do not settle, naming the
+    shoes ``names`` (every shoe when none is named)."""
     shoes = [s for s in mech.shoes if s.name in names] or list(mech.shoes)
-    raise SolveError(
+    return SolveError(
         f"{direction}: the shoes' contact cannot be settled",
         path=mech.drawing.path,
         findings=[
@@ -216,14 +229,9 @@ def _with_warnings(mech: Mechanism, exc: SolveError) -> SolveError:
 def _solve_case(
     mech: Mechanism, mu: float, direction: Direction, options: ContactOptions, locking: bool
 ) -> CaseSolution:
-    if has_errors(list(mech.findings)):
-        raise SolveError(
-            "the mechanism has errors; fix the drawing first",
-            path=mech.drawing.path,
-            findings=[f for f in mech.findings if f.severity is Severity.ERROR],
-        )
-    if not math.isfinite(mu) or mu < 0:
-        raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
+    """One drum direction: the checks that refuse a solve, the contact
+    settled, the residual, the results, and their verification."""
+    _refuse_bad_input(mech, mu)
     models, notes = contact_models(mech, options)
     sys_ = assemble(mech, models, mu, direction)
     if has_errors(sys_.findings):  # a contact model that cannot place its force explains the rest
@@ -234,19 +242,7 @@ def _solve_case(
         )
     findings, cond = diagnose(mech, sys_, direction)
     if has_errors(findings) or cond > CONDITION_WARN:
-        mu_c = critical_mu(mech, direction, options)
-        if mu_c is not None and abs(mu - mu_c) <= AT_LIMIT_RTOL * max(1.0, mu_c):
-            raise SolveError(
-                f"{direction}: μ = {mu:g} is at the self-locking limit",
-                path=mech.drawing.path,
-                findings=[
-                    Finding(
-                        Code.SELF_LOCKING,
-                        f"{direction}: μ = {mu:g} is at the self-locking limit (critical μ = {mu_c:.6g}): the "
-                        "equations are singular there, any effort or none holds the brake; move away from it",
-                    )
-                ],
-            )
+        _refuse_at_limit(mech, mu, direction, options)
     if has_errors(findings):
         raise SolveError(
             f"{direction}: the linkage cannot be solved",
@@ -255,7 +251,7 @@ def _solve_case(
         )
     sys_, x = _settle_contact(mech, models, sys_, mu, direction)
     findings = list(dict.fromkeys([*notes, *sys_.findings, *findings]))
-    fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(sys_.b).max(initial=0.0)), 1e-300)
+    fscale = max(float(np.abs(x).max(initial=0.0)), float(np.abs(sys_.b).max(initial=0.0)), TINY_FORCE_N)
     residual = float(np.abs(sys_.a @ x - sys_.b).max(initial=0.0)) / fscale
     if residual > RESIDUAL_LIMIT:
         findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
@@ -264,10 +260,42 @@ def _solve_case(
     return case
 
 
+def _refuse_bad_input(mech: Mechanism, mu: float) -> None:
+    """Refuse a mechanism with errors and a friction coefficient that is not
+    a non-negative number."""
+    if has_errors(list(mech.findings)):
+        raise SolveError(
+            "the mechanism has errors; fix the drawing first",
+            path=mech.drawing.path,
+            findings=[f for f in mech.findings if f.severity is Severity.ERROR],
+        )
+    if not math.isfinite(mu) or mu < 0:
+        raise SolveError(f"friction coefficient must be a non-negative number, got {mu}")
+
+
+def _refuse_at_limit(mech: Mechanism, mu: float, direction: Direction, options: ContactOptions) -> None:
+    """Refuse singular or ill-conditioned equations at the self-locking
+    limit itself, where any effort or none holds the brake."""
+    mu_c = critical_mu(mech, direction, options)
+    if mu_c is not None and abs(mu - mu_c) <= AT_LIMIT_RTOL * max(1.0, mu_c):
+        raise SolveError(
+            f"{direction}: μ = {mu:g} is at the self-locking limit",
+            path=mech.drawing.path,
+            findings=[
+                Finding(
+                    Code.SELF_LOCKING,
+                    f"{direction}: μ = {mu:g} is at the self-locking limit (critical μ = {mu_c:.6g}): the "
+                    "equations are singular there, any effort or none holds the brake; move away from it",
+                )
+            ],
+        )
+
+
 def _shoe_result(
-    mech: Mechanism, model: ContactModel, ws: tuple[ContactWrench, ...], coeffs: list[float], mu: float
+    mech: Mechanism, s: Shoe, model: ContactModel, ws: tuple[ContactWrench, ...], coeffs: list[float], mu: float
 ) -> ShoeResult:
-    s = next(sh for sh in mech.shoes if sh.name == ws[0].model or sh is getattr(model, "shoe", None))
+    """Shoe ``s``'s forces, torque, line load and contact patch from its
+    basis wrenches ``ws`` and their coefficients."""
     force, normal, friction, torque = combine(ws, coeffs)
     assert mech.drum is not None
     center, radius = mech.drum.center, mech.drum.radius_mm
@@ -276,44 +304,42 @@ def _shoe_result(
     total = sum(c * w.torque_per_unit_Nmm for c, w in zip(coeffs, ws, strict=True))
     sign = 1.0 if total >= 0 else -1.0
     peak, peak_deg = model.peak(coeffs)
-    load = tuple(
-        (ws[0].line_load[k][0], sum(c * w.line_load[k][1] for c, w in zip(coeffs, ws, strict=True)))
-        for k in range(len(ws[0].line_load))
-    )
-    offset = model.offset_deg(coeffs) if isinstance(model, LongPivotedShoe) else None
-    patch = (
-        (math.degrees(model.patch[0]) % 360, math.degrees(model.patch[1]) % 360)
-        if isinstance(model, LongPivotedShoe)
-        else (s.arc.start_deg, s.arc.end_deg)
-    )
-    # the normal forces are radial: their resultant runs through the axis and
-    # the whole moment about the axis is the friction's
-    normal_at = line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg)
-    friction_at = _foot_of_line(center, friction, m_o, point)
+    patch = model.patch_deg()
     return ShoeResult(
         name=s.name,
         part=s.part,
-        model=model.name,
+        model=str(model.name),
         mounting=str(s.mounting),
         contact_angle_deg=s.contact_angle_deg,
         normal_N=sign * math.hypot(*normal),
         friction_resultant_N=sign * math.hypot(*friction),
         friction_lining_N=torque / radius,
-        torque_Nm=torque / 1000.0,
+        torque_Nm=torque / NMM_PER_NM,
         contact=point,
         force=force,
         normal_force=normal,
-        normal_at=normal_at,
+        # the normal forces are radial: their resultant runs through the axis
+        # and the whole moment about the axis is the friction's
+        normal_at=line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg),
         friction_force=friction,
-        friction_at=friction_at,
+        friction_at=_foot_of_line(center, friction, m_o, point),
         internal=s.internal,
         peak_line_load_N_per_mm=peak,
         peak_at_deg=peak_deg,
         mu_equivalent=equivalent_mu(mu, s.contact_angle_deg),
-        pressure_offset_deg=offset,
+        pressure_offset_deg=model.offset_deg(coeffs),
         contact_from_deg=patch[0],
         contact_to_deg=patch[1],
-        line_load=load,
+        line_load=_line_load(ws, coeffs),
+    )
+
+
+def _line_load(ws: tuple[ContactWrench, ...], coeffs: list[float]) -> tuple[tuple[float, float], ...]:
+    """The line load's samples ``(polar angle [degrees], q [N/mm])`` of
+    ``Σ coeffs[i]·ws[i]``."""
+    return tuple(
+        (ws[0].line_load[k][0], sum(c * w.line_load[k][1] for c, w in zip(coeffs, ws, strict=True)))
+        for k in range(len(ws[0].line_load))
     )
 
 
@@ -348,7 +374,7 @@ def _band_result(band: Band, slack: float, mu: float, direction: Direction) -> B
         tight_pin=band.end_pin if at_end else band.start_pin,
         slack_pin=band.start_pin if at_end else band.end_pin,
         wrap_deg=band.wrap_deg,
-        torque_Nm=(tight - slack) * band.radius_mm / 1000.0,
+        torque_Nm=(tight - slack) * band.radius_mm / NMM_PER_NM,
         peak_line_load_N_per_mm=tight / band.radius_mm,
         ends=tuple(ends),
     )
@@ -368,18 +394,43 @@ def _results(
 ) -> CaseSolution:
     """The results of one solve; ``options`` None skips the self-locking
     search."""
+    att = _attachments(sys_, x)
+    shoes = tuple(
+        _shoe_result(mech, s, models[s.name], sys_.bases[s.name], coefficients(sys_, x, s.name), mu) for s in mech.shoes
+    )
+    loads = _load_results(mech)
+    bands = _band_results(mech, sys_, x, mu, direction)
+    mu_c = critical_mu(mech, direction, options) if options is not None else None
+    findings.extend(_case_findings(mech, shoes, bands, loads, mu, mu_c, direction))
+    return CaseSolution(
+        direction=direction,
+        mu=mu,
+        torque_Nm=sum(s.torque_Nm for s in shoes) + sum(b.torque_Nm for b in bands),
+        shoes=shoes,
+        pins=_pin_results(mech, att),
+        members=_member_results(mech, att),
+        loads=loads,
+        critical_mu=mu_c,
+        residual=residual,
+        condition=cond,
+        findings=tuple(findings),
+        bands=bands,
+        springs=_spring_results(mech),
+    )
+
+
+def _attachments(sys_: System, x: NDArray[np.float64]) -> dict[str, list[Attachment]]:
+    """Each pin's force on each body it joins, by pin, in column order."""
     att: dict[str, list[Attachment]] = {}
-    j = 0
-    while j < len(sys_.col_owner):
-        kind, name, body = sys_.col_owner[j]
-        if kind == "pin":
-            att.setdefault(name, []).append(Attachment(body, float(x[j]), float(x[j + 1])))
-            j += 2
-        else:
-            j += 1
-    shoes = [
-        _shoe_result(mech, models[s.name], sys_.bases[s.name], coefficients(sys_, x, s.name), mu) for s in mech.shoes
-    ]
+    for j, o in sys_.columns(ColumnKind.PIN):
+        if o.axis is Axis.X:
+            jy = sys_.column_index[o._replace(axis=Axis.Y)]
+            att.setdefault(o.name, []).append(Attachment(o.body, float(x[j]), float(x[jy])))
+    return att
+
+
+def _pin_results(mech: Mechanism, att: dict[str, list[Attachment]]) -> tuple[PinResult, ...]:
+    """Every pin: its force on its first body and the largest on any."""
     pins: list[PinResult] = []
     for p in mech.pins:
         lst = att[p.name]
@@ -399,6 +450,12 @@ def _results(
                 attachments=tuple(lst),
             )
         )
+    return tuple(pins)
+
+
+def _member_results(mech: Mechanism, att: dict[str, list[Attachment]]) -> tuple[MemberResult, ...]:
+    """The two-force members (two pins, no shoe, load or spring on them):
+    their axial force, positive in tension."""
     shoe_parts = {s.part for s in mech.shoes}
     loaded = {ld.part for ld in mech.loads} | {p for sp in mech.springs for p in sp.parts if p}
     members: list[MemberResult] = []
@@ -412,84 +469,104 @@ def _results(
         ux, uy = (pb.center[0] - pa.center[0]) / length, (pb.center[1] - pa.center[1]) / length
         fb = next(a for a in att[pb.name] if a.body == part.name)
         members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
-    loads = tuple(LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part)
-    bands: list[BandResult] = []
-    for j, (kind, name, _) in enumerate(sys_.col_owner):
-        if kind != "band":
-            continue
-        band = next(b for b in mech.bands if b.name == name)
-        bands.append(_band_result(band, float(x[j]), mu, direction))
-    torque = sum(s.torque_Nm for s in shoes) + sum(b.torque_Nm for b in bands)
-    mu_c = critical_mu(mech, direction, options) if options is not None else None
-    fmax = max(
-        [abs(s.normal_N) for s in shoes] + [abs(b.tight_N) for b in bands] + [ld.force_N for ld in loads] + [1e-300]
+    return tuple(members)
+
+
+def _load_results(mech: Mechanism) -> tuple[LoadResult, ...]:
+    """Every load that acts on a part."""
+    return tuple(LoadResult(ld.name, ld.part, ld.point[0], ld.point[1], *ld.force) for ld in mech.loads if ld.part)
+
+
+def _band_results(
+    mech: Mechanism, sys_: System, x: NDArray[np.float64], mu: float, direction: Direction
+) -> tuple[BandResult, ...]:
+    """Every band from its solved slack tension."""
+    bands = {b.name: b for b in mech.bands}
+    return tuple(_band_result(bands[o.name], float(x[j]), mu, direction) for j, o in sys_.columns(ColumnKind.BAND))
+
+
+def _spring_results(mech: Mechanism) -> tuple[SpringResult, ...]:
+    """Every spring's force and its pull or push on each end."""
+    return tuple(
+        SpringResult(
+            sp.name,
+            sp.force_N or 0.0,
+            "tension" if sp.tension else "compression",
+            tuple(SpringEnd(sp.parts[k], sp.ends[k], sp.force_on(k)) for k in (0, 1)),
+        )
+        for sp in mech.springs
     )
-    locked = mu_c is not None and mu >= mu_c
-    if locked:
-        findings.append(
+
+
+def _case_findings(
+    mech: Mechanism,
+    shoes: tuple[ShoeResult, ...],
+    bands: tuple[BandResult, ...],
+    loads: tuple[LoadResult, ...],
+    mu: float,
+    mu_c: float | None,
+    direction: Direction,
+) -> list[Finding]:
+    """The case's own findings: self-locking at ``mu`` ≥ the limit ``mu_c``;
+    else bands that would push and shoes that would pull on the drum."""
+    if mu_c is not None and mu >= mu_c:
+        return [
             Finding(
                 Code.SELF_LOCKING,
                 f"{direction}: the brake self-locks at μ = {mu:g} (critical μ = {mu_c:.4g}): the drum drags "
                 "the shoes on with no effort, and the effort would have to pull them off",
             )
-        )
-    else:
-        for br in bands:
-            if br.slack_N < -LIFT_RTOL * fmax:
-                band = next(b for b in mech.bands if b.name == br.name)
-                findings.append(
-                    Finding(
-                        Code.BAND_SLACK,
-                        f"{direction}: {br.name} would have to push (tension {br.slack_N:.4g} N): under these "
-                        "loads the band goes slack",
-                        tuple(s.ref for s in band.sources),
-                        tuple(s.layer for s in band.sources),
-                    )
-                )
-        all_lift = bool(shoes) and all(sr.normal_N < -LIFT_RTOL * fmax for sr in shoes)
-        spring_hint = (
-            "; every shoe lifts while a spring sets the brake: is the spring's sense reversed? ('C' pushes its "
-            "ends apart, 'T' pulls them together)"
-            if all_lift and mech.springs
-            else ""
-        )
-        for sr in shoes:
-            if sr.normal_N < -LIFT_RTOL * fmax:
-                sh = next(x for x in mech.shoes if x.name == sr.name)
-                findings.append(
-                    Finding(
-                        Code.SHOE_LIFTS,
-                        f"{direction}: shoe {sr.name} would have to pull on the drum (normal force "
-                        f"{sr.normal_N:.4g} N): under these loads it lifts off"
-                        + (spring_hint if sr is shoes[0] else ""),
-                        (sh.arc.source.ref,),
-                        (sh.arc.source.layer,),
-                        sr.contact,
-                    )
-                )
-    return CaseSolution(
-        direction=direction,
-        mu=mu,
-        torque_Nm=torque,
-        shoes=tuple(shoes),
-        pins=tuple(pins),
-        members=tuple(members),
-        loads=loads,
-        critical_mu=mu_c,
-        residual=residual,
-        condition=cond,
-        findings=tuple(findings),
-        bands=tuple(bands),
-        springs=tuple(
-            SpringResult(
-                sp.name,
-                sp.force_N or 0.0,
-                "tension" if sp.tension else "compression",
-                tuple(SpringEnd(sp.parts[k], sp.ends[k], sp.force_on(k)) for k in (0, 1)),
-            )
-            for sp in mech.springs
-        ),
+        ]
+    fmax = max(
+        [abs(s.normal_N) for s in shoes]
+        + [abs(b.tight_N) for b in bands]
+        + [ld.force_N for ld in loads]
+        + [TINY_FORCE_N]
     )
+    return _slack_bands(mech, bands, fmax, direction) + _lifting_shoes(mech, shoes, fmax, direction)
+
+
+def _slack_bands(mech: Mechanism, bands: tuple[BandResult, ...], fmax: float, direction: Direction) -> list[Finding]:
+    """Bands whose slack tension is negative beyond round-off of ``fmax`` [N]."""
+    by_name = {b.name: b for b in mech.bands}
+    return [
+        Finding(
+            Code.BAND_SLACK,
+            f"{direction}: {br.name} would have to push (tension {br.slack_N:.4g} N): under these "
+            "loads the band goes slack",
+            tuple(s.ref for s in by_name[br.name].sources),
+            tuple(s.layer for s in by_name[br.name].sources),
+        )
+        for br in bands
+        if br.slack_N < -LIFT_RTOL * fmax
+    ]
+
+
+def _lifting_shoes(mech: Mechanism, shoes: tuple[ShoeResult, ...], fmax: float, direction: Direction) -> list[Finding]:
+    """Shoes whose normal force is negative beyond round-off of ``fmax``
+    [N], the first with a hint when every shoe lifts while springs set the
+    brake."""
+    lifts = [sr.normal_N < -LIFT_RTOL * fmax for sr in shoes]
+    all_lift = bool(shoes) and all(lifts)
+    spring_hint = (
+        "; every shoe lifts while a spring sets the brake: is the spring's sense reversed? ('C' pushes its "
+        "ends apart, 'T' pulls them together)"
+        if all_lift and mech.springs
+        else ""
+    )
+    by_name = {s.name: s for s in mech.shoes}
+    return [
+        Finding(
+            Code.SHOE_LIFTS,
+            f"{direction}: shoe {sr.name} would have to pull on the drum (normal force "
+            f"{sr.normal_N:.4g} N): under these loads it lifts off" + (spring_hint if k == 0 else ""),
+            (by_name[sr.name].arc.source.ref,),
+            (by_name[sr.name].arc.source.layer,),
+            sr.contact,
+        )
+        for k, (sr, lift) in enumerate(zip(shoes, lifts, strict=True))
+        if lift
+    ]
 
 
 def solve(
@@ -512,7 +589,7 @@ def solve(
 def _beside_short(mech: Mechanism, case: CaseSolution, options: ContactOptions) -> CaseSolution:
     """``case`` with the short-shoe torque of the same drawing beside it,
     where any of its shoes was solved by long-shoe theory."""
-    if not any(s.model.startswith("long") for s in case.shoes):
+    if not any(ContactModelName(s.model).is_long for s in case.shoes):
         return case
     short = ContactOptions(ShoeModelChoice.SHORT, options.long_threshold_deg)
     try:

@@ -19,10 +19,12 @@ from dxfcheck.core.directions import Direction
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Finding
 from dxfcheck.core.geometry import Point
+from dxfcheck.mechanism.model import Shoe
 
 __all__ = [
     "DEFAULT_MU",
     "ContactModel",
+    "ContactModelName",
     "ContactOptions",
     "ContactWrench",
     "Direction",
@@ -41,6 +43,20 @@ class ShoeModelChoice(enum.StrEnum):
     SHORT = "short"
     LONG = "long"
     AUTO = "auto"
+
+
+class ContactModelName(enum.StrEnum):
+    """The contact models' names, as the results and the JSON spell them."""
+
+    SHORT_FIXED = "short-fixed"
+    SHORT_PIVOTED = "short-pivoted"
+    LONG_HINGED = "long-hinged"
+    LONG_PIVOTED = "long-pivoted"
+
+    @property
+    def is_long(self) -> bool:
+        """Whether the model is one of long-shoe theory."""
+        return self in (ContactModelName.LONG_HINGED, ContactModelName.LONG_PIVOTED)
 
 
 #: Contact angle above which ``auto`` takes long-shoe theory [degrees].
@@ -100,7 +116,7 @@ class ContactWrench:
 
     Attributes
     ----------
-    model : str
+    model : ContactModelName
         Name of the contact model.
     point : Point
         A point on the resultant's line of action [mm] (for short shoes the
@@ -125,7 +141,7 @@ class ContactWrench:
     findings : tuple of Finding
     """
 
-    model: str
+    model: ContactModelName
     point: Point
     force: Point
     normal: Point
@@ -149,8 +165,31 @@ class ContactModel(Protocol):
     """What the statics asks of a contact model."""
 
     @property
-    def name(self) -> str:
+    def name(self) -> ContactModelName:
         """Name of the model, e.g. ``"short-fixed"``."""
+        ...
+
+    @property
+    def shoe(self) -> Shoe:
+        """The shoe the model describes."""
+        ...
+
+    @property
+    def partial(self) -> bool:
+        """Whether the contact patch is trimmed to part of the lining."""
+        ...
+
+    @property
+    def on_edge(self) -> bool:
+        """Whether the contact patch has shrunk to the lining's edge, where
+        no pressure law holds (the statics refuses the solve)."""
+        ...
+
+    @property
+    def contact_pin(self) -> Point | None:
+        """The pin the drum's resultant passes through, which places the
+        contact point (it moves with the pin) [mm]; None when the contact
+        does not follow a pin's position."""
         ...
 
     def basis(self, mu: float, direction: Direction) -> tuple[ContactWrench, ...]:
@@ -169,6 +208,15 @@ class ContactModel(Protocol):
 
     def notes(self) -> tuple[Finding, ...]:
         """Findings about the model's choice or validity."""
+        ...
+
+    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
+        """The pressure law's offset from the lining's middle [degrees], for
+        a model whose law has one; else None."""
+        ...
+
+    def patch_deg(self) -> tuple[float, float]:
+        """The contact patch's polar angles, from and to [degrees, 0..360)."""
         ...
 
 

@@ -52,6 +52,7 @@ from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point
 from dxfcheck.mechanism import Drum, Shoe
 from dxfcheck.statics.contact.base import (
+    ContactModelName,
     ContactWrench,
     Direction,
     line_of_action_point,
@@ -98,7 +99,7 @@ def _wrap(a: float) -> float:
 
 
 def _integrate(
-    name: str,
+    name: ContactModelName,
     shoe: Shoe,
     drum: Drum,
     phi0: float,
@@ -177,7 +178,7 @@ class LongHingedShoe:
     shoe: Shoe
     drum: Drum
     hinge: Point
-    name: str = "long-hinged"
+    name: ContactModelName = ContactModelName.LONG_HINGED
 
     def _theta(self) -> tuple[float, float, float, float, tuple[Finding, ...]]:
         """(β, s, θ1, θ2, findings): hinge-line angle β, sense s (θ = s·(φ − β)),
@@ -253,6 +254,30 @@ class LongHingedShoe:
     def notes(self) -> tuple[Finding, ...]:
         return self._theta()[4]
 
+    @property
+    def partial(self) -> bool:
+        """The hinged shoe's patch is fixed by its geometry, not trimmed by
+        the statics (lining beyond the hinge line is noted by :meth:`notes`)."""
+        return False
+
+    @property
+    def on_edge(self) -> bool:
+        """The hinged shoe's patch does not move."""
+        return False
+
+    @property
+    def contact_pin(self) -> Point | None:
+        """The pressure law is placed by the hinge, which sampling keeps."""
+        return None
+
+    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
+        """The hinged law's peak is placed by the hinge: no offset."""
+        return None
+
+    def patch_deg(self) -> tuple[float, float]:
+        """The whole lining as drawn [degrees]."""
+        return self.shoe.arc.start_deg, self.shoe.arc.end_deg
+
 
 def _theta_a(lo: float, hi: float) -> float:
     """Angle of the largest sin θ on [lo, hi]."""
@@ -273,7 +298,7 @@ class LongPivotedShoe:
     shoe: Shoe
     drum: Drum
     pin: Point
-    name: str = "long-pivoted"
+    name: ContactModelName = ContactModelName.LONG_PIVOTED
     patch: tuple[float, float] = field(default=(0.0, 0.0))
     partial: bool = False
     on_edge: bool = False
@@ -323,9 +348,19 @@ class LongPivotedShoe:
         q = a * math.cos(at - self.mid) + b * math.sin(at - self.mid)
         return q, math.degrees(at) % 360
 
-    def offset_deg(self, coeffs: Sequence[float]) -> float:
+    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
         """The pressure law's offset ψ from the lining's middle [degrees]."""
         return math.degrees(math.atan2(coeffs[1], coeffs[0]))
+
+    def patch_deg(self) -> tuple[float, float]:
+        """The contact patch as solved [degrees, 0..360)."""
+        return math.degrees(self.patch[0]) % 360, math.degrees(self.patch[1]) % 360
+
+    @property
+    def contact_pin(self) -> Point | None:
+        """The pressure law's offset, not the contact's place, follows the
+        pin (the patch is the lining's)."""
+        return None
 
     def notes(self) -> tuple[Finding, ...]:
         if not self.partial:

@@ -36,7 +36,7 @@ from dataclasses import dataclass, replace
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross
 from dxfcheck.mechanism import Drum, Mounting, Shoe
-from dxfcheck.statics.contact.base import ContactWrench, Direction, surface_tangent
+from dxfcheck.statics.contact.base import ContactModelName, ContactWrench, Direction, surface_tangent
 
 __all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
 
@@ -47,7 +47,9 @@ LINE_LOAD_SAMPLES = 36
 LINING_SLACK_DEG = 1e-6
 
 
-def _wrench_at(model: str, shoe: Shoe, drum: Drum, alpha: float, mu: float, direction: Direction) -> ContactWrench:
+def _wrench_at(
+    model: ContactModelName, shoe: Shoe, drum: Drum, alpha: float, mu: float, direction: Direction
+) -> ContactWrench:
     radial = (math.cos(alpha), math.sin(alpha))
     # the drum pushes an external shoe outward and an internal shoe inward
     n = (-radial[0], -radial[1]) if shoe.internal else radial
@@ -97,6 +99,29 @@ class _ShortBase:
     def notes(self) -> tuple[Finding, ...]:
         return ()
 
+    @property
+    def partial(self) -> bool:
+        """A short shoe's contact is never trimmed."""
+        return False
+
+    @property
+    def on_edge(self) -> bool:
+        """A short shoe's contact never shrinks to an edge."""
+        return False
+
+    @property
+    def contact_pin(self) -> Point | None:
+        """No pin places a fixed shoe's contact."""
+        return None
+
+    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
+        """Short-shoe theory has no pressure law to offset."""
+        return None
+
+    def patch_deg(self) -> tuple[float, float]:
+        """The whole lining [degrees]."""
+        return self.shoe.arc.start_deg, self.shoe.arc.end_deg
+
 
 @dataclass(frozen=True)
 class ShortFixedShoe(_ShortBase):
@@ -110,7 +135,7 @@ class ShortFixedShoe(_ShortBase):
 
     shoe: Shoe
     drum: Drum
-    name: str = "short-fixed"
+    name: ContactModelName = ContactModelName.SHORT_FIXED
 
     def basis(self, mu: float, direction: Direction) -> tuple[ContactWrench, ...]:
         """Force on the shoe per newton of normal force [N/N]."""
@@ -134,7 +159,12 @@ class ShortPivotedShoe(_ShortBase):
     shoe: Shoe
     drum: Drum
     pin_center: Point
-    name: str = "short-pivoted"
+    name: ContactModelName = ContactModelName.SHORT_PIVOTED
+
+    @property
+    def contact_pin(self) -> Point | None:
+        """The shoe's pin: the drum's resultant passes through it [mm]."""
+        return self.pin_center
 
     def basis(self, mu: float, direction: Direction) -> tuple[ContactWrench, ...]:
         return (self.wrench(mu, direction),)
