@@ -35,6 +35,7 @@ from dxfcheck.core.files import MARKER, atomic_target
 from dxfcheck.core.geometry import Point
 from dxfcheck.core.textsafe import one_line
 from dxfcheck.core.version import __version__
+from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.output.text import CAUTION
 from dxfcheck.read.drawing import BINARY_SENTINEL, load_document, raw_header_values
 from dxfcheck.statics import CaseSolution, Solution
@@ -79,6 +80,20 @@ FORCE_COLOR = 6
 NOTE_COLOR = 5
 FORCE_LINEWEIGHT = 50
 NOTE_LINEWEIGHT = 25
+#: Without a drum, the markup is scaled to the drawing's size over this.
+DRUMLESS_SCALE_DIVISOR = 4
+#: Floor of the largest force, so that a case without forces scales [N].
+TINY_FORCE_N = 1e-300
+#: Width of the caution's lines in the summary block [characters].
+SUMMARY_WIDTH = 70
+#: Spacing of the summary's lines over the text height.
+LINE_SPACING = 1.6
+#: Free lines kept between the drawing's top and the summary block.
+SUMMARY_MARGIN_LINES = 2
+#: A member's text stands off its line by this many text heights.
+MEMBER_TEXT_OFFSET = 1.2
+#: The DXF version string of R12 (no lineweights).
+R12 = "AC1009"
 
 
 @dataclass(frozen=True)
@@ -181,6 +196,137 @@ def _governing(sol: Solution) -> Direction:
     return min(sol.cases, key=lambda c: c.torque_Nm).direction
 
 
+def _solved_case(sol: Solution, direction: Direction | str | None) -> CaseSolution:
+    """The solved case of ``direction`` (default: the governing one)."""
+    d = Direction(direction) if direction is not None else _governing(sol)
+    try:
+        return sol.case(d)
+    except StopIteration:
+        raise ConfigError(f"direction {d} was not solved") from None
+
+
+def _drum_diameter(mech: Mechanism) -> float:
+    """The length the markup is scaled to [mm]: the drum's diameter, or a
+    quarter of the drawing's size without a drum."""
+    return 2 * mech.drum.radius_mm if mech.drum else mech.length_scale_mm / DRUMLESS_SCALE_DIVISOR
+
+
+#: A force to draw: kind, owner's name, point of application [mm], force [N], label.
+_Force = tuple[str, str, Point, Point, str]
+
+
+def _pin_forces(case: CaseSolution) -> list[_Force]:
+    """Each pin's force on the first part it joins, at the pin's centre."""
+    return [("pin", p.name, (p.x_mm, p.y_mm), (p.fx_N, p.fy_N), f"{p.name} {_fmt_force(p.force_N)}") for p in case.pins]
+
+
+def _shoe_forces(case: CaseSolution) -> list[_Force]:
+    """The solver's normal and friction resultants on each shoe, each on its
+    own line of action."""
+    out: list[_Force] = []
+    for s in case.shoes:
+        out.append(("normal", s.name, s.normal_at, s.normal_force, f"N {s.name} {_fmt_force(s.normal_N)}"))
+        out.append(
+            ("friction", s.name, s.friction_at, s.friction_force, f"F {s.name} {_fmt_force(s.friction_resultant_N)}")
+        )
+    return out
+
+
+def _load_forces(case: CaseSolution) -> list[_Force]:
+    """Each applied load (as solved) at its point of application."""
+    return [
+        ("load", ld.name, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N), f"{ld.name} {_fmt_force(ld.force_N)}")
+        for ld in case.loads
+    ]
+
+
+def _band_forces(case: CaseSolution, mech: Mechanism) -> list[_Force]:
+    """Each band end's pull on its pin (T1 tight, T2 slack)."""
+    out: list[_Force] = []
+    for br in case.bands:
+        for end in br.ends:
+            side = "T1" if end.tight else "T2"
+            at = mech.pin(end.pin).center
+            out.append(("band", br.name, at, end.pull, f"{br.name} {side} {_fmt_force(end.tension_N)}"))
+    return out
+
+
+def _spring_forces(case: CaseSolution) -> list[_Force]:
+    """Each spring's force on the parts its ends hold (not on the frame)."""
+    out: list[_Force] = []
+    for sr in case.springs:
+        state = "T" if sr.state == "tension" else "C"
+        for e in sr.ends:
+            if e.part is not None:
+                out.append(("spring", sr.name, e.point, e.force, f"{sr.name} {_fmt_force(sr.force_N)} {state}"))
+    return out
+
+
+def _arrows(forces: list[_Force], drum_d: float) -> tuple[float, str, tuple[Arrow, ...]]:
+    """The round scale [mm/N] that makes the largest force
+    :data:`ARROW_FRACTION` of the drum diameter, its text, and the arrows."""
+    fmax = max([math.hypot(*f[3]) for f in forces] + [TINY_FORCE_N])
+    mm_per_N, scale_text = _nice_scale(ARROW_FRACTION * drum_d / fmax)
+    arrows = tuple(
+        Arrow(kind, name, tail, (tail[0] + mm_per_N * f[0], tail[1] + mm_per_N * f[1]), f, label)
+        for kind, name, tail, f, label in forces
+    )
+    return mm_per_N, scale_text, arrows
+
+
+def _member_notes(case: CaseSolution) -> tuple[MemberNote, ...]:
+    """Each two-force member's axial force, written between its end pins."""
+
+    def at(pin: str) -> Point:
+        p = case.pin(pin)
+        return (p.x_mm, p.y_mm)
+
+    return tuple(
+        MemberNote(m.name, (at(m.ends[0]), at(m.ends[1])), m.axial_N, f"{m.name}: {_fmt_force(m.axial_N)} {m.state}")
+        for m in case.members
+    )
+
+
+def _summary(sol: Solution, case: CaseSolution, scale_text: str, judgement: Judgement | None) -> list[str]:
+    """The summary block: direction and μ, torques, efforts, scale, the
+    gate's verdict when judged, the caution."""
+    torques = ", ".join(
+        f"{c.direction} {c.torque_Nm:.1f} N·m" if c.brakes else f"{c.direction} does not brake" for c in sol.cases
+    )
+    efforts = ", ".join(
+        [f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads]
+        + [f"{sp.name} {_fmt_force(sp.force_N)} {sp.state}" for sp in case.springs]
+    )
+    summary = [
+        f"dxfcheck: forces for drum {case.direction} at mu = {case.mu:g} ({Path(sol.mechanism.drawing.path).name})",
+        f"braking torque: {torques}",
+        f"efforts: {efforts}",
+        scale_text,
+    ]
+    if judgement is not None:
+        counts = judgement.counts()
+        summary.append(
+            f"release gate: {str(judgement.verdict).upper()} ({counts['pass']} pass, {counts['fail']} fail, "
+            f"{counts['warn']} warn, {counts['skip']} skipped)"
+        )
+    return summary + _wrap(CAUTION, SUMMARY_WIDTH)
+
+
+def _anchor(arrows: tuple[Arrow, ...], mech: Mechanism, height: float, lines: int) -> Point:
+    """Top-left corner of the summary block: left of everything drawn, and
+    high enough above it for ``lines`` lines of text (plus a margin)."""
+    xs = [a.tail[0] for a in arrows] + [a.head[0] for a in arrows]
+    ys = [a.tail[1] for a in arrows] + [a.head[1] for a in arrows]
+    for part in mech.parts:
+        for seg in part.segments:
+            xs += [seg[0][0], seg[1][0]]
+            ys += [seg[0][1], seg[1][1]]
+    if mech.drum is not None:
+        xs += [mech.drum.center[0] - mech.drum.radius_mm, mech.drum.center[0] + mech.drum.radius_mm]
+        ys += [mech.drum.center[1] + mech.drum.radius_mm]
+    return (min(xs), max(ys) + height * (lines + SUMMARY_MARGIN_LINES) * LINE_SPACING)
+
+
 def plan_markup(
     sol: Solution,
     direction: Direction | str | None = None,
@@ -196,87 +342,33 @@ def plan_markup(
     judgement : Judgement, optional
         Adds the release gate's verdict to the summary.
     """
-
-    d = Direction(direction) if direction is not None else _governing(sol)
-    try:
-        case: CaseSolution = sol.case(d)
-    except StopIteration:
-        raise ConfigError(f"direction {d} was not solved") from None
+    case = _solved_case(sol, direction)
     mech = sol.mechanism
-    drum_d = 2 * mech.drum.radius_mm if mech.drum else mech.length_scale_mm / 4
-    forces: list[tuple[str, str, Point, Point, str]] = []
-    for p in case.pins:
-        forces.append(("pin", p.name, (p.x_mm, p.y_mm), (p.fx_N, p.fy_N), f"{p.name} {_fmt_force(p.force_N)}"))
-    for s in case.shoes:
-        # the solver's normal and friction resultants on the shoe, each on its own line of action
-        forces.append(("normal", s.name, s.normal_at, s.normal_force, f"N {s.name} {_fmt_force(s.normal_N)}"))
-        forces.append(
-            ("friction", s.name, s.friction_at, s.friction_force, f"F {s.name} {_fmt_force(s.friction_resultant_N)}")
-        )
-    for ld in case.loads:
-        forces.append(("load", ld.name, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N), f"{ld.name} {_fmt_force(ld.force_N)}"))
-    for br in case.bands:
-        for end in br.ends:
-            side = "T1" if end.tight else "T2"
-            at = mech.pin(end.pin).center
-            forces.append(("band", br.name, at, end.pull, f"{br.name} {side} {_fmt_force(end.tension_N)}"))
-    for sr in case.springs:
-        for e in sr.ends:
-            if e.part is None:
-                continue
-            state = "T" if sr.state == "tension" else "C"
-            forces.append(("spring", sr.name, e.point, e.force, f"{sr.name} {_fmt_force(sr.force_N)} {state}"))
-    fmax = max([math.hypot(*f[3]) for f in forces] + [1e-300])
-    mm_per_N, scale_text = _nice_scale(ARROW_FRACTION * drum_d / fmax)
-    arrows = tuple(
-        Arrow(kind, name, tail, (tail[0] + mm_per_N * f[0], tail[1] + mm_per_N * f[1]), f, label)
-        for kind, name, tail, f, label in forces
-    )
-    members = tuple(
-        MemberNote(
-            m.name,
-            (
-                (case.pin(m.ends[0]).x_mm, case.pin(m.ends[0]).y_mm),
-                (case.pin(m.ends[1]).x_mm, case.pin(m.ends[1]).y_mm),
-            ),
-            m.axial_N,
-            f"{m.name}: {_fmt_force(m.axial_N)} {m.state}",
-        )
-        for m in case.members
-    )
-    curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()
-    torques = ", ".join(
-        f"{c.direction} {c.torque_Nm:.1f} N·m" if c.brakes else f"{c.direction} does not brake" for c in sol.cases
-    )
-    efforts = ", ".join(
-        [f"{ld.name} {_fmt_force(ld.force_N)}" for ld in case.loads]
-        + [f"{sp.name} {_fmt_force(sp.force_N)} {sp.state}" for sp in case.springs]
-    )
-    summary = [
-        f"dxfcheck: forces for drum {d} at mu = {case.mu:g} ({Path(mech.drawing.path).name})",
-        f"braking torque: {torques}",
-        f"efforts: {efforts}",
-        scale_text,
+    drum_d = _drum_diameter(mech)
+    forces = [
+        *_pin_forces(case),
+        *_shoe_forces(case),
+        *_load_forces(case),
+        *_band_forces(case, mech),
+        *_spring_forces(case),
     ]
-    if judgement is not None:
-        counts = judgement.counts()
-        summary.append(
-            f"release gate: {str(judgement.verdict).upper()} ({counts['pass']} pass, {counts['fail']} fail, "
-            f"{counts['warn']} warn, {counts['skip']} skipped)"
-        )
-    summary += _wrap(CAUTION, 70)
-    xs = [a.tail[0] for a in arrows] + [a.head[0] for a in arrows]
-    ys = [a.tail[1] for a in arrows] + [a.head[1] for a in arrows]
-    for part in mech.parts:
-        for seg in part.segments:
-            xs += [seg[0][0], seg[1][0]]
-            ys += [seg[0][1], seg[1][1]]
-    if mech.drum is not None:
-        xs += [mech.drum.center[0] - mech.drum.radius_mm, mech.drum.center[0] + mech.drum.radius_mm]
-        ys += [mech.drum.center[1] + mech.drum.radius_mm]
+    mm_per_N, scale_text, arrows = _arrows(forces, drum_d)
+    curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()
+    summary = _summary(sol, case, scale_text, judgement)
     h = max(TEXT_MIN_MM, TEXT_FRACTION * drum_d)
-    anchor = (min(xs), max(ys) + h * (len(summary) + 2) * 1.6)
-    return Markup(d, mm_per_N, scale_text, h, HEAD_FRACTION * drum_d, arrows, members, tuple(summary), anchor, curves)
+    anchor = _anchor(arrows, mech, h, len(summary))
+    return Markup(
+        case.direction,
+        mm_per_N,
+        scale_text,
+        h,
+        HEAD_FRACTION * drum_d,
+        arrows,
+        _member_notes(case),
+        tuple(summary),
+        anchor,
+        curves,
+    )
 
 
 def _pressure_curves(case: CaseSolution, drum: Any, drum_d: float) -> tuple[tuple[str, tuple[Point, ...]], ...]:
@@ -388,6 +480,108 @@ def _head(tail: Point, head: Point, length: float) -> tuple[Point, Point, Point]
     return head, (bx - hw * uy, by + hw * ux), (bx + hw * uy, by - hw * ux)
 
 
+@dataclass(frozen=True)
+class _Pen:
+    """Where and how the markup draws: the modelspace, world [mm] to drawing
+    units, the text height [mm], the two layers' attributes, the label placer."""
+
+    msp: Any
+    unit_per_mm: float
+    height: float
+    force: dict[str, Any]
+    note: dict[str, Any]
+    placer: _Placer
+
+    def u(self, p: Point) -> tuple[float, float]:
+        """A world point [mm] in drawing units."""
+        return (p[0] * self.unit_per_mm, p[1] * self.unit_per_mm)
+
+    def solid(self, tri: tuple[Point, Point, Point]) -> None:
+        self.msp.add_solid([self.u(tri[0]), self.u(tri[1]), self.u(tri[2])], dxfattribs=self.force)
+
+    def text(self, text: str, at: Point, rotation: float | None = None) -> None:
+        extra = {} if rotation is None else {"rotation": rotation}
+        self.msp.add_text(
+            text, height=self.height * self.unit_per_mm, **extra, dxfattribs={**self.note, "insert": self.u(at)}
+        )
+
+
+def _add_layers(doc: Any, config: Config) -> None:
+    """The force and note layers, with their colour (and lineweight after R12)."""
+    for name, color, lw in (
+        (config.force_layer, FORCE_COLOR, FORCE_LINEWEIGHT),
+        (config.note_layer, NOTE_COLOR, NOTE_LINEWEIGHT),
+    ):
+        if name not in doc.layers:
+            attribs: dict[str, Any] = {"color": color}
+            if doc.dxfversion > R12:
+                attribs["lineweight"] = lw
+            doc.layers.add(name, **attribs)
+
+
+def _draw_arrow(pen: _Pen, a: Arrow, head_mm: float) -> int:
+    """A force arrow: a line, a filled head, its label; entities added."""
+    if a.force_N == 0.0:
+        return 0
+    count = 0
+    pen.msp.add_line(pen.u(a.tail), pen.u(a.head), dxfattribs=pen.force)
+    tri = _head(a.tail, a.head, head_mm)
+    if tri is not None:
+        pen.solid(tri)
+        count += 1
+    pos = pen.placer.place(a.label, a.head, (a.head[0] - a.tail[0], a.head[1] - a.tail[1]))
+    pen.text(a.label, pos)
+    return count + 2
+
+
+def _draw_member(pen: _Pen, m: MemberNote, head_mm: float) -> int:
+    """A two-force member: a pair of heads at its middle (out for tension,
+    in for compression) and its axial force written along it; entities added."""
+    (x0, y0), (x1, y1) = m.ends
+    mid = ((x0 + x1) / 2, (y0 + y1) / 2)
+    ang = math.atan2(y1 - y0, x1 - x0)
+    ux, uy = math.cos(ang), math.sin(ang)
+    s = head_mm
+    sign = 1.0 if m.axial_N >= 0 else -1.0
+    count = 0
+    for end in (1.0, -1.0):
+        base = (mid[0] + end * 0.5 * s * ux, mid[1] + end * 0.5 * s * uy)
+        tip = (base[0] + sign * end * s * ux, base[1] + sign * end * s * uy)
+        tri = _head(base, tip, s)
+        if tri is not None:
+            pen.solid(tri)
+            count += 1
+    rot = math.degrees(ang)
+    if rot > 90 or rot <= -90:
+        rot += 180  # text reads left to right
+    k, h = MEMBER_TEXT_OFFSET, pen.height
+    upright = abs(rot - math.degrees(ang)) < 1e-9
+    off = (-uy * k * h, ux * k * h) if upright else (uy * k * h, -ux * k * h)  # on the text's upper side
+    pen.text(m.label, (mid[0] + off[0], mid[1] + off[1]), rotation=rot)
+    return count + 1
+
+
+def _draw_curve(pen: _Pen, label: str, pts: tuple[Point, ...]) -> int:
+    """A shoe's pressure curve as lines, and its label; entities added."""
+    count = 0
+    for p0, p1 in itertools.pairwise(pts):
+        pen.msp.add_line(pen.u(p0), pen.u(p1), dxfattribs=pen.force)
+        count += 1
+    top = max(pts, key=lambda q: math.hypot(q[0], q[1]))
+    pos = pen.placer.place(label, top, (top[0] - pts[0][0] + 1e-9, top[1] - pts[0][1]))
+    pen.text(label, pos)
+    return count + 1
+
+
+def _draw_summary(pen: _Pen, markup: Markup) -> int:
+    """The summary block, one TEXT a line, down from the anchor; entities added."""
+    x, y = markup.anchor
+    for line in markup.summary:
+        pen.text(line, (x, y))
+        y -= LINE_SPACING * pen.height
+    return len(markup.summary)
+
+
 def add_markup(
     doc: Any,
     markup: Markup,
@@ -399,74 +593,17 @@ def add_markup(
     note layers; returns the number of entities added.  ``skeleton`` are the
     centreline segments [mm] that labels should keep off."""
     config = config or Config()
-    k = 1.0 / mm_per_unit
-
-    def u(p: Point) -> tuple[float, float]:
-        return (p[0] * k, p[1] * k)
-
-    for name, color, lw in (
-        (config.force_layer, FORCE_COLOR, FORCE_LINEWEIGHT),
-        (config.note_layer, NOTE_COLOR, NOTE_LINEWEIGHT),
-    ):
-        if name not in doc.layers:
-            attribs: dict[str, Any] = {"color": color}
-            if doc.dxfversion > "AC1009":
-                attribs["lineweight"] = lw
-            doc.layers.add(name, **attribs)
-    msp = doc.modelspace()
-    fa = {"layer": config.force_layer}
-    na = {"layer": config.note_layer}
+    _add_layers(doc, config)
     h = markup.text_height_mm
     lines = [(a.tail, a.head) for a in markup.arrows] + [m.ends for m in markup.members]
     placer = _Placer(h, [], _Placer.sample([*lines, *skeleton], h / 2))
-    count = 0
-    for a in markup.arrows:
-        if a.force_N == 0.0:
-            continue
-        msp.add_line(u(a.tail), u(a.head), dxfattribs=fa)
-        tri = _head(a.tail, a.head, markup.head_mm)
-        if tri is not None:
-            p0, p1, p2 = tri
-            msp.add_solid([u(p0), u(p1), u(p2)], dxfattribs=fa)
-            count += 1
-        pos = placer.place(a.label, a.head, (a.head[0] - a.tail[0], a.head[1] - a.tail[1]))
-        msp.add_text(a.label, height=h * k, dxfattribs={**na, "insert": u(pos)})
-        count += 2
-    for m in markup.members:
-        (x0, y0), (x1, y1) = m.ends
-        mid = ((x0 + x1) / 2, (y0 + y1) / 2)
-        ang = math.atan2(y1 - y0, x1 - x0)
-        ux, uy = math.cos(ang), math.sin(ang)
-        s = markup.head_mm
-        sign = 1.0 if m.axial_N >= 0 else -1.0
-        for end in (1.0, -1.0):
-            base = (mid[0] + end * 0.5 * s * ux, mid[1] + end * 0.5 * s * uy)
-            tip = (base[0] + sign * end * s * ux, base[1] + sign * end * s * uy)
-            tri = _head(base, tip, s)
-            if tri is not None:
-                msp.add_solid([u(tri[0]), u(tri[1]), u(tri[2])], dxfattribs=fa)
-                count += 1
-        rot = math.degrees(ang)
-        if rot > 90 or rot <= -90:
-            rot += 180
-        off = (-uy * 1.2 * h, ux * 1.2 * h) if abs(rot - math.degrees(ang)) < 1e-9 else (uy * 1.2 * h, -ux * 1.2 * h)
-        pos = (mid[0] + off[0], mid[1] + off[1])
-        msp.add_text(m.label, height=h * k, rotation=rot, dxfattribs={**na, "insert": u(pos)})
-        count += 1
-    for label, pts in markup.curves:
-        for p0, p1 in itertools.pairwise(pts):
-            msp.add_line(u(p0), u(p1), dxfattribs=fa)
-            count += 1
-        top = max(pts, key=lambda q: math.hypot(q[0], q[1]))
-        pos = placer.place(label, top, (top[0] - pts[0][0] + 1e-9, top[1] - pts[0][1]))
-        msp.add_text(label, height=h * k, dxfattribs={**na, "insert": u(pos)})
-        count += 1
-    x, y = markup.anchor
-    for line in markup.summary:
-        msp.add_text(line, height=h * k, dxfattribs={**na, "insert": u((x, y))})
-        y -= 1.6 * h
-        count += 1
-    return count
+    pen = _Pen(
+        doc.modelspace(), 1.0 / mm_per_unit, h, {"layer": config.force_layer}, {"layer": config.note_layer}, placer
+    )
+    count = sum(_draw_arrow(pen, a, markup.head_mm) for a in markup.arrows)
+    count += sum(_draw_member(pen, m, markup.head_mm) for m in markup.members)
+    count += sum(_draw_curve(pen, label, pts) for label, pts in markup.curves)
+    return count + _draw_summary(pen, markup)
 
 
 def marked_document(sol: Solution, markups: Sequence[Markup], config: Config | None = None) -> Any:
