@@ -170,7 +170,7 @@ def _shoe_table(c: CaseSolution) -> Table:
     )
     for sr in c.shoes:
         t.add_row(
-            sr.name,
+            _esc(sr.name),
             sr.model,
             f"{sr.normal_N:.1f}",
             f"{sr.friction_resultant_N:.1f}",

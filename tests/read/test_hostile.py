@@ -22,7 +22,7 @@ import hostile
 import pytest
 from common import winch_two_shoe
 
-ROOT = Path(__file__).resolve().parent.parent
+ROOT = Path(__file__).resolve().parents[2]  # the repository
 #: Address space of each child [bytes]: numpy and its threads fit well within.
 MEMORY_LIMIT = 1_500_000_000
 #: Peak resident memory a child may reach [kB].
