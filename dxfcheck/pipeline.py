@@ -18,6 +18,7 @@ from dxfcheck.statics import Solution, solve, solve_for_torque
 from dxfcheck.statics.contact import (
     DEFAULT_MU,
     LONG_SHOE_THRESHOLD_DEG,
+    ContactOptions,
     Direction,
     ShoeModelChoice,
     contact_options,
@@ -29,6 +30,8 @@ if TYPE_CHECKING:
     from dxfcheck.statics.sampling import SensitivityResult
 
 __all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config", "sensitivity"]
+
+_UNIT_LOAD_N = 1.0  # [N] a load without a magnitude, when solving for a torque
 
 
 def _mechanism(
@@ -121,23 +124,33 @@ def analyse(
     DrawingReadError, ConfigError, MechanismError, SolveError
         Each carries the findings that explain it.
     """
-    cfg = resolve_config(path, config)
-    drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
-    mech = _mechanism(
-        drawing,
-        path,
-        tolerance_mm=tolerance_mm,
-        effort_N=effort_N,
-        default_magnitude_N=1.0 if torque_Nm is not None else None,
-    )
+    drawing = read_drawing(path, resolve_config(path, config), units=units, max_bytes=max_bytes)
+    unit_load = _UNIT_LOAD_N if torque_Nm is not None else None
+    mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort_N, default_magnitude_N=unit_load)
     options = contact_options(shoe_model, long_threshold_deg)
+    return _plausible(_solve(mech, mu, directions, options, torque_Nm))
+
+
+def _solve(
+    mech: Mechanism,
+    mu: float,
+    directions: Sequence[Direction | str],
+    options: ContactOptions,
+    torque_Nm: float | None,
+) -> Solution:
+    """The statics for the drawing's loads, or (``torque_Nm`` given) with
+    the loads and springs scaled to give that braking torque [N·m]."""
     if torque_Nm is not None:
-        sol = solve_for_torque(mech, torque_Nm, mu, directions, options)
-    else:
-        sol = solve(mech, mu, directions, options)
+        return solve_for_torque(mech, torque_Nm, mu, directions, options)
+    return solve(mech, mu, directions, options)
+
+
+def _plausible(sol: Solution) -> Solution:
+    """``sol`` with the findings of the loads as used, judged against real
+    brakes (:func:`dxfcheck.mechanism.plausibility.check_solution`)."""
     from dxfcheck.mechanism.plausibility import check_solution
 
-    return replace(sol, findings=(*sol.findings, *check_solution(sol)))  # loads as used against real brakes
+    return replace(sol, findings=(*sol.findings, *check_solution(sol)))
 
 
 def check(

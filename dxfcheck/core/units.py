@@ -407,8 +407,17 @@ def quantity_in_text(text: str, dimension: str, *, glued: str = "") -> Quantity:
     UnitError
         When the text holds no quantity of the dimension.
     """
-    table, internal = DIMENSIONS[dimension]
     text = _unescape(text)
+    found, loose = _quantities_in_text(text, dimension, glued)
+    return _the_one_quantity(text, dimension, found, loose)
+
+
+def _quantities_in_text(text: str, dimension: str, glued: str) -> tuple[list[Quantity], list[str]]:
+    """Every number in ``text``: the quantities of ``dimension`` (value in
+    the internal unit, text as written) and, as written, the loose ones (no
+    unit, or a factor).  Numbers with units of other dimensions or followed
+    by another word are left out."""
+    table, internal = DIMENSIONS[dimension]
     found: list[Quantity] = []
     loose: list[str] = []
     for m in _IN_TEXT.finditer(text):
@@ -425,6 +434,14 @@ def quantity_in_text(text: str, dimension: str, *, glued: str = "") -> Quantity:
             found.append(Quantity(value=value, unit=internal, text=written.strip()))
         elif kind in (None, "factor"):
             loose.append(m[0].strip())
+    return found, loose
+
+
+def _the_one_quantity(text: str, dimension: str, found: list[Quantity], loose: list[str]) -> Quantity:
+    """The quantity ``text`` says, from what :func:`_quantities_in_text`
+    found: exactly one value of ``dimension`` and no loose number, else
+    :class:`AmbiguousTextError` or :class:`UnitError` naming what is there."""
+    internal = DIMENSIONS[dimension][1]
     example = "1.2 kN" if dimension == "force" else f"1.2 {internal}"
     values = list(dict.fromkeys(q.value for q in found))
     if len(values) > 1:

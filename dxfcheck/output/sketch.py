@@ -28,6 +28,9 @@ from dxfcheck.core.geometry import Affine, Point
 __all__ = ["BlockWrap", "Sketch"]
 
 _INSUNITS = {"mm": 4, "cm": 5, "m": 6, "inch": 1, "in": 1, "ft": 2, "foot": 2, None: 0}
+_ROLES = ("pivot", "pin", "link", "drum", "shoe", "load", "label", "band", "spring")  # layers made, in this order
+_BLOCK_PREFIX = "SKEL"  # wrap blocks are SKEL0 (outermost), SKEL1, ...
+_TEXT_HEIGHT = 6.0  # [drawing units] before the transform's scale
 
 
 @dataclass(frozen=True)
@@ -170,7 +173,27 @@ class Sketch:
         being written in the block's own coordinates so that the drawing looks
         the same as without wraps.
         """
-        from ezdxf.enums import TextEntityAlignment
+        doc = self._new_doc(dxfversion)
+        to_local = _to_local(transform, wraps)
+        target = _block_target(doc, wraps)
+        mirrored = to_local.mirrors
+        scale = math.sqrt(abs(to_local.det))
+        for it in self.items:
+            kind, role = it[0], it[1]
+            attribs = {"layer": self._layer(role)}
+            if kind == "circle":
+                _write_circle(target, it, to_local, scale, attribs)
+            elif kind == "arc":
+                _write_arc(target, it, to_local, scale, mirrored, attribs)
+            elif kind == "path":
+                _write_path(target, it, to_local, dxfversion, attribs)
+            elif kind == "text":
+                _write_text(target, it, to_local, scale, attribs)
+        return doc
+
+    def _new_doc(self, dxfversion: str) -> Any:
+        """An empty ezdxf document in the sketch's units with every role's
+        layer."""
         from ezdxf.filemanagement import new
 
         doc = new(dxfversion, units=_INSUNITS.get(self.units, 0))
@@ -178,64 +201,10 @@ class Sketch:
             doc.header["$INSUNITS"] = 0
             if "$MEASUREMENT" in doc.header:
                 del doc.header["$MEASUREMENT"]
-        for role in ("pivot", "pin", "link", "drum", "shoe", "load", "label", "band", "spring"):
+        for role in _ROLES:
             name = self._layer(role)
             if name not in doc.layers:
                 doc.layers.add(name)
-        m = transform or Affine()
-        inner = Affine()
-        for w in wraps:
-            inner = inner @ w.affine()
-        # geometry is written in the innermost block's frame
-        to_local = _inverse(inner) @ m
-        target: Any = doc.modelspace()
-        for depth, w in enumerate(wraps):
-            blk = doc.blocks.new(f"SKEL{depth}")
-            target.add_blockref(
-                blk.name,
-                w.insert,
-                dxfattribs={
-                    "rotation": w.rotation_deg,
-                    "xscale": w.xscale,
-                    "yscale": w.yscale,
-                    "layer": "0",
-                },
-            )
-            if blk.block is not None:
-                blk.block.dxf.base_point = (w.base[0], w.base[1], 0.0)
-            target = blk
-        mirrored = to_local.mirrors
-        scale = math.sqrt(abs(to_local.det))
-        for it in self.items:
-            kind, role = it[0], it[1]
-            attribs = {"layer": self._layer(role)}
-            if kind == "circle":
-                c = to_local.apply(it[2])
-                target.add_circle(c, it[3] * scale, dxfattribs=attribs)
-            elif kind == "arc":
-                (cx, cy), r, a0, a1 = it[2], it[3], it[4], it[5]
-                c = to_local.apply((cx, cy))
-                pts = [
-                    to_local.apply((cx + r * math.cos(math.radians(a)), cy + r * math.sin(math.radians(a))))
-                    for a in (a0, a1)
-                ]
-                s0 = math.degrees(math.atan2(pts[0][1] - c[1], pts[0][0] - c[0]))
-                s1 = math.degrees(math.atan2(pts[1][1] - c[1], pts[1][0] - c[0]))
-                if mirrored:
-                    s0, s1 = s1, s0
-                target.add_arc(c, r * scale, s0, s1, dxfattribs=attribs)
-            elif kind == "path":
-                pts = [to_local.apply(p) for p in it[2]]
-                if len(pts) == 2:
-                    target.add_line(pts[0], pts[1], dxfattribs=attribs)
-                elif dxfversion == "R12":  # R12 has no LWPOLYLINE
-                    target.add_polyline2d(pts, dxfattribs=attribs)
-                else:
-                    target.add_lwpolyline(pts, dxfattribs=attribs)
-            elif kind == "text":
-                p = to_local.apply(it[3])
-                t = target.add_text(it[2], height=6.0 * scale, dxfattribs=attribs)
-                t.set_placement(p, align=TextEntityAlignment.MIDDLE_CENTER)
         return doc
 
     def save(
@@ -247,6 +216,82 @@ class Sketch:
     ) -> None:
         """Write the sketch as a DXF file (see :meth:`to_doc`)."""
         self.to_doc(transform, wraps, dxfversion).saveas(os.fspath(path))
+
+
+def _to_local(transform: Affine | None, wraps: tuple[BlockWrap, ...]) -> Affine:
+    """Drawing coordinates -> the innermost block's frame, where the
+    geometry is written: ``transform`` then the inverse of every wrap."""
+    m = transform or Affine()
+    inner = Affine()
+    for w in wraps:
+        inner = inner @ w.affine()
+    return _inverse(inner) @ m
+
+
+def _block_target(doc: Any, wraps: tuple[BlockWrap, ...]) -> Any:
+    """The layout the entities go into: the modelspace, or the innermost of
+    the nested blocks made for ``wraps``, each referenced by an INSERT in the
+    level above."""
+    target: Any = doc.modelspace()
+    for depth, w in enumerate(wraps):
+        blk = doc.blocks.new(f"{_BLOCK_PREFIX}{depth}")
+        target.add_blockref(
+            blk.name,
+            w.insert,
+            dxfattribs={
+                "rotation": w.rotation_deg,
+                "xscale": w.xscale,
+                "yscale": w.yscale,
+                "layer": "0",
+            },
+        )
+        if blk.block is not None:
+            blk.block.dxf.base_point = (w.base[0], w.base[1], 0.0)
+        target = blk
+    return target
+
+
+def _write_circle(target: Any, it: tuple[Any, ...], to_local: Affine, scale: float, attribs: dict[str, str]) -> None:
+    """A ``("circle", role, centre, radius)`` item as a CIRCLE."""
+    c = to_local.apply(it[2])
+    target.add_circle(c, it[3] * scale, dxfattribs=attribs)
+
+
+def _write_arc(
+    target: Any, it: tuple[Any, ...], to_local: Affine, scale: float, mirrored: bool, attribs: dict[str, str]
+) -> None:
+    """A ``("arc", role, centre, radius, start_deg, end_deg)`` item as an
+    ARC, its end angles taken from the transformed end points (swapped when
+    the transform mirrors, so the arc stays counter-clockwise)."""
+    (cx, cy), r, a0, a1 = it[2], it[3], it[4], it[5]
+    c = to_local.apply((cx, cy))
+    pts = [to_local.apply((cx + r * math.cos(math.radians(a)), cy + r * math.sin(math.radians(a)))) for a in (a0, a1)]
+    s0 = math.degrees(math.atan2(pts[0][1] - c[1], pts[0][0] - c[0]))
+    s1 = math.degrees(math.atan2(pts[1][1] - c[1], pts[1][0] - c[0]))
+    if mirrored:
+        s0, s1 = s1, s0
+    target.add_arc(c, r * scale, s0, s1, dxfattribs=attribs)
+
+
+def _write_path(target: Any, it: tuple[Any, ...], to_local: Affine, dxfversion: str, attribs: dict[str, str]) -> None:
+    """A ``("path", role, points)`` item as a LINE (two points) or a
+    polyline."""
+    pts = [to_local.apply(p) for p in it[2]]
+    if len(pts) == 2:
+        target.add_line(pts[0], pts[1], dxfattribs=attribs)
+    elif dxfversion == "R12":  # R12 has no LWPOLYLINE
+        target.add_polyline2d(pts, dxfattribs=attribs)
+    else:
+        target.add_lwpolyline(pts, dxfattribs=attribs)
+
+
+def _write_text(target: Any, it: tuple[Any, ...], to_local: Affine, scale: float, attribs: dict[str, str]) -> None:
+    """A ``("text", role, text, at)`` item as a TEXT centred at ``at``."""
+    from ezdxf.enums import TextEntityAlignment
+
+    p = to_local.apply(it[3])
+    t = target.add_text(it[2], height=_TEXT_HEIGHT * scale, dxfattribs=attribs)
+    t.set_placement(p, align=TextEntityAlignment.MIDDLE_CENTER)
 
 
 def _inverse(m: Affine) -> Affine:
