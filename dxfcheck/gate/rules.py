@@ -38,7 +38,7 @@ from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code, Finding, Severity
 from dxfcheck.core.units import length_unit_factor
 from dxfcheck.gate.spec import Spec, SpecValue
-from dxfcheck.mechanism import Mechanism
+from dxfcheck.mechanism import Band, Mechanism
 from dxfcheck.mechanism.plausibility import (
     DRUM_DIAMETER_MM,
     check_mechanism,
@@ -48,7 +48,7 @@ from dxfcheck.mechanism.plausibility import (
     how_read,
     plausible_units,
 )
-from dxfcheck.statics import CaseSolution, Solution, critical_mu, solve
+from dxfcheck.statics import BandResult, CaseSolution, Solution, critical_mu, solve
 from dxfcheck.statics.contact import DEFAULT_MU, LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction, contact_options
 
 __all__ = ["Duty", "Judgement", "RuleResult", "Verdict", "check_subjects", "duties", "hoist_factor", "judge"]
@@ -695,68 +695,93 @@ def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[Rule
     return out
 
 
+def _band_result(c: CaseSolution, name: str) -> BandResult:
+    """The solved forces of band ``name`` in case ``c``."""
+    return next(x for x in c.bands if x.name == name)
+
+
+def _band_taut(band: Band, every: list[CaseSolution]) -> RuleResult:
+    """The band stays taut: the least slack-side tension (N) over every case is positive.
+
+    Source: a band can only pull (common practice).
+    """
+    worst = min(every, key=lambda c: _band_result(c, band.name).slack_N)
+    slack = _band_result(worst, band.name).slack_N
+    return RuleResult(
+        f"band.taut.{band.name}",
+        f"band {band.name} stays taut",
+        Verdict.PASS if slack > 0 else Verdict.FAIL,
+        slack,
+        0.0,
+        "N",
+        None,
+        {"case": _where(worst)},
+        "a band can only pull: slack-side tension must be positive",
+        "" if slack > 0 else "the band goes slack or the brake self-locks in this case",
+    )
+
+
+def _band_pv(spec: Spec, band: Band, p: float, top: CaseSolution) -> list[RuleResult]:
+    """pV of the band against ``pv_max``, rubbing speed v = π·2r·n/60 (m/s); none unless both are given.
+
+    Source: :data:`SRC_PV` (Tribology Handbook B8; common practice).
+    """
+    if spec.get("drum_speed") is None or spec.get("pv_max") is None:
+        return []
+    v = math.pi * 2 * band.radius_mm * (spec.num("drum_speed") or 0.0) / 60.0 / 1000.0
+    return [
+        _ratio_rule(
+            f"band.pv.{band.name}",
+            f"pV, {band.name}",
+            p * v,
+            spec.num("pv_max") or 0.0,
+            "MPa*m/s",
+            SRC_PV,
+            {"pressure_MPa": p, "rubbing_speed_m_s": v, "case": _where(top)},
+            at_most=True,
+        )
+    ]
+
+
+def _band_pressure(spec: Spec, band: Band, cases: list[CaseSolution]) -> list[RuleResult]:
+    """Band pressure at the tight end p = T1/(b·r) (MPa) against ``lining_pressure_max``, then its pV.
+
+    Taken in the case with the greatest tight-side tension among ``cases``
+    (every band taut). Source: :data:`SRC_BAND` (Mott 4th ed., §22-15).
+    """
+    rule, title = f"band.pressure.{band.name}", f"band pressure, {band.name}"
+    if not cases:
+        return [_skip(rule, title, "no case with every band taut", SRC_BAND)]
+    top = max(cases, key=lambda c: _band_result(c, band.name).tight_N)
+    br = _band_result(top, band.name)
+    miss = _missing(spec, ("lining_width", "lining_pressure_max"))
+    if miss:
+        return [_skip(rule, title, f"needs {', '.join(miss)} (the band's width)", SRC_BAND)]
+    b = spec.num("lining_width")
+    assert b is not None
+    p = br.peak_line_load_N_per_mm / b
+    pressure = _ratio_rule(
+        rule,
+        title,
+        p,
+        spec.num("lining_pressure_max") or 0.0,
+        "MPa",
+        SRC_BAND,
+        {"tight_N": br.tight_N, "radius_mm": band.radius_mm, "width_mm": b, "case": _where(top)},
+        at_most=True,
+    )
+    return [pressure, *_band_pv(spec, band, p, top)]
+
+
 def _bands(
     spec: Spec, mech: Mechanism, solutions: dict[float, Solution], cases: list[CaseSolution]
 ) -> list[RuleResult]:
-    """Band tension positive everywhere; band pressure p = T1/(b·r) and pV."""
+    """Per band: taut over every solved case; pressure p = T1/(b·r) and pV over ``cases``."""
     out: list[RuleResult] = []
-    b = spec.num("lining_width")
+    every = [c for sol in solutions.values() for c in sol.cases]
     for band in mech.bands:
-        every = [c for sol in solutions.values() for c in sol.cases]
-        worst = min(every, key=lambda c: next(x for x in c.bands if x.name == band.name).slack_N)
-        slack = next(x for x in worst.bands if x.name == band.name).slack_N
-        out.append(
-            RuleResult(
-                f"band.taut.{band.name}",
-                f"band {band.name} stays taut",
-                Verdict.PASS if slack > 0 else Verdict.FAIL,
-                slack,
-                0.0,
-                "N",
-                None,
-                {"case": _where(worst)},
-                "a band can only pull: slack-side tension must be positive",
-                "" if slack > 0 else "the band goes slack or the brake self-locks in this case",
-            )
-        )
-        rule, title = f"band.pressure.{band.name}", f"band pressure, {band.name}"
-        if not cases:
-            out.append(_skip(rule, title, "no case with every band taut", SRC_BAND))
-            continue
-        top = max(cases, key=lambda c: next(x for x in c.bands if x.name == band.name).tight_N)
-        br = next(x for x in top.bands if x.name == band.name)
-        miss = _missing(spec, ("lining_width", "lining_pressure_max"))
-        if miss:
-            out.append(_skip(rule, title, f"needs {', '.join(miss)} (the band's width)", SRC_BAND))
-            continue
-        assert b is not None
-        p = br.peak_line_load_N_per_mm / b
-        out.append(
-            _ratio_rule(
-                rule,
-                title,
-                p,
-                spec.num("lining_pressure_max") or 0.0,
-                "MPa",
-                SRC_BAND,
-                {"tight_N": br.tight_N, "radius_mm": band.radius_mm, "width_mm": b, "case": _where(top)},
-                at_most=True,
-            )
-        )
-        if spec.get("drum_speed") is not None and spec.get("pv_max") is not None:
-            v = math.pi * 2 * band.radius_mm * (spec.num("drum_speed") or 0.0) / 60.0 / 1000.0
-            out.append(
-                _ratio_rule(
-                    f"band.pv.{band.name}",
-                    f"pV, {band.name}",
-                    p * v,
-                    spec.num("pv_max") or 0.0,
-                    "MPa*m/s",
-                    SRC_PV,
-                    {"pressure_MPa": p, "rubbing_speed_m_s": v, "case": _where(top)},
-                    at_most=True,
-                )
-            )
+        out.append(_band_taut(band, every))
+        out += _band_pressure(spec, band, cases)
     return out
 
 
@@ -809,75 +834,97 @@ def _pins(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleRe
     return out
 
 
+def _rod_section(spec: Spec, name: str) -> tuple[float | None, float | None]:
+    """The rod's cross-section area (mm²) and diameter (mm) from the spec.
+
+    ``rod_area`` wins; otherwise the area of a solid round ``rod_diameter``, A = πd²/4.
+    """
+    area = spec.num("rod_area", name)
+    dia = spec.num("rod_diameter", name)
+    if area is None and dia is not None:
+        area = math.pi * dia * dia / 4
+    return area, dia
+
+
+def _member_stress(spec: Spec, name: str, cases: list[CaseSolution], area: float | None) -> RuleResult:
+    """Axial rod stress σ = F/A (MPa) in the case of greatest |axial force| against ``rod_stress_allow``.
+
+    Source: :data:`SRC_STRESS`.
+    """
+    worst = max(cases, key=lambda c: abs(c.member(name).axial_N))
+    f = abs(worst.member(name).axial_N)
+    rule, title = f"member.stress.{name}", f"rod stress, {name}"
+    allow = spec.num("rod_stress_allow", name)
+    if area is None or allow is None:
+        need = [k for k, v in (("rod_area or rod_diameter", area), ("rod_stress_allow", allow)) if v is None]
+        return _skip(rule, title, f"needs {', '.join(need)}", SRC_STRESS)
+    return _ratio_rule(
+        rule,
+        title,
+        f / area,
+        allow,
+        "MPa",
+        SRC_STRESS,
+        {"axial_N": f, "area_mm2": area, "case": _where(worst)},
+        at_most=True,
+    )
+
+
+def _euler_load(e_mod: float, d_eff: float, k: float, length: float) -> float:
+    """Euler critical load P_cr = π²EI/(KL)² (N) of a solid round rod, I = πd⁴/64.
+
+    E in MPa, d and L in mm, K the end factor. Source: :data:`SRC_EULER`
+    (Shigley's MED 10th ed., §4-11; section from memory).
+    """
+    inertia = math.pi * d_eff**4 / 64
+    return math.pi**2 * e_mod * inertia / (k * length) ** 2
+
+
+def _member_buckling(
+    spec: Spec, name: str, cases: list[CaseSolution], area: float | None, dia: float | None
+) -> RuleResult:
+    """Euler buckling of a rod in its case of greatest compression: P_cr/safety against the compression (N).
+
+    A rod given only by area is taken as a solid round of that area.
+    Source: :data:`SRC_EULER`.
+    """
+    rule, title = f"member.buckling.{name}", f"rod buckling, {name}"
+    comp = [c for c in cases if c.member(name).axial_N < 0]
+    if not comp:
+        return _skip(rule, title, "always in tension", SRC_EULER)
+    e_mod = spec.num("rod_modulus", name)
+    if e_mod is None or (dia is None and area is None):
+        return _skip(rule, title, "needs rod_modulus and rod_diameter (or rod_area)", SRC_EULER)
+    d_eff = dia if dia is not None else math.sqrt(4 * (area or 0.0) / math.pi)
+    k = spec.num("rod_end_factor", name) or 1.0
+    sf = spec.num("buckling_safety", name) or 1.0
+    worst_c = max(comp, key=lambda c: -c.member(name).axial_N)
+    fc = -worst_c.member(name).axial_N
+    length = worst_c.member(name).length_mm
+    p_cr = _euler_load(e_mod, d_eff, k, length)
+    margin = p_cr / (sf * fc)
+    inputs = {
+        "compression_N": fc,
+        "euler_load_N": p_cr,
+        "length_mm": length,
+        "diameter_mm": d_eff,
+        "modulus_MPa": e_mod,
+        "end_factor": k,
+        "safety": sf,
+        "case": _where(worst_c),
+        "solid_round": dia is None,
+    }
+    verdict = Verdict.PASS if margin >= 1 else Verdict.FAIL
+    return RuleResult(rule, title, verdict, fc, p_cr / sf, "N", margin, inputs, SRC_EULER)
+
+
 def _members(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleResult]:
+    """Per two-force member (rod): axial stress and Euler buckling over ``cases``."""
     out: list[RuleResult] = []
     if not cases:
         return out
     for m in cases[0].members:
-        name = m.name
-        area = spec.num("rod_area", name)
-        dia = spec.num("rod_diameter", name)
-        if area is None and dia is not None:
-            area = math.pi * dia * dia / 4
-        worst = max(cases, key=lambda c: abs(c.member(name).axial_N))
-        f = abs(worst.member(name).axial_N)
-        rule, title = f"member.stress.{name}", f"rod stress, {name}"
-        allow = spec.num("rod_stress_allow", name)
-        if area is None or allow is None:
-            need = [k for k, v in (("rod_area or rod_diameter", area), ("rod_stress_allow", allow)) if v is None]
-            out.append(_skip(rule, title, f"needs {', '.join(need)}", SRC_STRESS))
-        else:
-            out.append(
-                _ratio_rule(
-                    rule,
-                    title,
-                    f / area,
-                    allow,
-                    "MPa",
-                    SRC_STRESS,
-                    {"axial_N": f, "area_mm2": area, "case": _where(worst)},
-                    at_most=True,
-                )
-            )
-        rule, title = f"member.buckling.{name}", f"rod buckling, {name}"
-        comp = [c for c in cases if c.member(name).axial_N < 0]
-        if not comp:
-            out.append(_skip(rule, title, "always in tension", SRC_EULER))
-            continue
-        e_mod = spec.num("rod_modulus", name)
-        if e_mod is None or (dia is None and area is None):
-            out.append(_skip(rule, title, "needs rod_modulus and rod_diameter (or rod_area)", SRC_EULER))
-            continue
-        d_eff = dia if dia is not None else math.sqrt(4 * (area or 0.0) / math.pi)
-        inertia = math.pi * d_eff**4 / 64
-        k = spec.num("rod_end_factor", name) or 1.0
-        sf = spec.num("buckling_safety", name) or 1.0
-        worst_c = max(comp, key=lambda c: -c.member(name).axial_N)
-        fc = -worst_c.member(name).axial_N
-        length = worst_c.member(name).length_mm
-        p_cr = math.pi**2 * e_mod * inertia / (k * length) ** 2
-        margin = p_cr / (sf * fc)
-        out.append(
-            RuleResult(
-                rule,
-                title,
-                Verdict.PASS if margin >= 1 else Verdict.FAIL,
-                fc,
-                p_cr / sf,
-                "N",
-                margin,
-                {
-                    "compression_N": fc,
-                    "euler_load_N": p_cr,
-                    "length_mm": length,
-                    "diameter_mm": d_eff,
-                    "modulus_MPa": e_mod,
-                    "end_factor": k,
-                    "safety": sf,
-                    "case": _where(worst_c),
-                    "solid_round": dia is None,
-                },
-                SRC_EULER,
-            )
-        )
+        area, dia = _rod_section(spec, m.name)
+        out.append(_member_stress(spec, m.name, cases, area))
+        out.append(_member_buckling(spec, m.name, cases, area, dia))
     return out
