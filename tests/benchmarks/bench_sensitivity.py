@@ -22,8 +22,8 @@ ROOT = Path(__file__).resolve().parents[2]
 sys.path.insert(0, str(ROOT))
 
 import dxfcheck  # noqa: E402
-from dxfcheck.statics.equations import assemble, contact_models, solve_system  # noqa: E402
 from dxfcheck.statics.contact import Direction  # noqa: E402
+from dxfcheck.statics.equations import assemble, contact_models, solve_system  # noqa: E402
 from dxfcheck.statics.sampling import sample_design  # noqa: E402
 
 
