@@ -281,16 +281,23 @@ def _release_signals() -> None:
         del _PREVIOUS[signum]
 
 
-def _new_temp(dest: Path) -> str:
+def _new_temp(dest: Path, claimed: set[str]) -> str:
     """Create an empty temporary file beside ``dest``, with the permissions
-    the umask gives (``0666 & ~umask``, as any new file)."""
+    the umask gives (``0666 & ~umask``, as any new file).  Each name is put
+    in ``claimed`` (and in the signal handler's list) *before* the file is
+    created, so that a signal arriving at any moment leaves nothing behind:
+    the caller removes whatever ``claimed`` holds."""
     folder = dest.parent if str(dest.parent) else Path(".")
     flags = os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_NOFOLLOW", 0)
     for _ in range(100):
         tmp = str(folder / f".{dest.name}.{secrets.token_hex(4)}.tmp")
+        claimed.add(tmp)
+        _LIVE.add(tmp)
         try:
             fd = os.open(tmp, flags, 0o666)
         except FileExistsError:
+            claimed.discard(tmp)  # someone else's file: never ours to remove
+            _LIVE.discard(tmp)
             continue
         except OSError as exc:
             raise OutputError(f"cannot write here: {exc.strerror}", path=str(dest)) from exc
@@ -314,10 +321,9 @@ def atomic_target(
     dest = Path(path)
     check_target(dest, force=force, protect=protect)
     _guard_signals()
-    tmp = ""
+    claimed: set[str] = set()
     try:
-        tmp = _new_temp(dest)
-        _LIVE.add(tmp)
+        tmp = _new_temp(dest, claimed)
         try:
             yield tmp
             with contextlib.suppress(FileNotFoundError):
@@ -328,11 +334,11 @@ def atomic_target(
                 f"cannot be written ({exc.strerror or exc}); nothing was changed", path=str(dest)
             ) from exc
     finally:
-        if tmp:
-            _LIVE.discard(tmp)
-            if os.path.lexists(tmp):
+        for name in claimed:
+            _LIVE.discard(name)
+            if os.path.lexists(name):
                 with contextlib.suppress(OSError):
-                    os.unlink(tmp)
+                    os.unlink(name)
         _release_signals()
 
 
