@@ -84,23 +84,7 @@ from dxfcheck.statics.results import (
 )
 from dxfcheck.statics.verify import verify_case
 
-__all__ = [
-    "Attachment",
-    "BandEnd",
-    "BandResult",
-    "CaseSolution",
-    "LoadResult",
-    "MemberResult",
-    "PinResult",
-    "ShoeResult",
-    "Solution",
-    "SpringEnd",
-    "SpringResult",
-    "critical_mu",
-    "solve",
-    "solve_case",
-    "solve_for_torque",
-]
+__all__ = ["solve", "solve_case", "solve_for_torque"]
 
 #: Largest relative equilibrium residual accepted.
 RESIDUAL_LIMIT = 1e-8

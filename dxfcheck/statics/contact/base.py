@@ -29,6 +29,7 @@ __all__ = [
     "ContactWrench",
     "Direction",
     "ShoeModelChoice",
+    "WholeLining",
     "combine",
     "contact_options",
     "line_of_action_point",
@@ -218,6 +219,37 @@ class ContactModel(Protocol):
     def patch_deg(self) -> tuple[float, float]:
         """The contact patch's polar angles, from and to [degrees, 0..360)."""
         ...
+
+
+class WholeLining:
+    """What a contact model whose patch is the whole lining, never moved by
+    the statics, answers of its patch (short shoes and the hinged long shoe;
+    a model placed by a pin overrides :attr:`contact_pin`)."""
+
+    shoe: Shoe
+
+    @property
+    def partial(self) -> bool:
+        """The patch is never trimmed."""
+        return False
+
+    @property
+    def on_edge(self) -> bool:
+        """The patch never shrinks to an edge."""
+        return False
+
+    @property
+    def contact_pin(self) -> Point | None:
+        """No pin places the contact."""
+        return None
+
+    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
+        """No pressure law offset."""
+        return None
+
+    def patch_deg(self) -> tuple[float, float]:
+        """The whole lining as drawn [degrees]."""
+        return self.shoe.arc.start_deg, self.shoe.arc.end_deg
 
 
 def line_of_action_point(center: Point, radius: float, force: Point, moment_o: float, near_deg: float) -> Point:

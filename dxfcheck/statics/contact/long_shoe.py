@@ -55,6 +55,7 @@ from dxfcheck.statics.contact.base import (
     ContactModelName,
     ContactWrench,
     Direction,
+    WholeLining,
     line_of_action_point,
     surface_tangent,
 )
@@ -162,7 +163,7 @@ def _arc_span(shoe: Shoe) -> tuple[float, float]:
 
 
 @dataclass(frozen=True)
-class LongHingedShoe:
+class LongHingedShoe(WholeLining):
     """Long shoe fixed to a lever that turns about a frame pivot ``hinge``:
     ``p = pa·sinθ/sinθa``; the unknown is the peak line load ``qa = pa·b``
     [N/mm].
@@ -253,30 +254,6 @@ class LongHingedShoe:
 
     def notes(self) -> tuple[Finding, ...]:
         return self._theta()[4]
-
-    @property
-    def partial(self) -> bool:
-        """The hinged shoe's patch is fixed by its geometry, not trimmed by
-        the statics (lining beyond the hinge line is noted by :meth:`notes`)."""
-        return False
-
-    @property
-    def on_edge(self) -> bool:
-        """The hinged shoe's patch does not move."""
-        return False
-
-    @property
-    def contact_pin(self) -> Point | None:
-        """The pressure law is placed by the hinge, which sampling keeps."""
-        return None
-
-    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
-        """The hinged law's peak is placed by the hinge: no offset."""
-        return None
-
-    def patch_deg(self) -> tuple[float, float]:
-        """The whole lining as drawn [degrees]."""
-        return self.shoe.arc.start_deg, self.shoe.arc.end_deg
 
 
 def _theta_a(lo: float, hi: float) -> float:

@@ -36,7 +36,7 @@ from dataclasses import dataclass, replace
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross
 from dxfcheck.mechanism import Drum, Mounting, Shoe
-from dxfcheck.statics.contact.base import ContactModelName, ContactWrench, Direction, surface_tangent
+from dxfcheck.statics.contact.base import ContactModelName, ContactWrench, Direction, WholeLining, surface_tangent
 
 __all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
 
@@ -82,7 +82,7 @@ def _wrench_at(
     return ContactWrench(model, point, force, n, t, 1.0, mu, torque, findings, n, (mu * t[0], mu * t[1]), load)
 
 
-class _ShortBase:
+class _ShortBase(WholeLining):
     """What both short-shoe models share: one unknown, the normal force."""
 
     shoe: Shoe
@@ -98,29 +98,6 @@ class _ShortBase:
 
     def notes(self) -> tuple[Finding, ...]:
         return ()
-
-    @property
-    def partial(self) -> bool:
-        """A short shoe's contact is never trimmed."""
-        return False
-
-    @property
-    def on_edge(self) -> bool:
-        """A short shoe's contact never shrinks to an edge."""
-        return False
-
-    @property
-    def contact_pin(self) -> Point | None:
-        """No pin places a fixed shoe's contact."""
-        return None
-
-    def offset_deg(self, coeffs: Sequence[float]) -> float | None:
-        """Short-shoe theory has no pressure law to offset."""
-        return None
-
-    def patch_deg(self) -> tuple[float, float]:
-        """The whole lining [degrees]."""
-        return self.shoe.arc.start_deg, self.shoe.arc.end_deg
 
 
 @dataclass(frozen=True)
