@@ -1,5 +1,6 @@
 """The public API: every exported name resolves, and the heavier stages load
-only when their names are first used."""
+only when their names are first used.  (The project's own conventions, as
+DEVELOPERS.md states them; no published source.)"""
 
 from __future__ import annotations
 

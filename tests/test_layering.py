@@ -1,7 +1,8 @@
 """The package's folders are the pipeline's stages, and imports only run
 downhill: core → read → mechanism → statics → gate → revision → output,
 then the top-level modules (pipeline, batch, cli).  This walks the source
-with ast (``tests/import_graph.py``), so the layering cannot drift back."""
+with ast (``tests/import_graph.py``), so the layering cannot drift back.  (The project's own convention, stated in
+DEVELOPERS.md; no published source.)"""
 
 from __future__ import annotations
 
