@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import math
 import os
-from collections.abc import Sequence
+from collections.abc import Mapping, Sequence
 from dataclasses import replace
 from pathlib import Path
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 from dxfcheck.core.config import Config, config_for_drawing
 from dxfcheck.core.errors import ConfigError, MechanismError
@@ -157,6 +157,7 @@ def check(
     path: str | os.PathLike[str],
     *,
     config: str | os.PathLike[str] | Config | None = None,
+    spec: Mapping[str, Any] | None = None,
     overrides: Sequence[tuple[str, str]] = (),
     units: str | None = None,
     tolerance_mm: float | None = None,
@@ -170,9 +171,15 @@ def check(
         The DXF drawing (only read).
     config : path-like or Config, optional
         Project file; default: the nearest ``dxfcheck.toml``.
+    spec : mapping, optional
+        Typed spec values, above the project file and the sidecar (source
+        ``Python call``): ``{"required_torque": (450, "N*m"), "mu": 0.35,
+        "directions": (Direction.CW,), "pins": {"A": {"pin_diameter":
+        (20, "mm")}}}``; a quantity is ``(number, "unit")``, a
+        :class:`~dxfcheck.core.units.Quantity` or a text with its unit.
     overrides : sequence of (str, str)
-        Spec values from the command line, ``(KEY, VALUE)``, highest
-        precedence.
+        ``KEY=VALUE`` texts as the command line gives them (``--set``),
+        highest precedence.
     units, tolerance_mm
         As for :func:`analyse`.
 
@@ -189,17 +196,18 @@ def check(
 
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
-    spec = load_spec(
+    judged_spec = load_spec(
         path,
         project=cfg.spec,
         project_path=cfg.path,
         custom_properties=drawing.custom_properties,
+        given=spec,
         overrides=overrides,
     )
-    drawing = _spec_units(drawing, spec, path, cfg, units=units, max_bytes=max_bytes)
-    effort = spec.num("effort")
+    drawing = _spec_units(drawing, judged_spec, path, cfg, units=units, max_bytes=max_bytes)
+    effort = judged_spec.num("effort")
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort)
-    return judge(mech, spec)
+    return judge(mech, judged_spec)
 
 
 def _spec_units(

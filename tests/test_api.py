@@ -43,3 +43,37 @@ def test_errors_are_also_the_builtins_they_stand_for():
     assert issubclass(e.LimitError, RuntimeError) and issubclass(e.VerificationError, AssertionError)
     err = e.OutputError("cannot write", path="x.dxf")
     assert str(err) == "x.dxf: cannot write" and err.path == "x.dxf"
+
+
+def test_check_takes_typed_values(tmp_path):
+    """The same spec given as typed values and as command-line texts gives
+    the same judgement, and each value shows where it came from."""
+    from common import conveyor_block
+
+    from dxfcheck.core.directions import Direction
+
+    path = tmp_path / "c.dxf"
+    conveyor_block().save(path)
+    typed = dxfcheck.check(
+        path,
+        spec={"mu": 0.35, "required_torque": (0.45, "kN*m"), "directions": (Direction.CW,), "units": "mm"},
+    )
+    texts = dxfcheck.check(
+        path, overrides=[("mu", "0.35"), ("required_torque", "450 N*m"), ("directions", "cw"), ("units", "mm")]
+    )
+    assert typed.spec.values["required_torque"].value == 450.0
+    assert typed.spec.values["required_torque"].source == "Python call"
+    assert [(r.rule, r.verdict, r.value) for r in typed.rules] == [(r.rule, r.verdict, r.value) for r in texts.rules]
+    assert any(r.rule.startswith("torque.") for r in typed.rules)
+
+
+def test_check_refuses_a_typed_quantity_without_unit(tmp_path):
+    import pytest
+    from common import conveyor_block
+
+    path = tmp_path / "c.dxf"
+    conveyor_block().save(path)
+    with pytest.raises(dxfcheck.ConfigError, match="required_torque"):
+        dxfcheck.check(path, spec={"required_torque": 450.0})
+    with pytest.raises(dxfcheck.ConfigError, match=r"\(number, 'unit'\)"):
+        dxfcheck.check(path, spec={"required_torque": (450.0,)})

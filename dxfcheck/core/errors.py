@@ -7,9 +7,10 @@ when a stage cannot produce its result at all; it carries the findings that
 explain why, so the command line can print every one of them.
 
 Each class also inherits the built-in it stands for, so that code which
-knows nothing of dxfcheck still catches it sensibly: a :class:`ConfigError`,
-:class:`MechanismError` or :class:`SolveError` is a ``ValueError`` (a value
-given to dxfcheck cannot be used), an :class:`OutputError` an ``OSError``, a
+knows nothing of dxfcheck still catches it sensibly: a
+:class:`DrawingReadError`, :class:`ConfigError`, :class:`MechanismError` or
+:class:`SolveError` is a ``ValueError`` (a value given to dxfcheck cannot be
+used), an :class:`OutputError` an ``OSError``, a
 :class:`LimitError` a ``RuntimeError``, a :class:`VerificationError` an
 ``AssertionError``.
 """
@@ -63,8 +64,14 @@ class DxfcheckError(Exception):
         return self.message
 
 
-class DrawingReadError(DxfcheckError):
-    """The file is missing, unreadable or not a usable DXF drawing."""
+class DrawingReadError(DxfcheckError, ValueError):
+    """The file is missing, unreadable or not a usable DXF drawing.
+
+    A ``ValueError`` like the other input errors.  The readers' handlers that
+    turn ezdxf's ``ValueError`` on damaged data into findings let every
+    :class:`DxfcheckError` through first (``tests/read/test_refusals_pass.py``
+    holds them to it), so a refusal is never taken for a damaged entity.
+    """
 
 
 class ConfigError(DxfcheckError, ValueError):

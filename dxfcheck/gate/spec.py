@@ -34,7 +34,7 @@ from typing import Any
 
 from dxfcheck.core.config import read_toml, sidecar_of
 from dxfcheck.core.errors import ConfigError
-from dxfcheck.core.units import DIMENSIONS, UnitError, parse_quantity
+from dxfcheck.core.units import DIMENSIONS, Quantity, UnitError, parse_quantity
 
 __all__ = [
     "DEFAULTS",
@@ -297,6 +297,7 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
     where = f"{source}: {key}"
     if spec.kind is Kind.QUANTITY:
         assert spec.dimension is not None
+        raw = _typed_quantity(raw, where)
         if isinstance(raw, bool) or not isinstance(raw, (str, int, float)):
             raise ConfigError(f"{where} must be a number with a unit, e.g. '450 N*m'")
         if not isinstance(raw, str):
@@ -315,12 +316,29 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
         return SpecValue(key, value, "", str(raw), source)
     if spec.kind is Kind.DIRECTIONS:
         items = [s.strip() for s in raw.split(",")] if isinstance(raw, str) else raw
+        if isinstance(items, list | tuple):  # Direction members are str too
+            items = [str(i) for i in items]
         if not isinstance(items, list | tuple) or not items or not all(i in ("cw", "ccw") for i in items):
             raise ConfigError(f"{where} must be a list of 'cw' and 'ccw', got {raw!r}")
         return SpecValue(key, tuple(dict.fromkeys(items)), "", str(raw), source)
     if not isinstance(raw, str) or raw not in spec.choices:
         raise ConfigError(f"{where} must be one of {', '.join(spec.choices)}, got {raw!r}")
     return SpecValue(key, raw, "", raw, source)
+
+
+def _typed_quantity(raw: Any, where: str) -> Any:
+    """A quantity given from Python as ``(value, "unit")`` or a
+    :class:`~dxfcheck.core.units.Quantity`, as the text it stands for; any
+    other value is returned as it is."""
+    if isinstance(raw, Quantity):
+        return f"{raw.value!r} {raw.unit}"
+    if isinstance(raw, tuple):
+        ok = len(raw) == 2 and isinstance(raw[1], str) and not isinstance(raw[0], bool)
+        if not ok or not isinstance(raw[0], int | float):
+            raise ConfigError(f"{where} must be (number, 'unit'), e.g. (450, 'N*m'); got {str(raw)[:40]!r}")
+        value = _plain_number(raw[0], where)
+        return f"{value!r} {raw[1]}"
+    return raw
 
 
 @dataclass
@@ -395,6 +413,7 @@ def load_spec(
     project: Mapping[str, Any] | None = None,
     project_path: str | None = None,
     custom_properties: Iterable[tuple[str, str]] = (),
+    given: Mapping[str, Any] | None = None,
     overrides: Iterable[tuple[str, str]] = (),
 ) -> Spec:
     """Merge the spec of one drawing from all its sources.
@@ -410,6 +429,12 @@ def load_spec(
         The project file, for messages.
     custom_properties : iterable of (str, str)
         The drawing header's custom properties.
+    given : mapping, optional
+        Typed values from a Python caller, above the files and below the
+        command line (source ``Python call``): a quantity as ``(450,
+        "N*m")``, a :class:`~dxfcheck.core.units.Quantity` or a text with its
+        unit; a number as a float; directions as :class:`Direction` members
+        or ``"cw"``/``"ccw"``; ``{"pins": {NAME: {KEY: ...}}}`` per subject.
     overrides : iterable of (str, str)
         Command-line ``KEY=VALUE`` pairs (``pins.NAME.KEY`` allowed).
 
@@ -446,6 +471,8 @@ def load_spec(
         if not isinstance(spec_table, dict):
             raise ConfigError("[spec] must be a table", path=str(sidecar))
         b.table(spec_table, f"{sidecar} [spec]")
+    if given:
+        b.table(given, "Python call")
     for key, raw in overrides:
         _put_dotted(b, key, raw, "command line")
     return b.build()

@@ -98,8 +98,8 @@ def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config,
         if c.kind == "pin" and c.crossed and pin is not None:
             at, ring = pin.center, 1.5 * pin.diameter_mm
             text = f"{c.name} {c.direction}: force {100 * (c.rel_change or 0):+.1f}%"
-        elif c.kind in GEOMETRY_KINDS and c.at is not None:
-            at = c.at
+        elif c.kind in GEOMETRY_KINDS and c.at_mm is not None:
+            at = c.at_mm
             ring = 1.5 * pin.diameter_mm if c.kind in ("moved", "diameter") and pin is not None else h
             text = c.note or f"{c.name}: {format_cell(c.old)} -> {format_cell(c.new)} {c.unit}"
         else:

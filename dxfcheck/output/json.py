@@ -85,12 +85,12 @@ def _shoe_result(s: ShoeResult) -> dict[str, Any]:
         "friction_resultant_N": s.friction_resultant_N,
         "friction_lining_N": s.friction_lining_N,
         "torque_Nm": s.torque_Nm,
-        "contact_mm": list(s.contact),
-        "force_N": list(s.force),
-        "normal_force_N": list(s.normal_force),
-        "normal_at_mm": list(s.normal_at),
-        "friction_force_N": list(s.friction_force),
-        "friction_at_mm": list(s.friction_at),
+        "contact_mm": list(s.contact_mm),
+        "force_N": list(s.force_N),
+        "normal_force_N": list(s.normal_force_N),
+        "normal_at_mm": list(s.normal_at_mm),
+        "friction_force_N": list(s.friction_force_N),
+        "friction_at_mm": list(s.friction_at_mm),
         "peak_line_load_N_per_mm": s.peak_line_load_N_per_mm,
         "peak_at_deg": s.peak_at_deg,
         "mu_equivalent": s.mu_equivalent,
@@ -128,8 +128,8 @@ def _band_end(e: BandEnd) -> dict[str, Any]:
         "pin": e.pin,
         "tight": e.tight,
         "tension_N": e.tension_N,
-        "tangent_mm": list(e.tangent),
-        "pull_N": list(e.pull),
+        "tangent_mm": list(e.tangent_mm),
+        "pull_N": list(e.pull_N),
     }
 
 
@@ -155,7 +155,7 @@ def _spring_result(s: SpringResult) -> dict[str, Any]:
         "name": s.name,
         "force_N": s.force_N,
         "state": s.state,
-        "ends": [{"part": e.part, "at_mm": list(e.point), "force_N": list(e.force)} for e in s.ends],
+        "ends": [{"part": e.part, "at_mm": list(e.at_mm), "force_N": list(e.force_N)} for e in s.ends],
     }
 
 

@@ -225,9 +225,15 @@ def _shoe_forces(case: CaseSolution) -> list[_Force]:
     own line of action."""
     out: list[_Force] = []
     for s in case.shoes:
-        out.append(("normal", s.name, s.normal_at, s.normal_force, f"N {s.name} {_fmt_force(s.normal_N)}"))
+        out.append(("normal", s.name, s.normal_at_mm, s.normal_force_N, f"N {s.name} {_fmt_force(s.normal_N)}"))
         out.append(
-            ("friction", s.name, s.friction_at, s.friction_force, f"F {s.name} {_fmt_force(s.friction_resultant_N)}")
+            (
+                "friction",
+                s.name,
+                s.friction_at_mm,
+                s.friction_force_N,
+                f"F {s.name} {_fmt_force(s.friction_resultant_N)}",
+            )
         )
     return out
 
@@ -247,7 +253,7 @@ def _band_forces(case: CaseSolution, mech: Mechanism) -> list[_Force]:
         for end in br.ends:
             side = "T1" if end.tight else "T2"
             at = mech.pin(end.pin).center
-            out.append(("band", br.name, at, end.pull, f"{br.name} {side} {_fmt_force(end.tension_N)}"))
+            out.append(("band", br.name, at, end.pull_N, f"{br.name} {side} {_fmt_force(end.tension_N)}"))
     return out
 
 
@@ -258,7 +264,7 @@ def _spring_forces(case: CaseSolution) -> list[_Force]:
         state = "T" if sr.state == "tension" else "C"
         for e in sr.ends:
             if e.part is not None:
-                out.append(("spring", sr.name, e.point, e.force, f"{sr.name} {_fmt_force(sr.force_N)} {state}"))
+                out.append(("spring", sr.name, e.at_mm, e.force_N, f"{sr.name} {_fmt_force(sr.force_N)} {state}"))
     return out
 
 

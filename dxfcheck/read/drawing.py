@@ -32,7 +32,7 @@ from typing import Any
 
 from dxfcheck.core import deadline
 from dxfcheck.core.config import Config, Role
-from dxfcheck.core.errors import ConfigError, DrawingReadError
+from dxfcheck.core.errors import ConfigError, DrawingReadError, DxfcheckError
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Affine, Point
 from dxfcheck.core.units import INSUNITS_MM, UnitError, length_unit_factor
@@ -393,6 +393,8 @@ def _cells(e: Any) -> int:
     """Placements of one INSERT (rows × columns of a MINSERT)."""
     try:
         return max(1, int(e.dxf.get("row_count", 1))) * max(1, int(e.dxf.get("column_count", 1)))
+    except DxfcheckError:  # a refusal of ours is never a damaged entity
+        raise
     except _damaged():
         return 1
 
@@ -453,6 +455,8 @@ def _check_expansion(doc: Any, path: str) -> None:
         try:
             if e.dxftype() == "INSERT":
                 total += _cells(e) * ex.expand(str(e.dxf.get("name", "")), 0)
+        except DxfcheckError:  # a refusal of ours is never a damaged entity
+            raise
         except _damaged():  # reported when the walk meets it
             continue
         if total > MAX_BLOCK_VISITS:
@@ -518,6 +522,8 @@ def _walk(
             dxftype = str(e.dxftype())
             layer = str(e.dxf.get("layer", "0"))
             handle = str(e.dxf.get("handle", "?"))
+        except DxfcheckError:  # a refusal of ours is never a damaged entity
+            raise
         except _damaged():  # an entity kind ezdxf keeps only as raw tags: not skeleton
             continue
         own = layer
@@ -527,6 +533,8 @@ def _walk(
         if dxftype == "INSERT":
             try:
                 _walk_insert(col, doc, e, m, layer, via, depth)
+            except DxfcheckError:  # a refusal of ours is never a damaged entity
+                raise
             except _damaged() as exc:  # a damaged block reference: report it, go on
                 col.finding(Code.DEGENERATE_ENTITY, f"INSERT could not be read ({type(exc).__name__}: {exc})", src)
             continue
@@ -548,6 +556,8 @@ def _walk(
             continue
         try:
             _take(col, e, dxftype, role, m, src)
+        except DxfcheckError:  # a refusal of ours is never a damaged entity
+            raise
         except _damaged() as exc:  # damaged entity data: report it, go on
             col.finding(Code.DEGENERATE_ENTITY, f"{dxftype} could not be read ({type(exc).__name__}: {exc})", src)
 
@@ -578,6 +588,8 @@ def _take_loose(col: _Collector, e: Any, m: Affine, src: Source) -> None:
         if scale is None:
             return
         center = mm.apply((float(c[0]), float(c[1])))
+    except DxfcheckError:  # a refusal of ours is never a damaged entity
+        raise
     except _damaged():  # damaged data on a layer that is not the skeleton's: not our concern
         return
     radius = r * scale
@@ -1008,10 +1020,14 @@ def load_document(
     findings: list[Finding] = []
     try:
         doc = readfile(spath)
+    except DxfcheckError:  # a refusal of ours is never a damaged entity
+        raise
     except _unreadable():  # a failure of the strict parser: try the recovering one
         deadline.check("reading the drawing")
         try:
             doc, auditor = recover.readfile(spath)
+        except DxfcheckError:  # a refusal of ours is never a damaged entity
+            raise
         except _unreadable() as exc:  # beyond both of ezdxf's readers
             raise DrawingReadError(
                 f"is not a readable DXF drawing ({type(exc).__name__}: {exc}); open and re-save it in the CAD program",
@@ -1111,6 +1127,8 @@ def _open_checked(
         fallback: tuple[type[BaseException], ...] = (FastReadUnsupported, *_unreadable())
         try:
             return fast.load_fast(path, config.role_of_layer()), []
+        except DxfcheckError:  # a refusal of ours is never a damaged entity
+            raise
         except fallback:  # what the fast reader does not follow: the full one decides
             deadline.check("reading the drawing")
     return load_document(path, max_bytes=max_bytes, checked_size=size)

@@ -188,7 +188,7 @@ class Change:
         True when this change crosses a threshold or turns a verdict from
         pass to fail.
     note : str
-    at : Point or None
+    at_mm : Point or None
         Where the change is in the newer revision [mm] (a geometry change's
         pin, load point, spring end, lining middle...), for the mark-up.
     """
@@ -203,7 +203,7 @@ class Change:
     rel_change: float | None = None
     crossed: bool = False
     note: str = ""
-    at: Point | None = None
+    at_mm: Point | None = None
 
 
 @dataclass(frozen=True)
@@ -481,12 +481,12 @@ def _shape_distance(a: Sequence[tuple[Point, Point]], b: Sequence[tuple[Point, P
 
 def _moved(kind: str, label: str, d: float, note: str, at: Point) -> Change:
     """A point that moved ``d`` [mm] (after the rigid motion)."""
-    return Change(kind, label, "", 0.0, d, "mm", d, None, note=note, at=at)
+    return Change(kind, label, "", 0.0, d, "mm", d, None, note=note, at_mm=at)
 
 
 def _resized(kind: str, label: str, old: float, new: float, unit: str, note: str, at: Point | None) -> Change:
     """A size (a length, a force) that changed from ``old`` to ``new``."""
-    return Change(kind, label, "", old, new, unit, new - old, _rel(old, new), note=note, at=at)
+    return Change(kind, label, "", old, new, unit, new - old, _rel(old, new), note=note, at_mm=at)
 
 
 def _force_differs(fo: float, fn: float) -> bool:
@@ -623,7 +623,14 @@ def _load_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[s
         if key(lo) != ln.part:
             out.append(
                 Change(
-                    "load", f"{name} part", "", lo.part, ln.part, "", note=f"{name}: now acts on {ln.part}", at=ln.point
+                    "load",
+                    f"{name} part",
+                    "",
+                    lo.part,
+                    ln.part,
+                    "",
+                    note=f"{name}: now acts on {ln.part}",
+                    at_mm=ln.point,
                 )
             )
     return out + _unpaired("load", mo.loads, mn.loads, pairs)
@@ -651,7 +658,7 @@ def _load_place_changes(name: str, lo: Load, ln: Load, motion: Affine, tol: floa
                 turn,
                 None,
                 note=f"{name}: turned {turn:+.4g}° (counter-clockwise positive)",
-                at=ln.point,
+                at_mm=ln.point,
             )
         )
     return out
@@ -719,7 +726,7 @@ def _spring_size_changes(name: str, so: Spring, sn: Spring, tol: float) -> list[
     if so.tension != sn.tension:
         sense_old, sense_new = _SENSE[so.tension], _SENSE[sn.tension]
         out.append(
-            Change("spring", f"{name} sense", "", sense_old, sense_new, "", note=f"{name}: sense changed", at=at)
+            Change("spring", f"{name} sense", "", sense_old, sense_new, "", note=f"{name}: sense changed", at_mm=at)
         )
     return out
 
@@ -731,11 +738,11 @@ def _drum_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict[s
     if mo.drum is not None and mn.drum is not None:
         ro, rn, at = mo.drum.radius_mm, mn.drum.radius_mm, mn.drum.center
         if abs(rn - ro) > tol:
-            out.append(Change("drum", "drum radius", "", ro, rn, "mm", rn - ro, _rel(ro, rn), at=at))
+            out.append(Change("drum", "drum radius", "", ro, rn, "mm", rn - ro, _rel(ro, rn), at_mm=at))
         d = dist(motion.apply(mo.drum.center), at)
         if d > tol:
             out.append(
-                Change("drum", "drum axis", "", 0.0, d, "mm", d, None, note=f"drum axis moved {d:.4g} mm", at=at)
+                Change("drum", "drum axis", "", 0.0, d, "mm", d, None, note=f"drum axis moved {d:.4g} mm", at_mm=at)
             )
     out += _lining_changes(mo, mn, motion, part_map)
     new_bands = {b.name: b for b in mn.bands}
@@ -760,11 +767,11 @@ def _lining_changes(mo: Mechanism, mn: Mechanism, motion: Affine, part_map: dict
         a_old, a_new = so.contact_angle_deg, sn.contact_angle_deg
         if abs(a_new - a_old) > ANGLE_TOL_DEG:
             name = f"{sn.name} contact angle"
-            out.append(Change("lining", name, "", a_old, a_new, "deg", a_new - a_old, _rel(a_old, a_new), at=at))
+            out.append(Change("lining", name, "", a_old, a_new, "deg", a_new - a_old, _rel(a_old, a_new), at_mm=at))
         shift = (sn.arc.mid_deg - (so.arc.mid_deg + turn) + 180.0) % 360.0 - 180.0
         if abs(shift) > ANGLE_TOL_DEG:
             note = f"{sn.name}: lining's middle turned {shift:+.4g}° about the drum axis"
-            out.append(Change("lining", f"{sn.name} position", "", 0.0, shift, "deg", shift, None, note=note, at=at))
+            out.append(Change("lining", f"{sn.name} position", "", 0.0, shift, "deg", shift, None, note=note, at_mm=at))
     return out
 
 
@@ -892,7 +899,7 @@ def change_to_dict(c: Change) -> dict[str, Any]:
         "rel_change": num(c.rel_change),
         "crossed": c.crossed,
         "note": c.note,
-        "at_mm": None if c.at is None else [c.at[0], c.at[1]],
+        "at_mm": None if c.at_mm is None else [c.at_mm[0], c.at_mm[1]],
     }
 
 

@@ -90,14 +90,14 @@ class ShoeResult:
     torque_Nm : float
         Braking torque the shoe puts on the drum [N·m], positive against the
         drum's motion.
-    contact : Point
+    contact_mm : Point
         Where the resultant's line of action meets the drum surface [mm].
-    force : Point
+    force_N : Point
         Resultant force of the drum on the shoe [N].
-    normal_force, normal_at : Point
+    normal_force_N, normal_at_mm : Point
         The normal resultant [N] and a point of its line of action [mm] on
         the drum surface (the line runs through the drum axis).
-    friction_force, friction_at : Point
+    friction_force_N, friction_at_mm : Point
         The friction resultant [N] and a point of its line of action [mm]:
         the foot of the perpendicular from the drum axis, at r for a short
         shoe and beyond r for a long one.
@@ -126,12 +126,12 @@ class ShoeResult:
     friction_resultant_N: float
     friction_lining_N: float
     torque_Nm: float
-    contact: Point
-    force: Point
-    normal_force: Point
-    normal_at: Point
-    friction_force: Point
-    friction_at: Point
+    contact_mm: Point
+    force_N: Point
+    normal_force_N: Point
+    normal_at_mm: Point
+    friction_force_N: Point
+    friction_at_mm: Point
     internal: bool = False
     peak_line_load_N_per_mm: float = math.nan
     peak_at_deg: float = math.nan
@@ -158,18 +158,18 @@ class BandEnd:
         True at the tight end (where the drum surface moves away from it).
     tension_N : float
         Its tension [N].
-    tangent : Point
+    tangent_mm : Point
         Where the band leaves the drum [mm].
-    pull : Point
+    pull_N : Point
         The band's force on the pin [N], along the straight piece towards the
-        drum; the band's force on the drum at ``tangent`` is its opposite.
+        drum; the band's force on the drum at ``tangent_mm`` is its opposite.
     """
 
     pin: str
     tight: bool
     tension_N: float
-    tangent: Point
-    pull: Point
+    tangent_mm: Point
+    pull_N: Point
 
 
 @dataclass(frozen=True)
@@ -208,12 +208,12 @@ class BandResult:
 
 @dataclass(frozen=True)
 class SpringEnd:
-    """The force ``force`` [N] a spring exerts at ``point`` [mm] on ``part``
+    """The force ``force_N`` [N] a spring exerts at ``at_mm`` [mm] on ``part``
     (None: the frame)."""
 
     part: str | None
-    point: Point
-    force: Point
+    at_mm: Point
+    force_N: Point
 
 
 @dataclass(frozen=True)

@@ -299,14 +299,14 @@ def _shoe_result(
         friction_resultant_N=sign * math.hypot(*friction),
         friction_lining_N=torque / radius,
         torque_Nm=torque / NMM_PER_NM,
-        contact=point,
-        force=force,
-        normal_force=normal,
+        contact_mm=point,
+        force_N=force,
+        normal_force_N=normal,
         # the normal forces are radial: their resultant runs through the axis
         # and the whole moment about the axis is the friction's
-        normal_at=line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg),
-        friction_force=friction,
-        friction_at=_foot_of_line(center, friction, m_o, point),
+        normal_at_mm=line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg),
+        friction_force_N=friction,
+        friction_at_mm=_foot_of_line(center, friction, m_o, point),
         internal=s.internal,
         peak_line_load_N_per_mm=peak,
         peak_at_deg=peak_deg,
@@ -546,7 +546,7 @@ def _lifting_shoes(mech: Mechanism, shoes: tuple[ShoeResult, ...], fmax: float, 
             f"{sr.normal_N:.4g} N): under these loads it lifts off" + (spring_hint if k == 0 else ""),
             (by_name[sr.name].arc.source.ref,),
             (by_name[sr.name].arc.source.layer,),
-            sr.contact,
+            sr.contact_mm,
         )
         for k, (sr, lift) in enumerate(zip(shoes, lifts, strict=True))
         if lift

@@ -69,7 +69,7 @@ def _moment(point: Point, force: Point, about: Point) -> float:
 
 def _force_scale(case: CaseSolution) -> float:
     fs = [p.max_force_N for p in case.pins]
-    fs += [math.hypot(*s.force) for s in case.shoes] + [ld.force_N for ld in case.loads]
+    fs += [math.hypot(*s.force_N) for s in case.shoes] + [ld.force_N for ld in case.loads]
     fs += [abs(b.tight_N) for b in case.bands] + [abs(sp.force_N) for sp in case.springs]
     return max([*fs, 1e-300])
 
@@ -83,10 +83,10 @@ def drum_moment_Nmm(mech: Mechanism, case: CaseSolution) -> float:
     c = mech.drum.center
     m = 0.0
     for s in case.shoes:
-        m -= _moment(s.normal_at, s.normal_force, c) + _moment(s.friction_at, s.friction_force, c)
+        m -= _moment(s.normal_at_mm, s.normal_force_N, c) + _moment(s.friction_at_mm, s.friction_force_N, c)
     for b in case.bands:
         for end in b.ends:
-            m += _moment(end.tangent, (-end.pull[0], -end.pull[1]), c)
+            m += _moment(end.tangent_mm, (-end.pull_N[0], -end.pull_N[1]), c)
     return m
 
 
@@ -113,13 +113,13 @@ def _check_parts(mech: Mechanism, case: CaseSolution, ftol: float, mtol: float) 
         for at in p.attachments:
             add(at.body, (p.x_mm, p.y_mm), (at.fx_N, at.fy_N))
     for s in case.shoes:
-        add(s.part, s.normal_at, s.normal_force)
-        add(s.part, s.friction_at, s.friction_force)
+        add(s.part, s.normal_at_mm, s.normal_force_N)
+        add(s.part, s.friction_at_mm, s.friction_force_N)
     for ld in case.loads:
         add(ld.part, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N))
     for sp in case.springs:
         for e in sp.ends:
-            add(e.part, e.point, e.force)
+            add(e.part, e.at_mm, e.force_N)
     for name, (fx, fy, mz) in acc.items():
         if math.hypot(fx, fy) > ftol or abs(mz) > mtol or not all(map(math.isfinite, (fx, fy, mz))):
             raise _fail(
@@ -132,8 +132,8 @@ def _check_pins(mech: Mechanism, case: CaseSolution, ftol: float) -> None:
     for b in case.bands:
         for end in b.ends:
             acc = pulls.setdefault(end.pin, [0.0, 0.0])
-            acc[0] += end.pull[0]
-            acc[1] += end.pull[1]
+            acc[0] += end.pull_N[0]
+            acc[1] += end.pull_N[1]
     for p in case.pins:
         px, py = pulls.get(p.name, [0.0, 0.0])
         fx = sum(a.fx_N for a in p.attachments) - px
@@ -169,7 +169,7 @@ def _presses(s: ShoeResult, c: Point) -> bool:
     external shoe outwards and an internal one inwards."""
     if s.line_load:
         return sum(q for _, q in s.line_load) > 0
-    outward = (s.normal_at[0] - c[0]) * s.normal_force[0] + (s.normal_at[1] - c[1]) * s.normal_force[1]
+    outward = (s.normal_at_mm[0] - c[0]) * s.normal_force_N[0] + (s.normal_at_mm[1] - c[1]) * s.normal_force_N[1]
     return (outward < 0) if s.internal else (outward > 0)
 
 
@@ -190,9 +190,9 @@ def _check_shoes(mech: Mechanism, case: CaseSolution, ftol: float, mtol: float) 
     assert mech.drum is not None
     c = mech.drum.center
     for s in case.shoes:
-        if abs(_moment(s.normal_at, s.normal_force, c)) > mtol:
+        if abs(_moment(s.normal_at_mm, s.normal_force_N, c)) > mtol:
             raise _fail(mech, case, "shoe friction", f"shoe {s.name}: the normal resultant misses the drum axis")
-        if math.hypot(*s.normal_force) <= ftol:
+        if math.hypot(*s.normal_force_N) <= ftol:
             continue
         presses = _presses(s, c)
         if presses != (s.normal_N > 0):
@@ -206,7 +206,7 @@ def _check_shoes(mech: Mechanism, case: CaseSolution, ftol: float, mtol: float) 
         if not presses:
             continue
         _check_pressure(mech, case, s)
-        on_drum = -_moment(s.friction_at, s.friction_force, c)
+        on_drum = -_moment(s.friction_at_mm, s.friction_force_N, c)
         if on_drum * case.direction.sign >= 0 or abs(on_drum + case.direction.sign * s.torque_Nm * 1000) > mtol:
             raise _fail(
                 mech,
@@ -224,10 +224,10 @@ def _check_bands(mech: Mechanism, case: CaseSolution, ftol: float) -> None:
         if b.slack_N <= ftol:
             continue
         for end in b.ends:
-            v = surface_tangent(math.atan2(end.tangent[1] - cy, end.tangent[0] - cx), case.direction)
+            v = surface_tangent(math.atan2(end.tangent_mm[1] - cy, end.tangent_mm[0] - cx), case.direction)
             # the pull on the pin points from the pin to the drum: along it, the
             # surface carries the band into the wrap (away from a tight end)
-            into_wrap = v[0] * end.pull[0] + v[1] * end.pull[1] > 0
+            into_wrap = v[0] * end.pull_N[0] + v[1] * end.pull_N[1] > 0
             if into_wrap != end.tight:
                 where = "moves away from" if into_wrap else "moves towards"
                 raise _fail(

@@ -199,7 +199,7 @@ def test_bell_crank_arm_longer_is_listed_and_the_forces_follow_it(tmp_path):
     length = geo.pop("bell crank length")
     assert (length.old, length.new, length.abs_change) == pytest.approx((430.0, 450.0, 20.0), rel=1e-9)
     point = geo.pop("F1 point")
-    assert point.new == pytest.approx(20.0, rel=1e-9) and point.at == pytest.approx((600.0, 420.0))
+    assert point.new == pytest.approx(20.0, rel=1e-9) and point.at_mm == pytest.approx((600.0, 420.0))
     assert geo == {}  # no pin moved, no other part changed, the weight neither turned nor changed
     tie = {c.direction: c for c in comp.changes if c.kind == "member" and c.name == "tie rod"}
     for d in ("cw", "ccw"):

@@ -34,7 +34,7 @@ def test_pivoted_shoe_resultant(winch, direction):
     for s in case.shoes:
         shoe = next(x for x in mech.shoes if x.name == s.name)
         pin = mech.pin(shoe.pin).center
-        c, f = s.contact, s.force
+        c, f = s.contact_mm, s.force_N
         n = ((c[0] - mech.drum.center[0]) / mech.drum.radius_mm, (c[1] - mech.drum.center[1]) / mech.drum.radius_mm)
         angle = math.atan2(abs(n[0] * f[1] - n[1] * f[0]), n[0] * f[0] + n[1] * f[1])
         assert angle == pytest.approx(math.atan(MU), abs=1e-10)
@@ -64,7 +64,7 @@ def test_every_part_in_equilibrium(winch, direction):
             if a.body != "frame":
                 add(a.body, (p.x_mm, p.y_mm), (a.fx_N, a.fy_N))
     for s in case.shoes:
-        add(s.part, s.contact, s.force)
+        add(s.part, s.contact_mm, s.force_N)
     for ld in case.loads:
         add(ld.part, (ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N))
     scale = max(s.normal_N for s in case.shoes)

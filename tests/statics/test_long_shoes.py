@@ -80,7 +80,7 @@ def test_symmetric_pivoted_shoe(tmp_path, given_, published, direction):
         # the pin reaction on the shoe is the drum's resultant (two-force body)
         pin = case.pin(next(x.pin for x in sol.mechanism.shoes if x.name == s.name))
         on_shoe = next(att for att in pin.attachments if att.body == s.part)
-        assert math.hypot(on_shoe.fx_N, on_shoe.fy_N) == pytest.approx(math.hypot(*s.force), rel=1e-9)
+        assert math.hypot(on_shoe.fx_N, on_shoe.fy_N) == pytest.approx(math.hypot(*s.force_N), rel=1e-9)
     assert case.torque_Nm == pytest.approx(published["torque"], rel=2e-5)
 
 

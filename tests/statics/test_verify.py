@@ -68,11 +68,11 @@ def test_torque_is_the_moment_of_the_forces_on_the_drum(solved, name, model):
         # bands: each end pulls the drum from its tangent point towards its pin
         m = 0.0
         for s in case.shoes:
-            for at, f in ((s.normal_at, s.normal_force), (s.friction_at, s.friction_force)):
+            for at, f in ((s.normal_at_mm, s.normal_force_N), (s.friction_at_mm, s.friction_force_N)):
                 m -= _cross((at[0] - c[0], at[1] - c[1]), f)
         for b in case.bands:
             for e in b.ends:
-                m += _cross((e.tangent[0] - c[0], e.tangent[1] - c[1]), (-e.pull[0], -e.pull[1]))
+                m += _cross((e.tangent_mm[0] - c[0], e.tangent_mm[1] - c[1]), (-e.pull_N[0], -e.pull_N[1]))
         assert m == pytest.approx(drum_moment_Nmm(sol.mechanism, case), rel=1e-12)
         # counter-clockwise positive: a braking torque turns against the drum
         assert m / 1000 == pytest.approx(-case.direction.sign * case.torque_Nm, rel=1e-9)
@@ -93,21 +93,21 @@ def test_friction_and_tight_end_follow_the_drum(solved, name, model):
                 0.5 * (s.contact_from_deg + s.contact_to_deg + (360 if s.contact_to_deg < s.contact_from_deg else 0))
             )
             v = surface_tangent(mid, case.direction)
-            assert s.friction_force[0] * v[0] + s.friction_force[1] * v[1] > 0
+            assert s.friction_force_N[0] * v[0] + s.friction_force_N[1] * v[1] > 0
             # the normal resultant runs through the drum axis; the friction
             # line lies at r (short shoe) or beyond it (long shoe)
-            assert _cross((s.normal_at[0] - cx, s.normal_at[1] - cy), s.normal_force) == pytest.approx(
+            assert _cross((s.normal_at_mm[0] - cx, s.normal_at_mm[1] - cy), s.normal_force_N) == pytest.approx(
                 0, abs=1e-9 * abs(s.normal_N) * sol.mechanism.drum.radius_mm
             )
-            d = math.hypot(s.friction_at[0] - cx, s.friction_at[1] - cy)
+            d = math.hypot(s.friction_at_mm[0] - cx, s.friction_at_mm[1] - cy)
             assert d >= sol.mechanism.drum.radius_mm * (1 - 1e-9)
             assert s.friction_lining_N * sol.mechanism.drum.radius_mm / 1000 == pytest.approx(s.torque_Nm, rel=1e-12)
             assert s.friction_lining_N >= s.friction_resultant_N * (1 - 1e-12)
         for b in case.bands:
             assert b.tight_N > b.slack_N > 0
             for e in b.ends:
-                v = surface_tangent(math.atan2(e.tangent[1] - cy, e.tangent[0] - cx), case.direction)
-                leaving = (-e.pull[0], -e.pull[1])  # from the drum towards the pin
+                v = surface_tangent(math.atan2(e.tangent_mm[1] - cy, e.tangent_mm[0] - cx), case.direction)
+                leaving = (-e.pull_N[0], -e.pull_N[1])  # from the drum towards the pin
                 # the surface moves away from the tight end: against the band's way out
                 moves_away = v[0] * leaving[0] + v[1] * leaving[1] < 0
                 assert moves_away == e.tight
@@ -125,15 +125,15 @@ def test_arrows_are_the_solved_vectors(solved, name, model):
         arrows = {(a.kind, a.name, a.tail): a for a in mk.arrows}
         expected = []
         for s in case.shoes:
-            expected.append(("normal", s.name, s.normal_at, s.normal_force, s.normal_N))
-            expected.append(("friction", s.name, s.friction_at, s.friction_force, s.friction_resultant_N))
+            expected.append(("normal", s.name, s.normal_at_mm, s.normal_force_N, s.normal_N))
+            expected.append(("friction", s.name, s.friction_at_mm, s.friction_force_N, s.friction_resultant_N))
         for b in case.bands:
             for e in b.ends:
-                expected.append(("band", b.name, sol.mechanism.pin(e.pin).center, e.pull, e.tension_N))
+                expected.append(("band", b.name, sol.mechanism.pin(e.pin).center, e.pull_N, e.tension_N))
         for sp in case.springs:
             for e in sp.ends:
                 if e.part is not None:
-                    expected.append(("spring", sp.name, e.point, e.force, sp.force_N))
+                    expected.append(("spring", sp.name, e.at_mm, e.force_N, sp.force_N))
         for p in case.pins:
             expected.append(("pin", p.name, (p.x_mm, p.y_mm), (p.fx_N, p.fy_N), p.force_N))
         for kind, nm, tail, force, size in expected:
@@ -249,7 +249,7 @@ def test_checker_refuses_an_unbalanced_part(tmp_path):
     sol = dxfcheck.analyse(path, mu=0.35)
     case = sol.case("ccw")
     s = case.shoes[0]
-    shifted = dataclasses.replace(s, normal_force=(s.normal_force[0] * 1.001, s.normal_force[1] * 1.001))
+    shifted = dataclasses.replace(s, normal_force_N=(s.normal_force_N[0] * 1.001, s.normal_force_N[1] * 1.001))
     with pytest.raises(VerificationError, match="part balance"):
         verify_case(sol.mechanism, dataclasses.replace(case, shoes=(shifted, *case.shoes[1:])))
 
