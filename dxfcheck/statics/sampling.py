@@ -37,6 +37,7 @@ from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.geometry import Point
 from dxfcheck.mechanism import FRAME, Drum, Mechanism, Shoe
 from dxfcheck.statics.contact import ContactModel, ContactOptions, Direction
+from dxfcheck.statics.contact.short_shoe import friction_circle_contact
 from dxfcheck.statics.equations import (
     DEFAULT_OPTIONS,
     Axis,
@@ -256,34 +257,22 @@ class _Parts:
 def _pivoted_contact(
     pv: _Pivoted, drum: Drum, mu: NDArray[np.float64], dpin: NDArray[np.float64], direction: Direction
 ) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], NDArray[np.float64]]:
-    """Vectorised friction-circle contact (see ShortPivotedShoe.wrench)."""
-    shoe = pv.shoe
+    """Per sample: the force per newton of normal force [N/N] and the contact
+    point [mm] of a short pivoted shoe whose pin is moved by ``dpin`` [mm]
+    (the contact law is :func:`friction_circle_contact`)."""
     cx, cy = drum.center
     r = drum.radius_mm
-    px = pv.pin_center[0] + dpin[:, 0] - cx
-    py = pv.pin_center[1] + dpin[:, 1] - cy
-    p = np.hypot(px, py)
-    beta = np.arctan2(py, px)
+    alpha = friction_circle_contact(
+        pv.pin_center[0] + dpin[:, 0] - cx,
+        pv.pin_center[1] + dpin[:, 1] - cy,
+        r,
+        mu,
+        direction,
+        internal=pv.shoe.internal,
+        mid_deg=pv.shoe.arc.mid_deg,
+    )
     s = float(direction.sign)
-    phi_s = s * np.arctan(mu)
-    k = np.clip(r * np.sin(phi_s) / p, -1.0, 1.0)
-    asn = np.arcsin(k)
-    mid = math.radians(shoe.arc.mid_deg)
-    sgn = -1.0 if shoe.internal else 1.0
-    best_alpha = np.full_like(mu, np.nan)
-    best_off = np.full_like(mu, np.inf)
-    for delta in (asn - phi_s, np.pi - asn - phi_s) if shoe.internal else (phi_s - asn, phi_s - np.pi + asn):
-        alpha = beta - delta
-        nx, ny = sgn * np.cos(alpha), sgn * np.sin(alpha)
-        tx, ty = -s * np.sin(alpha), s * np.cos(alpha)
-        fx, fy = nx + mu * tx, ny + mu * ty
-        qx, qy = r * np.cos(alpha), r * np.sin(alpha)
-        ahead = (px - qx) * fx + (py - qy) * fy > 0
-        off = np.abs(np.remainder(alpha - mid + np.pi, 2 * np.pi) - np.pi)
-        better = ahead & (off < best_off)
-        best_alpha = np.where(better, alpha, best_alpha)
-        best_off = np.where(better, off, best_off)
-    alpha = best_alpha
+    sgn = -1.0 if pv.shoe.internal else 1.0
     nx, ny = sgn * np.cos(alpha), sgn * np.sin(alpha)
     tx, ty = -s * np.sin(alpha), s * np.cos(alpha)
     return nx + mu * tx, ny + mu * ty, cx + r * np.cos(alpha), cy + r * np.sin(alpha)

@@ -33,12 +33,15 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
 
+import numpy as np
+from numpy.typing import NDArray
+
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross
 from dxfcheck.mechanism import Drum, Mounting, Shoe
 from dxfcheck.statics.contact.base import ContactModelName, ContactWrench, Direction, WholeLining, surface_tangent
 
-__all__ = ["ShortFixedShoe", "ShortPivotedShoe", "short_shoe_model"]
+__all__ = ["ShortFixedShoe", "ShortPivotedShoe", "friction_circle_contact", "short_shoe_model"]
 
 #: Samples of the line load along a lining (for reports and pictures).
 LINE_LOAD_SAMPLES = 36
@@ -80,6 +83,54 @@ def _wrench_at(
         (shoe.arc.start_deg + shoe.arc.span_deg * k / LINE_LOAD_SAMPLES, q) for k in range(LINE_LOAD_SAMPLES + 1)
     )
     return ContactWrench(model, point, force, n, t, 1.0, mu, torque, findings, n, (mu * t[0], mu * t[1]), load)
+
+
+def friction_circle_contact(
+    pin_x_mm: NDArray[np.float64],
+    pin_y_mm: NDArray[np.float64],
+    radius_mm: float,
+    mu: NDArray[np.float64],
+    direction: Direction,
+    *,
+    internal: bool,
+    mid_deg: float,
+) -> NDArray[np.float64]:
+    """Polar angle [rad] of a short pivoted shoe's contact point, for pins at
+    ``(pin_x_mm, pin_y_mm)`` relative to the drum axis [mm] and friction
+    coefficients ``mu`` [-] (arrays of one shape; NaN where no line through
+    the pin meets the drum at the friction angle).
+
+    The drum's resultant on the shoe is inclined at ``φs = ±atan μ`` (sign of
+    the drum's direction) to the normal, so its line is tangent to the
+    friction circle of radius ``r·sin φs``; with the pin at polar position
+    ``(p, β)``, ``α = β − δ`` where ``p·sin(φs − δ) = r·sin φs`` for an
+    external shoe and ``p·sin(φs + δ) = r·sin φs`` for an internal one.  Of
+    the two roots, the one with the pin ahead of the contact point along the
+    force, nearest the lining's middle ``mid_deg``, is taken.  The scalar
+    model (:class:`ShortPivotedShoe`) and the sampler both use this.
+    """
+    p = np.hypot(pin_x_mm, pin_y_mm)
+    beta = np.arctan2(pin_y_mm, pin_x_mm)
+    s = float(direction.sign)
+    phi_s = s * np.arctan(mu)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        k = radius_mm * np.sin(phi_s) / p
+    meets = np.abs(k) <= 1.0
+    asn = np.arcsin(np.where(meets, k, 0.0))
+    mid = math.radians(mid_deg)
+    sgn = -1.0 if internal else 1.0
+    best_alpha = np.full(np.shape(k), np.nan)
+    best_off = np.full(np.shape(k), np.inf)
+    for delta in (asn - phi_s, np.pi - asn - phi_s) if internal else (phi_s - asn, phi_s - np.pi + asn):
+        alpha = beta - delta
+        fx = sgn * np.cos(alpha) - mu * s * np.sin(alpha)  # normal + μ × the surface's motion
+        fy = sgn * np.sin(alpha) + mu * s * np.cos(alpha)
+        ahead = (pin_x_mm - radius_mm * np.cos(alpha)) * fx + (pin_y_mm - radius_mm * np.sin(alpha)) * fy > 0
+        off = np.abs(np.remainder(alpha - mid + np.pi, 2 * np.pi) - np.pi)
+        better = meets & ahead & (off < best_off)
+        best_alpha = np.where(better, alpha, best_alpha)
+        best_off = np.where(better, off, best_off)
+    return best_alpha
 
 
 class _ShortBase(WholeLining):
@@ -149,49 +200,30 @@ class ShortPivotedShoe(_ShortBase):
     def wrench(self, mu: float, direction: Direction) -> ContactWrench:
         """Force on the shoe per newton of normal force [N/N], acting at the
         point of the drum surface whose resultant line passes through the
-        pin.
-
-        With the pin at polar position ``(p, β)`` about the drum axis and
-        ``φs = ±atan μ`` (sign of the drum's direction), the contact point's
-        polar angle is ``α = β − δ`` where ``p·sin(φs − δ) = r·sin φs`` for an
-        external shoe and ``p·sin(φs + δ) = r·sin φs`` for an internal one
-        (the line through the pin tangent to the friction circle).  Of the two
-        roots, the one with the pin ahead of the contact point along the
-        force, nearest the lining's middle, is taken.
-        """
+        pin (:func:`friction_circle_contact`)."""
         cx, cy = self.drum.center
-        px, py = self.pin_center[0] - cx, self.pin_center[1] - cy
-        p = math.hypot(px, py)
-        beta = math.atan2(py, px)
-        phi_s = direction.sign * math.atan(mu)
-        k = self.drum.radius_mm * math.sin(phi_s) / p if p > 0 else math.inf
+        alpha = friction_circle_contact(
+            np.array([self.pin_center[0] - cx]),
+            np.array([self.pin_center[1] - cy]),
+            self.drum.radius_mm,
+            np.array([mu]),
+            direction,
+            internal=self.shoe.internal,
+            mid_deg=self.shoe.arc.mid_deg,
+        )[0]
+        if math.isfinite(alpha):
+            return _wrench_at(self.name, self.shoe, self.drum, float(alpha), mu, direction)
         mid = math.radians(self.shoe.arc.mid_deg)
-        good: list[tuple[float, ContactWrench]] = []
-        if abs(k) <= 1.0:
-            asn = math.asin(k)
-            if self.shoe.internal:
-                deltas = (asn - phi_s, math.pi - asn - phi_s)
-            else:
-                deltas = (phi_s - asn, phi_s - math.pi + asn)
-            for delta in deltas:
-                alpha = beta - delta
-                w = _wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction)
-                rel = (self.pin_center[0] - w.point[0], self.pin_center[1] - w.point[1])
-                if rel[0] * w.force[0] + rel[1] * w.force[1] > 0.0:  # pin ahead along the force
-                    off = abs(math.remainder(alpha - mid, 2 * math.pi))
-                    good.append((off, w))
-        if not good:
-            w = _wrench_at(self.name, self.shoe, self.drum, mid, mu, direction)
-            miss = Finding(
-                Code.NO_CONTACT_LINE,
-                f"shoe {self.shoe.name}: no line through its pin meets the drum at the friction angle; "
-                "the pin lies inside the friction circle",
-                (self.shoe.arc.source.ref,),
-                (self.shoe.arc.source.layer,),
-                self.pin_center,
-            )
-            return replace(w, findings=(miss,))
-        return min(good, key=lambda g: g[0])[1]
+        w = _wrench_at(self.name, self.shoe, self.drum, mid, mu, direction)
+        miss = Finding(
+            Code.NO_CONTACT_LINE,
+            f"shoe {self.shoe.name}: no line through its pin meets the drum at the friction angle; "
+            "the pin lies inside the friction circle",
+            (self.shoe.arc.source.ref,),
+            (self.shoe.arc.source.layer,),
+            self.pin_center,
+        )
+        return replace(w, findings=(miss,))
 
 
 def short_shoe_model(shoe: Shoe, drum: Drum, pin_center: Point | None) -> ShortFixedShoe | ShortPivotedShoe:
