@@ -407,6 +407,25 @@ def _same_file(a: Path, b: Path) -> bool:
         return False
 
 
+def _sidecar(b: _Builder, drawing: Path, project_path: str | None) -> None:
+    """Put the ``[spec]`` of the drawing's own file (``NAME.toml``), unless
+    it is the project file itself."""
+    sidecar = sidecar_of(drawing)
+    if sidecar is None or (project_path and _same_file(sidecar, Path(project_path))):
+        return
+    data = read_toml(sidecar, "the drawing's own file (sidecar)")
+    unknown = set(data) - {"spec", "layers", "markup"}  # the tables of a project file
+    if unknown:
+        raise ConfigError(
+            f"unknown table {sorted(unknown)[0]!r} (a drawing's own file holds [layers], [markup], [spec])",
+            path=str(sidecar),
+        )
+    spec_table = data.get("spec", {})
+    if not isinstance(spec_table, dict):
+        raise ConfigError("[spec] must be a table", path=str(sidecar))
+    b.table(spec_table, f"{sidecar} [spec]")
+
+
 def load_spec(
     drawing: str | os.PathLike[str],
     *,
@@ -458,19 +477,7 @@ def load_spec(
     for name, raw in custom_properties:
         if name.lower().startswith(PROPERTY_PREFIX):
             _put_dotted(b, name[len(PROPERTY_PREFIX) :], raw, f"{p} header property {name}")
-    sidecar = sidecar_of(p)
-    if sidecar is not None and not (project_path and _same_file(sidecar, Path(project_path))):
-        data = read_toml(sidecar, "the drawing's own file (sidecar)")
-        unknown = set(data) - {"spec", "layers", "markup"}  # the tables of a project file
-        if unknown:
-            raise ConfigError(
-                f"unknown table {sorted(unknown)[0]!r} (a drawing's own file holds [layers], [markup], [spec])",
-                path=str(sidecar),
-            )
-        spec_table = data.get("spec", {})
-        if not isinstance(spec_table, dict):
-            raise ConfigError("[spec] must be a table", path=str(sidecar))
-        b.table(spec_table, f"{sidecar} [spec]")
+    _sidecar(b, p, project_path)
     if given:
         b.table(given, "Python call")
     for key, raw in overrides:
