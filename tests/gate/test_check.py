@@ -14,7 +14,7 @@ import pytest
 from common import block_brake, push_rod_block
 
 import dxfcheck
-from dxfcheck.gate.rules import Verdict, hoist_factor
+from dxfcheck.gate.rules import Verdict
 from dxfcheck.pipeline import check
 
 # The test brake: block_brake(r=200, l=500, x=200, a=50), P = 1000 N.
@@ -128,28 +128,6 @@ def test_motor_duty(brake):
     assert Verdict.FAIL in {rules["torque.cw"].verdict, rules["torque.ccw"].verdict}
     rules, _ = run_rules(brake, motor_power="7.5 kW", mu=MU)
     assert rules["torque.cw"].verdict is Verdict.SKIP and "motor_speed" in rules["torque.cw"].message
-
-
-@pytest.mark.parametrize(
-    ("control", "brakes", "factor"),
-    [("non-mechanical", 1, 1.25), ("mechanical", 1, 1.0), ("non-mechanical", 2, 1.0), (None, None, 1.25)],
-)
-def test_hoist_holding_brake_percentages(control, brakes, factor):
-    """OSHA 29 CFR 1910.179(f)(2): a holding brake needs 125 % of the
-    full-load hoisting torque when control braking is not mechanical, 100 %
-    when it is mechanical, 100 % each with two holding brakes (REFERENCES.md,
-    seen; sub-item numbers from memory).  Unstated control braking is taken
-    as the stricter 125 %."""
-    assert hoist_factor(control, brakes)[0] == factor
-
-
-def test_hoist_rule_boundary(brake):
-    t_weak = MU * lever_N(MU, False) * R / 1000
-    hoist = t_weak / 1.25  # exactly at the OSHA 125 % boundary
-    rules, _ = run_rules(brake, mu=MU, hoist_torque=f"{hoist * 0.9999} N*m", control_braking="non-mechanical")
-    assert {rules["hoist.cw"].verdict, rules["hoist.ccw"].verdict} == {Verdict.PASS}
-    rules, _ = run_rules(brake, mu=MU, hoist_torque=f"{hoist * 1.0001} N*m", control_braking="non-mechanical")
-    assert sorted(str(rules[k].verdict) for k in ("hoist.cw", "hoist.ccw")) == ["fail", "pass"]
 
 
 def test_self_lock_margin_boundary(tmp_path):

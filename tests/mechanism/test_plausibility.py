@@ -322,7 +322,7 @@ GEOMETRIES = {
 
 def _internal():
     """Shigley's MED 10th ed., Problem 16-1 geometry (r = 150, hinge 125
-    below the axis), as tests/test_long_shoes.py draws it."""
+    below the axis), as tests/validation/test_shigley_10th.py draws it."""
     from dxfcheck.output.sketch import Sketch
 
     sk = Sketch()
