@@ -13,6 +13,7 @@ memory; NIST SP 811 (2008), Appendix B.8 for the unit factors.
 
 from __future__ import annotations
 
+import itertools
 import math
 
 import pytest
@@ -40,7 +41,7 @@ def test_uniform_stop_distance_and_mean_speed_by_integration():
     v0, t_stop, steps = 1.6, 0.8, 20000
     dt = t_stop / steps
     speeds = [v0 * (1 - k * dt / t_stop) for k in range(steps + 1)]
-    distance = sum((a + b) / 2 * dt for a, b in zip(speeds, speeds[1:], strict=False))
+    distance = sum((a + b) / 2 * dt for a, b in itertools.pairwise(speeds))
     assert heat.stop_distance_m(v0, t_stop) == pytest.approx(distance, rel=1e-9)
     assert heat.mean_rubbing_speed_m_s(v0) == pytest.approx(distance / t_stop, rel=1e-9)
     assert heat.stop_time_s(v0, 2.0) == pytest.approx(0.8)  # t = v/a
