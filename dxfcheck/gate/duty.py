@@ -113,8 +113,9 @@ class Stop:
     time_s : float or None
         Time of the stop [s].
     torque_Nm : float or None
-        Torque that absorbs ``energy_J`` over the stop, T = E/θ [N·m]
-        (None without ``drum_speed`` or the time).
+        Torque the stop needs [N·m]: T = E/θ that absorbs ``energy_J`` over
+        the stop, or, when larger, the torque m·g·v/ω that holds a hanging
+        load once stopped (None without ``drum_speed`` or the time).
     notes : tuple of str
         How each value was found (speed basis, defaults taken).
     sources : tuple of str
@@ -209,8 +210,10 @@ def stop_of(spec: Spec, radius_mm: float | None) -> tuple[Stop | None, list[str]
     lacking = [k for k, val in (("drum_speed", n), ("stop_time (or deceleration)", t)) if val is None or val <= 0]
     if not lacking and n and t:
         torque = max(heat.stopping_torque_Nm(energy, n, t), 0.0)
-        if energy <= 0:
-            notes.append("gravity alone stops the rising load in this time: no braking torque needed")
+        hold = heat.holding_torque_Nm(m or 0.0, v or 0.0, n) if sense != 0.0 else 0.0
+        if hold > torque:
+            notes.append(f"holding the hanging load after the stop, m·g·v/ω = {hold:.4g} N·m, governs")
+            torque = hold
     notes += [how_t] if how_t and t is not None else []
     keys = ("load_mass", "rope_speed", "inertia", "drum_speed", "lowering", "stop_time", "deceleration")
     sources = tuple(dict.fromkeys(sv.source for sv in (spec.get(k) for k in keys) if sv is not None))

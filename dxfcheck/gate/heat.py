@@ -55,6 +55,7 @@ __all__ = [
     "SECONDS_PER_HOUR",
     "angular_speed_rad_s",
     "cyclic_peak_temperature_C",
+    "holding_torque_Nm",
     "kinetic_energy_rotation_J",
     "kinetic_energy_translation_J",
     "mean_rubbing_speed_m_s",
@@ -131,6 +132,13 @@ def stopping_torque_Nm(energy_J: float, speed_rpm: float, time_s: float) -> floa
     that decelerates the reduced inertia plus the load's holding torque.
     """
     return energy_J / stop_angle_rad(speed_rpm, time_s)
+
+
+def holding_torque_Nm(mass_kg: float, speed_m_s: float, speed_rpm: float) -> float:
+    """Torque at the drum that holds a hanging load, m·g·v/ω [N·m]: the
+    load's weight reduced to the drum by the speed ratio (power m·g·v = T·ω;
+    m·g·r for a rope on a drum of radius r)."""
+    return mass_kg * G_N_M_S2 * speed_m_s / angular_speed_rad_s(speed_rpm)
 
 
 def temperature_rise_K(energy_J: float, mass_kg: float, specific_heat_J_kg_K: float) -> float:

@@ -73,19 +73,33 @@ def test_stop_duty_boundary_against_the_brake_at_mu_min(brake):
     assert "T = E/θ" in r.inputs["duties"][0]["basis"]
 
 
+HOT = {"drum_mass": "1 kg", "drum_peak_temperature_max": "500 °C"}
+
+
 def test_lowering_adds_and_hoisting_subtracts(brake):
-    """Direction: the torque a stop needs ranks rising < level < lowered, each
-    m·(½v² ± g·v·t/2)/θ by hand."""
+    """Direction: the torque a stop needs is m·(½v² ± g·v·t/2)/θ, lowered
+    above level; a rising load whose stop gravity alone does (½v² = 0.5 <
+    g·v·t/2 = 2.45 J/kg) still needs the holding torque m·g·v/ω once it
+    hangs (power balance m·g·v = T·ω)."""
     limits = {
         motion: rules_of(brake, load_mass="10 kg", lowering=motion, **STOP)["torque.cw"].limit
         for motion in ("hoisting", "no", "yes")
     }
     m = 10.0
+    hold = m * G * V / (2 * math.pi * N_RPM / 60)
     assert limits["yes"] == pytest.approx(m * torque_per_kg(1.0), rel=1e-12)
     assert limits["no"] == pytest.approx(m * torque_per_kg(0.0), rel=1e-12)
-    # rising: ½v² = 0.5 < g·v·t/2 = 2.45: gravity alone stops the load, no torque needed
-    assert limits["hoisting"] == 0.0
-    assert limits["hoisting"] < limits["no"] < limits["yes"]
+    assert limits["hoisting"] == pytest.approx(hold, rel=1e-12)
+    assert limits["no"] < limits["yes"] and hold < limits["yes"]
+    # the energy into the drum ranks rising < level < lowered (heat.peak's rise per stop)
+    rises = {
+        motion: rules_of(brake, load_mass="10 kg", lowering=motion, **HOT, **STOP)["heat.peak"]
+        for motion in ("hoisting", "no", "yes")
+    }
+    assert rises["hoisting"].inputs["potential_J"] < 0 < rises["yes"].inputs["potential_J"]
+    assert rises["no"].inputs["potential_J"] == 0
+    assert rises["hoisting"].inputs["energy_per_stop_J"] == 0  # gravity took it all: nothing into the drum
+    assert 0 < rises["no"].inputs["rise_per_stop_K"] < rises["yes"].inputs["rise_per_stop_K"]
 
 
 def test_rising_load_with_little_gravity_share_subtracts(brake):
@@ -212,3 +226,13 @@ def test_pv_uses_the_mean_rubbing_speed_over_a_stop(brake):
     stop = rules_of(brake, stop_time="0.5 s", **common)["lining.pv.block"]
     assert steady.value == pytest.approx(p * v, rel=1e-9) and "drum speed" in steady.message
     assert stop.value == pytest.approx(p * v / 2, rel=1e-9) and "mean rubbing speed" in stop.message
+
+
+def test_a_light_duty_on_a_heavy_drum_is_no_units_slip(brake):
+    """A margin far above 1000 on the drum's temperature is a light duty, not
+    a units slip: no S312 (the plausibility ranges, common practice)."""
+    spec = dict(HEAT, drum_mass="2 t", drum_peak_temperature_max="500 °C")
+    j = check(brake, overrides=[(k, str(v)) for k, v in spec.items()])
+    peak = next(r for r in j.rules if r.rule == "heat.peak")
+    assert peak.margin > 1e3 and peak.verdict is Verdict.PASS
+    assert not [f for f in j.nominal.findings if f.code.id == "S312"]

@@ -85,6 +85,16 @@ def test_stopping_torque_energy_balance_equals_equation_of_motion():
     assert heat.stopping_torque_Nm(e_kin, n_rpm, t / 2) == pytest.approx(2 * level)
 
 
+def test_holding_torque_is_the_load_reduced_to_the_drum():
+    """m·g·v/ω = m·g·r for a rope on a drum of radius r (v = ω·r): 1000 kg on
+    r = 0.25 m is 2451.66 N·m; the energy form agrees, T·θ = m·g·h over the
+    same motion (θ = h/r)."""
+    r, v = 0.25, 1.0
+    n_rpm = v / r * 60 / (2 * math.pi)
+    assert heat.holding_torque_Nm(1000.0, v, n_rpm) == pytest.approx(1000 * G * r, rel=1e-12)
+    assert heat.holding_torque_Nm(1000.0, v, n_rpm) * (0.5 / r) == pytest.approx(heat.potential_energy_J(1000.0, 0.5))
+
+
 def test_temperature_rise_per_stop():
     """ΔT = E/(C·m) (Shigley's MED 10th ed., §16-9; from memory): 100 kJ into
     20 kg of steel at C = 500 J/(kg·K) is 10 K; more energy, a higher rise."""
