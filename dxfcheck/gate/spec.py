@@ -11,7 +11,10 @@ Values come from five places, lowest to highest precedence:
    ``[spec]`` table (its ``[layers]`` and ``[markup]`` are read by
    :func:`dxfcheck.core.config.config_for_drawing`; named with ``--config`` it is
    the project file, read once at level 2);
-5. the command line (``--set KEY=VALUE`` and the named options).
+5. the command line (``--set KEY=VALUE`` and the named options);
+6. then ``lining = "NAME"`` (from any level) fills the values its row of the
+   lining library gives (:mod:`dxfcheck.gate.linings`) that no level set,
+   each with the row's source.
 
 Every value with a dimension carries its unit in the text (``"450 N*m"``,
 ``"0.3 MPa"``, ``"1450 rpm"``, ``"7.5 kW"``, ``"40 mm"``); a bare number is
