@@ -236,3 +236,30 @@ def test_a_light_duty_on_a_heavy_drum_is_no_units_slip(brake):
     peak = next(r for r in j.rules if r.rule == "heat.peak")
     assert peak.margin > 1e3 and peak.verdict is Verdict.PASS
     assert not [f for f in j.nominal.findings if f.code.id == "S312"]
+
+
+def test_a_stop_from_the_project_file_and_from_python(brake):
+    """The same lowered stop of 2 t at 0.5 m/s in 1 s with the drum at 60 rpm,
+    written in a project file and given from Python as typed values:
+    T = m(½v² + g·v·t/2)/θ, θ = 2π·1/2 = π rad."""
+    expected = 2000 * (0.5 * 0.25 + G * 0.5 * 1.0 / 2) / math.pi
+    (brake.parent / "dxfcheck.toml").write_text(
+        '[spec]\nload_mass = "2 t"\nrope_speed = "30 m/min"\ndrum_speed = "60 rpm"\n'
+        'stop_time = "1 s"\nlowering = "yes"\nstops_per_hour = 30\n'
+    )
+    j = check(brake, overrides=[("mu", str(MU))])
+    r = next(r for r in j.rules if r.rule == "torque.cw")
+    assert r.limit == pytest.approx(expected, rel=1e-12)
+    assert "dxfcheck.toml [spec]" in r.inputs["duties"][0]["source"]
+    (brake.parent / "dxfcheck.toml").unlink()
+    typed = {
+        "load_mass": (2, "t"),
+        "rope_speed": (0.5, "m/s"),
+        "drum_speed": (60, "rpm"),
+        "stop_time": (1, "s"),
+        "mu": MU,
+    }
+    j = check(brake, spec=typed)
+    r = next(r for r in j.rules if r.rule == "torque.cw")
+    assert r.limit == pytest.approx(expected, rel=1e-12)  # lowering not stated: taken as lowered
+    assert "taken as lowered" in r.message
