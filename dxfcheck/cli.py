@@ -231,6 +231,10 @@ def _parser() -> argparse.ArgumentParser:
     m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
     m.add_argument("--timeout", type=_seconds, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
 
+    ln = sub.add_parser("linings", help="list the lining library (lining = NAME in the spec) with its sources")
+    ln.add_argument("--json", action="store_true", help="print one JSON document instead of a table")
+    ln.set_defaults(timeout=None)
+
     b = sub.add_parser("batch", help="check every drawing in folders or globs, in parallel, with a cache")
     b.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
     b.add_argument(
@@ -641,6 +645,18 @@ def _batch(args: argparse.Namespace) -> int:
     return _batch_exit(result, strict=args.strict)
 
 
+def _linings(args: argparse.Namespace) -> int:
+    from dxfcheck.gate.linings import LININGS
+    from dxfcheck.output.json import linings_to_dict, write_json
+    from dxfcheck.output.terminal import print_linings
+
+    if args.json:
+        write_json(linings_to_dict(LININGS.values()))
+    else:
+        print_linings(LININGS.values())
+    return EXIT_OK
+
+
 def _batch_exit(result: Any, *, strict: bool) -> int:
     import signal
 
@@ -710,7 +726,14 @@ def _main(argv: Sequence[str] | None) -> int:
 
     args = _parser().parse_args(argv)
     _route_library_logs()
-    commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare, "batch": _batch}
+    commands = {
+        "solve": _solve,
+        "check": _check,
+        "annotate": _annotate,
+        "compare": _compare,
+        "batch": _batch,
+        "linings": _linings,
+    }
     from dxfcheck.core import deadline
 
     try:

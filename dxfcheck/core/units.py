@@ -1,7 +1,12 @@
 """Units: drawing units from the DXF header and quantities written as text.
 
 Inside dxfcheck every length is in [mm], every force in [N], every torque in
-[N·m], pressure and stress in [MPa] (= N/mm²), speed in [rpm], power in [W].
+[N·m], pressure and stress in [MPa] (= N/mm²), speed in [rpm], power in [W];
+the duty and heat quantities in SI: mass [kg], energy [J], linear speed
+[m/s], acceleration [m/s²], time [s], mass moment of inertia [kg·m²],
+temperature [°C] (Celsius only: kelvin and Fahrenheit need an offset, which a
+factor cannot carry), specific heat [J/(kg·K)] and heat-transfer coefficient
+[W/(m²·K)].
 Conversion factors are exact by definition (the international inch is
 25.4 mm; the pound-force is 4.448 221 615 260 5 N; the kilogram-force is
 9.806 65 N), so they are written out here rather than taken from ezdxf,
@@ -37,6 +42,12 @@ __all__ = [
 INCH_MM = 25.4
 LBF_N = 4.4482216152605
 KGF_N = 9.80665
+#: The avoirdupois pound [kg] (exact by definition; NIST SP 811, B.8).
+LB_KG = 0.45359237
+#: The international table British thermal unit [J] (exact by definition; NIST SP 811, B.8).
+BTU_J = 1055.05585262
+#: Size of a degree Fahrenheit as a temperature difference [K] (exact).
+DEG_F_K = 5.0 / 9.0
 
 #: Length units by name -> [mm].
 LENGTH_MM: dict[str, float] = {
@@ -141,10 +152,82 @@ AREA_MM2: dict[str, float] = {
     "cm^2": 100.0,
     "in2": INCH_MM**2,
     "in^2": INCH_MM**2,
+    "dm2": 1.0e4,
+    "dm^2": 1.0e4,
+    "m2": 1.0e6,
+    "m^2": 1.0e6,
+    "ft2": (12 * INCH_MM) ** 2,
+    "ft^2": (12 * INCH_MM) ** 2,
 }
 
 #: pV (pressure × rubbing speed) -> [MPa·m/s].
 PV_MPA_M_S: dict[str, float] = {"mpa*m/s": 1.0, "n/mm2*m/s": 1.0, "psi*ft/min": LBF_N / INCH_MM**2 * 0.3048 / 60}
+
+#: Mass -> [kg].
+MASS_KG: dict[str, float] = {"kg": 1.0, "g": 1.0e-3, "t": 1.0e3, "lb": LB_KG, "lbm": LB_KG}
+
+#: Energy -> [J].
+ENERGY_J: dict[str, float] = {"j": 1.0, "kj": 1.0e3, "wh": 3600.0, "kwh": 3.6e6, "btu": BTU_J}
+
+#: Linear speed -> [m/s].
+VELOCITY_M_S: dict[str, float] = {
+    "m/s": 1.0,
+    "m/min": 1.0 / 60.0,
+    "km/h": 1.0 / 3.6,
+    "ft/s": 12 * INCH_MM / 1000,
+    "ft/min": 12 * INCH_MM / 1000 / 60,
+}
+
+#: Linear acceleration -> [m/s²].
+ACCELERATION_M_S2: dict[str, float] = {
+    "m/s2": 1.0,
+    "m/s^2": 1.0,
+    "ft/s2": 12 * INCH_MM / 1000,
+    "ft/s^2": 12 * INCH_MM / 1000,
+}
+
+#: Time -> [s].
+TIME_S: dict[str, float] = {"s": 1.0, "ms": 1.0e-3, "min": 60.0, "h": 3600.0}
+
+#: Mass moment of inertia -> [kg·m²].
+INERTIA_KG_M2: dict[str, float] = {
+    "kg*m2": 1.0,
+    "kg*m^2": 1.0,
+    "kgm2": 1.0,
+    "kg*cm2": 1.0e-4,
+    "kg*cm^2": 1.0e-4,
+    "kg*mm2": 1.0e-6,
+    "kg*mm^2": 1.0e-6,
+    "lb*ft2": LB_KG * (12 * INCH_MM / 1000) ** 2,
+    "lb*ft^2": LB_KG * (12 * INCH_MM / 1000) ** 2,
+}
+
+#: Temperature (Celsius only) -> [°C].
+TEMPERATURE_C: dict[str, float] = {"°c": 1.0, "degc": 1.0, "c": 1.0, "℃": 1.0}
+
+#: Specific heat capacity -> [J/(kg·K)] (a kelvin and a degree Celsius are the same difference).
+SPECIFIC_HEAT_J_KG_K: dict[str, float] = {
+    "j/(kg*k)": 1.0,
+    "j/(kg*°c)": 1.0,
+    "j/(kg*degc)": 1.0,
+    "j/kg/k": 1.0,
+    "j/(kgk)": 1.0,
+    "kj/(kg*k)": 1.0e3,
+    "kj/(kg*°c)": 1.0e3,
+    "btu/(lb*°f)": BTU_J / LB_KG / DEG_F_K,
+    "btu/(lbm*°f)": BTU_J / LB_KG / DEG_F_K,
+}
+
+#: Heat-transfer coefficient -> [W/(m²·K)].
+HEAT_TRANSFER_W_M2_K: dict[str, float] = {
+    "w/(m2*k)": 1.0,
+    "w/(m^2*k)": 1.0,
+    "w/(m2*°c)": 1.0,
+    "w/(m^2*°c)": 1.0,
+    "w/m2/k": 1.0,
+    "btu/(h*ft2*°f)": BTU_J / 3600.0 / (12 * INCH_MM / 1000) ** 2 / DEG_F_K,
+    "btu/(h*ft^2*°f)": BTU_J / 3600.0 / (12 * INCH_MM / 1000) ** 2 / DEG_F_K,
+}
 
 #: Dimension name -> (table, internal unit name).
 DIMENSIONS: dict[str, tuple[dict[str, float], str]] = {
@@ -156,6 +239,15 @@ DIMENSIONS: dict[str, tuple[dict[str, float], str]] = {
     "power": (POWER_W, "W"),
     "area": (AREA_MM2, "mm2"),
     "pv": (PV_MPA_M_S, "MPa*m/s"),
+    "mass": (MASS_KG, "kg"),
+    "energy": (ENERGY_J, "J"),
+    "velocity": (VELOCITY_M_S, "m/s"),
+    "acceleration": (ACCELERATION_M_S2, "m/s2"),
+    "time": (TIME_S, "s"),
+    "inertia": (INERTIA_KG_M2, "kg*m2"),
+    "temperature": (TEMPERATURE_C, "°C"),
+    "specific_heat": (SPECIFIC_HEAT_J_KG_K, "J/(kg*K)"),
+    "heat_transfer": (HEAT_TRANSFER_W_M2_K, "W/(m2*K)"),
 }
 
 #: Spaces that may group a number's digits in threes: space, no-break space,
@@ -319,7 +411,9 @@ def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None
         ``"0,250 kN"`` is a decimal.
     dimension : str
         One of ``length``, ``force``, ``torque``, ``pressure``, ``speed``,
-        ``power``, ``area``, ``pv``.
+        ``power``, ``area``, ``pv``, ``mass``, ``energy``, ``velocity``,
+        ``acceleration``, ``time``, ``inertia``, ``temperature``,
+        ``specific_heat``, ``heat_transfer``.
     default_unit : str, optional
         Unit assumed when the text has none; without it a bare number is an
         error.

@@ -28,16 +28,20 @@ References
 from __future__ import annotations
 
 import difflib
-import enum
 import math
 from collections.abc import Iterable
-from dataclasses import dataclass, field, replace
+from dataclasses import dataclass, replace
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code, Finding, Severity
 from dxfcheck.core.units import length_unit_factor
+from dxfcheck.gate.duty import SRC_STOP, heat_rules, rubbing_speed, stop_of
 from dxfcheck.gate.spec import Spec, SpecValue
+from dxfcheck.gate.verdicts import RuleResult, Verdict
+from dxfcheck.gate.verdicts import missing as _missing
+from dxfcheck.gate.verdicts import ratio_rule as _ratio_rule
+from dxfcheck.gate.verdicts import skip as _skip
 from dxfcheck.mechanism import Band, Mechanism
 from dxfcheck.mechanism.plausibility import (
     DRUM_DIAMETER_MM,
@@ -52,48 +56,6 @@ from dxfcheck.statics import BandResult, CaseSolution, Solution, critical_mu, so
 from dxfcheck.statics.contact import DEFAULT_MU, LONG_SHOE_THRESHOLD_DEG, ContactOptions, Direction, contact_options
 
 __all__ = ["Duty", "Judgement", "RuleResult", "Verdict", "check_subjects", "duties", "hoist_factor", "judge"]
-
-
-class Verdict(enum.StrEnum):
-    PASS = "pass"
-    WARN = "warn"
-    FAIL = "fail"
-    SKIP = "skip"
-
-
-@dataclass(frozen=True)
-class RuleResult:
-    """One rule's verdict.
-
-    Attributes
-    ----------
-    rule : str
-        Stable id, e.g. ``torque.cw`` or ``pin.shear.S1``.
-    title : str
-    verdict : Verdict
-    value, limit : float or None
-        Computed value and its limit, in ``unit``.
-    unit : str
-    margin : float or None
-        Capacity over demand [-]; 1 or more passes.
-    inputs : dict
-        The inputs used, with units in their names.
-    source : str
-        The published method.
-    message : str
-        A sentence for the report (for skips: why).
-    """
-
-    rule: str
-    title: str
-    verdict: Verdict
-    value: float | None
-    limit: float | None
-    unit: str
-    margin: float | None
-    inputs: dict[str, Any] = field(default_factory=dict)
-    source: str = ""
-    message: str = ""
 
 
 @dataclass(frozen=True)
@@ -139,7 +101,10 @@ SRC_LONG_LINING = (
 )
 SRC_BAND = "band: p_max = T1/(b·r) at the tight end, T1/T2 = e^(μθ) (Mott 4th ed., §22-15)"
 SRC_EFFORT = "effort ∝ torque at a given μ (linear statics): effort needed = effort × required / torque"
-SRC_PV = "pV = p·πDn/60 (drum-brake pV limits: Tribology Handbook B8; 1-3 MPa·m/s common practice)"
+SRC_PV = (
+    "pV = p·v, v = πDn/60, or its mean v/2 over a stated stop "
+    "(drum-brake pV limits: Tribology Handbook B8; 1-3 MPa·m/s common practice)"
+)
 SRC_TORQUE = "braking torque T = Σ μN·r at mu_min against the duty"
 SRC_MOTOR = "duty from the motor: T = factor·P/ω, ω = 2πn/60"
 SRC_HOIST = "OSHA 29 CFR 1910.179(f)(2): holding brake ≥ 125 % / 100 % of full-load hoisting torque"
@@ -161,32 +126,6 @@ def hoist_factor(control_braking: str | None, holding_brakes: float | None) -> t
     if control_braking is None:
         return 1.25, "125 %: control braking not stated, taken as non-mechanical"
     return 1.25, "125 %: control braking other than mechanical"
-
-
-def _ratio_rule(
-    rule: str,
-    title: str,
-    value: float,
-    limit: float,
-    unit: str,
-    source: str,
-    inputs: dict[str, Any],
-    *,
-    at_most: bool,
-    message: str = "",
-) -> RuleResult:
-    capacity, demand = (limit, value) if at_most else (value, limit)
-    margin = capacity / demand if demand > 0 else math.inf
-    verdict = Verdict.PASS if margin >= 1.0 else Verdict.FAIL
-    return RuleResult(rule, title, verdict, value, limit, unit, margin, inputs, source, message)
-
-
-def _skip(rule: str, title: str, why: str, source: str = "") -> RuleResult:
-    return RuleResult(rule, title, Verdict.SKIP, None, None, "", None, {}, source, why)
-
-
-def _missing(spec: Spec, keys: Iterable[str], subject: str | None = None) -> list[str]:
-    return [k for k in keys if spec.get(k, subject) is None]
 
 
 def _valid_cases(solutions: dict[float, Solution]) -> list[CaseSolution]:
@@ -241,6 +180,7 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     rules += _bands(spec, mech, solutions, valid)
     rules += _pins(spec, mech, valid)
     rules += _members(spec, mech, valid)
+    rules += heat_rules(spec, None if mech.drum is None else mech.drum.radius_mm)
     nominal = replace(nominal, findings=(*nominal.findings, *_implausible(mech, nominal, rules)))
     solutions[mu] = nominal
     head = _hygiene([f for sol in solutions.values() for f in sol.findings]) + _units(mech, spec)
@@ -414,14 +354,18 @@ class Duty:
 MOTOR_KEYS = ("motor_power", "motor_speed", "torque_factor")
 
 
-def duties(spec: Spec) -> tuple[list[Duty], list[str]]:
-    """The duties the spec sets (``required_torque``, the motor duty
-    T = factor·P/ω) and the motor keys missing when the motor duty is
-    incomplete (empty when it is complete or not asked for at all)."""
+def duties(spec: Spec, drum_radius_mm: float | None = None) -> tuple[list[Duty], list[str]]:
+    """The duties the spec sets (``required_torque``, the stop duty
+    T = E/θ of :mod:`dxfcheck.gate.duty`, the motor duty T = factor·P/ω)
+    and the motor keys missing when the motor duty is incomplete (empty
+    when it is complete or not asked for at all)."""
     out: list[Duty] = []
     req = spec.get("required_torque")
     if req is not None:
         out.append(Duty("required_torque", float(req.value), req.source, f"required_torque = {req.text}"))
+    stop = stop_of(spec, drum_radius_mm)[0]
+    if stop is not None and stop.torque_Nm is not None:
+        out.append(Duty("stop duty", stop.torque_Nm, "; ".join(stop.sources), stop.basis()))
     miss = _missing(spec, MOTOR_KEYS)
     if miss and len(miss) < len(MOTOR_KEYS):
         return out, miss
@@ -454,8 +398,8 @@ def _duty_inputs(found: list[Duty], governing: Duty, mu_min: float, spec: Spec) 
 
 
 def _duty_message(found: list[Duty], governing: Duty, miss: list[str]) -> str:
-    """Both duties with their sources and which governs; empty for a single
-    complete duty (the inputs carry it)."""
+    """Every duty with its source and which governs; for a single complete
+    duty empty (the inputs carry it), or the stop's energy and torque."""
     parts = []
     if len(found) > 1:
         head = f"{governing.name} {governing.torque_Nm:.4g} N·m ({governing.basis}; {governing.source}) governs"
@@ -465,7 +409,10 @@ def _duty_message(found: list[Duty], governing: Duty, miss: list[str]) -> str:
             for d in found
             if d is not governing
         ]
-        parts.append("two duties, the larger governs: " + "; ".join([head, *others]))
+        count = "two" if len(found) == 2 else str(len(found))
+        parts.append(f"{count} duties, the larger governs: " + "; ".join([head, *others]))
+    elif governing.name == "stop duty":
+        parts.append(governing.basis)
     if miss:
         parts.append(f"motor duty not used: it needs {', '.join(miss)}")
     return "; ".join(parts)
@@ -475,7 +422,7 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
     """Braking torque at mu_min against the duty: the larger of
     ``required_torque`` and the motor duty when both are given."""
     out: list[RuleResult] = []
-    found, miss = duties(spec)
+    found, miss = duties(spec, None if sol_min.mechanism.drum is None else sol_min.mechanism.drum.radius_mm)
     if not found:
         why = f"motor duty needs {', '.join(miss)}" if miss else "no required_torque or motor duty in the spec"
         out += [_skip(f"torque.{d}", f"braking torque, {d}", why) for d in required]
@@ -484,10 +431,11 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
         need = governing.torque_Nm
         inputs = _duty_inputs(found, governing, mu_min, spec)
         message = _duty_message(found, governing, miss)
+        methods = {"motor duty": SRC_MOTOR, "stop duty": SRC_STOP}
         if len(found) > 1:
-            source = f"the larger duty: {SRC_TORQUE}; {SRC_MOTOR}"
+            source = "the larger duty: " + "; ".join(dict.fromkeys(methods.get(d.name, SRC_TORQUE) for d in found))
         else:
-            source = SRC_MOTOR if governing.name == "motor duty" else SRC_TORQUE
+            source = methods.get(governing.name, SRC_TORQUE)
         for d in required:
             c = sol_min.case(d)
             out += _effort_rule(c, need, governing.name, mu_min)
@@ -679,7 +627,7 @@ def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[Rule
             continue
         assert p is not None
         n_rpm = spec.num("drum_speed") or 0.0
-        v = math.pi * 2 * drum.radius_mm * n_rpm / 60.0 / 1000.0
+        v, v_basis = rubbing_speed(spec, drum.radius_mm)
         out.append(
             _ratio_rule(
                 rule,
@@ -690,6 +638,7 @@ def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[Rule
                 SRC_PV,
                 {"pressure_MPa": p, "rubbing_speed_m_s": v, "drum_speed_rpm": n_rpm, "case": _where(worst)},
                 at_most=True,
+                message=f"rubbing speed {v:.4g} m/s: {v_basis}",
             )
         )
     return out
@@ -728,7 +677,7 @@ def _band_pv(spec: Spec, band: Band, p: float, top: CaseSolution) -> list[RuleRe
     """
     if spec.get("drum_speed") is None or spec.get("pv_max") is None:
         return []
-    v = math.pi * 2 * band.radius_mm * (spec.num("drum_speed") or 0.0) / 60.0 / 1000.0
+    v, v_basis = rubbing_speed(spec, band.radius_mm)
     return [
         _ratio_rule(
             f"band.pv.{band.name}",
@@ -739,6 +688,7 @@ def _band_pv(spec: Spec, band: Band, p: float, top: CaseSolution) -> list[RuleRe
             SRC_PV,
             {"pressure_MPa": p, "rubbing_speed_m_s": v, "case": _where(top)},
             at_most=True,
+            message=f"rubbing speed {v:.4g} m/s: {v_basis}",
         )
     ]
 

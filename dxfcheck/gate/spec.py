@@ -11,7 +11,10 @@ Values come from five places, lowest to highest precedence:
    ``[spec]`` table (its ``[layers]`` and ``[markup]`` are read by
    :func:`dxfcheck.core.config.config_for_drawing`; named with ``--config`` it is
    the project file, read once at level 2);
-5. the command line (``--set KEY=VALUE`` and the named options).
+5. the command line (``--set KEY=VALUE`` and the named options);
+6. then ``lining = "NAME"`` (from any level) fills the values its row of the
+   lining library gives (:mod:`dxfcheck.gate.linings`) that no level set,
+   each with the row's source.
 
 Every value with a dimension carries its unit in the text (``"450 N*m"``,
 ``"0.3 MPa"``, ``"1450 rpm"``, ``"7.5 kW"``, ``"40 mm"``); a bare number is
@@ -35,6 +38,7 @@ from typing import Any
 from dxfcheck.core.config import read_toml, sidecar_of
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.units import DIMENSIONS, Quantity, UnitError, parse_quantity
+from dxfcheck.gate.linings import LININGS, lining_values
 
 __all__ = [
     "DEFAULTS",
@@ -73,6 +77,15 @@ QUANTITY_MAX: dict[str, float] = {
     "power": 1e10,  # W
     "area": 1e12,  # mm2
     "pv": 1e6,  # MPa*m/s
+    "mass": 1e7,  # kg
+    "energy": 1e12,  # J
+    "velocity": 1e3,  # m/s
+    "acceleration": 1e4,  # m/s2
+    "time": 1e7,  # s
+    "inertia": 1e8,  # kg*m2
+    "temperature": 5e3,  # °C
+    "specific_heat": 1e5,  # J/(kg*K)
+    "heat_transfer": 1e5,  # W/(m2*K)
 }
 
 
@@ -145,6 +158,34 @@ KEYS: dict[str, Key] = {
     "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
     "long_shoe_threshold": Key(
         Kind.NUMBER, "contact angle above which auto takes long theory [degrees]", minimum=0.0, maximum=360.0
+    ),
+    # duty and heat of a stop (dxfcheck.gate.duty, dxfcheck.gate.heat) and the lining library
+    "load_mass": Key(Kind.QUANTITY, "mass of the load the brake stops (moving at rope_speed)", "mass"),
+    "rope_speed": Key(Kind.QUANTITY, "load speed when a stop begins (default: the drum surface)", "velocity"),
+    "inertia": Key(Kind.QUANTITY, "moment of inertia of the rotating parts reduced to the brake drum", "inertia"),
+    "lowering": Key(
+        Kind.CHOICE,
+        "the stop: yes (load lowered, adds m·g·h), no (level), hoisting (load rising, gravity helps)",
+        choices=("yes", "no", "hoisting"),
+    ),
+    "stop_time": Key(Kind.QUANTITY, "time of a stop, uniform deceleration", "time"),
+    "deceleration": Key(Kind.QUANTITY, "load deceleration over a stop, uniform (needs rope_speed)", "acceleration"),
+    "stops_per_hour": Key(Kind.NUMBER, "stops per hour in service", minimum=0.0, maximum=36000.0, above=True),
+    "drum_mass": Key(Kind.QUANTITY, "mass of the drum that takes the heat of a stop", "mass"),
+    "drum_material": Key(Kind.CHOICE, "drum material (its specific heat)", choices=("steel", "cast iron")),
+    "specific_heat": Key(Kind.QUANTITY, "specific heat of the drum (overrides drum_material)", "specific_heat"),
+    "cooling_area": Key(Kind.QUANTITY, "drum surface that sheds heat to the air", "area"),
+    "heat_transfer_coefficient": Key(
+        Kind.QUANTITY, "combined convection and radiation coefficient of the drum", "heat_transfer"
+    ),
+    "ambient_temperature": Key(Kind.QUANTITY, "air temperature around the brake", "temperature"),
+    "drum_temperature_max": Key(Kind.QUANTITY, "allowed steady (continuous) drum temperature", "temperature"),
+    "drum_peak_temperature_max": Key(Kind.QUANTITY, "allowed drum temperature right after a stop", "temperature"),
+    "lining": Key(
+        Kind.CHOICE,
+        "lining material from the library (dxfcheck linings): fills mu, its range, the pressure, pV and "
+        "temperature limits; the spec may override each",
+        choices=tuple(LININGS),
     ),
     # revision compare
     "max_torque_drop": Key(
@@ -482,4 +523,18 @@ def load_spec(
         b.table(given, "Python call")
     for key, raw in overrides:
         _put_dotted(b, key, raw, "command line")
+    _fill_from_lining(b)
     return b.build()
+
+
+def _fill_from_lining(b: _Builder) -> None:
+    """The values of the spec's ``lining`` that no source of the spec set
+    (a default yields), each with the library row's source."""
+    chosen = b.values.get("lining")
+    if chosen is None:
+        return
+    own_mu = b.values.get("mu")
+    for v in lining_values(str(chosen.value), None if own_mu is None else float(own_mu.value)):
+        mine = b.values.get(v.key)
+        if mine is None or mine.source.startswith("default"):
+            b.values[v.key] = SpecValue(v.key, v.value, v.unit, v.text, f"{v.source} (lining from {chosen.source})")

@@ -124,8 +124,9 @@ SRC_MARGIN = "rule margins 0.001-1000: a design sits within a decade or so of it
 
 #: Rules whose margin is not a capacity over a demand the drawing's units
 #: scale (asymmetry: a ratio of torques; self-locking: bounded by μ < 1;
-#: Euler buckling: legitimately huge for a stubby rod).
-MARGIN_EXEMPT_PREFIXES = ("torque.asymmetry", "self_lock.", "member.buckling.")
+#: Euler buckling: legitimately huge for a stubby rod; the drum's temperatures:
+#: a ratio of temperature rises, huge for a light duty on a heavy drum).
+MARGIN_EXEMPT_PREFIXES = ("torque.asymmetry", "self_lock.", "member.buckling.", "heat.")
 
 #: Units tried when saying which one would make a drawing plausible.
 CANDIDATE_UNITS = ("mm", "cm", "m", "inch", "ft")

@@ -11,10 +11,12 @@ from __future__ import annotations
 
 import json
 import sys
+from collections.abc import Iterable
 from typing import IO, Any
 
 from dxfcheck.core.errors import DxfcheckError
 from dxfcheck.core.version import __version__
+from dxfcheck.gate.linings import Lining
 from dxfcheck.gate.rules import Judgement, RuleResult
 from dxfcheck.gate.spec import SpecValue
 from dxfcheck.mechanism.layers import layers_json
@@ -36,12 +38,14 @@ from dxfcheck.statics import (
 __all__ = [
     "CHECK_SCHEMA",
     "COMPARE_SCHEMA",
+    "LININGS_SCHEMA",
     "SENSITIVITY_SCHEMA",
     "SOLVE_SCHEMA",
     "case_to_dict",
     "comparisons_to_dict",
     "error_document",
     "judgement_to_dict",
+    "linings_to_dict",
     "rule_to_dict",
     "sensitivity_to_dict",
     "solution_to_dict",
@@ -55,6 +59,8 @@ SOLVE_SCHEMA = "dxfcheck.solve/2"
 CHECK_SCHEMA = "dxfcheck.check/2"
 #: Versioned name of the ``compare --json`` document.
 COMPARE_SCHEMA = "dxfcheck.revision.compare/2"
+#: Versioned name of the ``linings --json`` document.
+LININGS_SCHEMA = "dxfcheck.linings/1"
 #: Versioned name of the ``solve --samples --json`` document.
 SENSITIVITY_SCHEMA = "dxfcheck.statics.sampling/1"
 
@@ -339,6 +345,29 @@ def judgement_to_dict(j: Judgement) -> dict[str, Any]:
 
 
 # --- revisions ---------------------------------------------------------------
+
+
+def linings_to_dict(linings: Iterable[Lining]) -> dict[str, Any]:
+    """The lining library: every row with its values [units in the names]
+    and its sources (the table's, and common practice where it fills in)."""
+    rows = [
+        {
+            "name": ln.name,
+            "material": ln.material,
+            "mu": ln.mu,
+            "mu_min": ln.mu_min,
+            "mu_max": ln.mu_max,
+            "working_pressure_MPa": list(ln.working_pressure_MPa),
+            "pressure_max_MPa": ln.pressure_max_MPa,
+            "pv_max_MPa_m_s": ln.pv_max_MPa_m_s,
+            "operating_temperature_max_C": ln.operating_temperature_max_C,
+            "temperature_max_C": ln.temperature_max_C,
+            "source": ln.source,
+            "practice": dict(ln.practice),
+        }
+        for ln in linings
+    ]
+    return {"schema": LININGS_SCHEMA, "tool": _tool(), "linings": rows, "caution": CAUTION}
 
 
 def _thresholds(th: Thresholds) -> dict[str, Any]:

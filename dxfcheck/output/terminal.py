@@ -15,13 +15,14 @@ import contextlib
 import math
 import sys
 import time
-from collections.abc import Callable, Iterator
+from collections.abc import Callable, Iterable, Iterator
 from typing import IO, TYPE_CHECKING, Any
 
 from dxfcheck.core.errors import DxfcheckError
 from dxfcheck.core.findings import Finding, Severity
 from dxfcheck.core.textsafe import markup as _esc
 from dxfcheck.core.textsafe import one_line, report_console
+from dxfcheck.gate.linings import Lining
 from dxfcheck.gate.rules import Judgement, Verdict
 from dxfcheck.mechanism.layers import searched_line
 from dxfcheck.output.json import trend_rows
@@ -41,6 +42,7 @@ __all__ = [
     "print_error",
     "print_findings",
     "print_judgement",
+    "print_linings",
     "print_sensitivity",
     "print_solution",
 ]
@@ -350,6 +352,38 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
     console.print(_rules_table(j))
     print_findings(console, j.nominal.findings)
     console.print(_spec_table(j))
+    console.print()
+    console.print(CAUTION)
+
+
+def print_linings(linings: Iterable[Lining], out: IO[str] | None = None) -> None:
+    """The lining library of ``dxfcheck linings``: one row per lining, then
+    the sources each row cites."""
+    console = _console(out)
+    t = _table(
+        "lining library (lining = NAME in the spec); pressures in MPa, pV in MPa·m/s, temperatures in °C",
+        ("name", "material", "μ", "μ range", "p work", "p max", "pV max", "T operating", "T max"),
+        left=("name", "material"),
+    )
+    t.columns[0].no_wrap = True
+    cited: dict[str, None] = {}
+    for ln in linings:
+        low, high = ln.working_pressure_MPa
+        t.add_row(
+            ln.name,
+            ln.material,
+            f"{ln.mu:g}",
+            f"{ln.mu_min:.3g}-{ln.mu_max:.3g}",
+            f"{low:g}-{high:g}",
+            f"{ln.pressure_max_MPa:g}",
+            f"{ln.pv_max_MPa_m_s:g}",
+            f"{ln.operating_temperature_max_C:g}",
+            f"{ln.temperature_max_C:g}",
+        )
+        cited.update(dict.fromkeys([f"source: {ln.source}"] + [f"{k}: {v}" for k, v in ln.practice.items()]))
+    console.print(t)
+    for line in cited:
+        console.print(_esc(line))
     console.print()
     console.print(CAUTION)
 
