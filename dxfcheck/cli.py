@@ -265,6 +265,9 @@ def _parser() -> argparse.ArgumentParser:
         metavar="ADDRESS",
         help="run on a Dask distributed cluster, e.g. tcp://10.0.0.5:8786 (extra 'cluster')",
     )
+    k = sub.add_parser("schema", help="print the JSON Schema of a --json document (without NAME: list the names)")
+    k.add_argument("name", nargs="?", default=None, help="solve, check, compare, batch, sensitivity or error")
+    k.set_defaults(timeout=None)
     return p
 
 
@@ -641,6 +644,20 @@ def _batch(args: argparse.Namespace) -> int:
     return _batch_exit(result, strict=args.strict)
 
 
+def _schema(args: argparse.Namespace) -> int:
+    from dxfcheck.output.schemas import DOCUMENTS, SCHEMA_NAMES, schema_text
+
+    if args.name is None:
+        for name in SCHEMA_NAMES:
+            sys.stdout.write(f"{name:<12} {DOCUMENTS.get(name, 'the refusal document of solve, check, compare')}\n")
+        return EXIT_OK
+    try:
+        sys.stdout.write(schema_text(args.name))
+    except KeyError:
+        raise ConfigError(f"schema: no schema named {args.name!r} (names: {', '.join(SCHEMA_NAMES)})") from None
+    return EXIT_OK
+
+
 def _batch_exit(result: Any, *, strict: bool) -> int:
     import signal
 
@@ -710,7 +727,14 @@ def _main(argv: Sequence[str] | None) -> int:
 
     args = _parser().parse_args(argv)
     _route_library_logs()
-    commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare, "batch": _batch}
+    commands = {
+        "solve": _solve,
+        "check": _check,
+        "annotate": _annotate,
+        "compare": _compare,
+        "batch": _batch,
+        "schema": _schema,
+    }
     from dxfcheck.core import deadline
 
     try:
