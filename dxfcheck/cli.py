@@ -265,6 +265,19 @@ def _parser() -> argparse.ArgumentParser:
         metavar="ADDRESS",
         help="run on a Dask distributed cluster, e.g. tcp://10.0.0.5:8786 (extra 'cluster')",
     )
+    h = sub.add_parser(
+        "hook", help="for pre-commit: check each drawing named, or compare it with its committed revision"
+    )
+    h.add_argument("mode", choices=("check", "compare"), help="check: the release gate; compare: against --rev")
+    h.add_argument("drawings", nargs="+", help="the DXF files (pre-commit passes the changed ones)")
+    h.add_argument("--rev", default="HEAD", help="compare: the committed revision (default HEAD)")
+    h.add_argument("--config", default=None, help="project file (default: each drawing's nearest)")
+    h.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    h.add_argument("--strict", action="store_true", help="check: warnings fail too")
+    h.add_argument("--max-torque-drop", default=None, metavar="PCT", help="compare: as for compare")
+    h.add_argument("--max-force-rise", default=None, metavar="PCT", help="compare: as for compare")
+    h.set_defaults(timeout=None)
+
     k = sub.add_parser("schema", help="print the JSON Schema of a --json document (without NAME: list the names)")
     k.add_argument("name", nargs="?", default=None, help="solve, check, compare, batch, sensitivity or error")
     k.set_defaults(timeout=None)
@@ -644,6 +657,44 @@ def _batch(args: argparse.Namespace) -> int:
     return _batch_exit(result, strict=args.strict)
 
 
+def _hook_argv(args: argparse.Namespace, drawing: str, rev_dir: Any) -> list[str] | None:
+    """The command line one drawing of the hook runs, or None (a new drawing
+    has no committed revision to compare with)."""
+    from pathlib import Path
+
+    from dxfcheck.core.config import find_config
+    from dxfcheck.revision.committed import committed_copy
+
+    extra = [x for s in args.set for x in ("--set", s)]
+    if args.mode == "check":
+        config = ["--config", args.config] if args.config else []
+        return ["check", drawing, *config, *extra, *(["--strict"] if args.strict else [])]
+    old = committed_copy(Path(drawing), args.rev, Path(rev_dir))
+    if old is None:
+        sys.stdout.write(f"dxfcheck: {drawing}: new, not in {args.rev}: nothing to compare\n")
+        return None
+    project = args.config or find_config(Path(drawing))  # the copy lies outside the project: name its file
+    config = ["--config", str(project)] if project else []
+    for option, value in (("--max-torque-drop", args.max_torque_drop), ("--max-force-rise", args.max_force_rise)):
+        config += [option, value] if value is not None else []
+    return ["compare", str(old), drawing, *config, *extra]
+
+
+def _hook(args: argparse.Namespace) -> int:
+    """Each drawing in turn (a check, or a compare with its committed
+    revision); the exit code is the worst of theirs."""
+    import tempfile
+
+    worst = EXIT_OK
+    for drawing in args.drawings:
+        with tempfile.TemporaryDirectory(prefix="dxfcheck-hook-") as rev_dir:
+            argv = _hook_argv(args, drawing, rev_dir)
+            if argv is not None:
+                sys.stdout.flush()
+                worst = max(worst, _main(argv))
+    return worst
+
+
 def _schema(args: argparse.Namespace) -> int:
     from dxfcheck.output.schemas import DOCUMENTS, SCHEMA_NAMES, schema_text
 
@@ -734,6 +785,7 @@ def _main(argv: Sequence[str] | None) -> int:
         "compare": _compare,
         "batch": _batch,
         "schema": _schema,
+        "hook": _hook,
     }
     from dxfcheck.core import deadline
 
