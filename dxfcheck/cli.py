@@ -553,6 +553,7 @@ def _report_stream(args: argparse.Namespace, *targets: str | None) -> Any:
 
 
 def _compare(args: argparse.Namespace) -> int:
+    from dxfcheck.core import progress
     from dxfcheck.core.files import Target, check_targets, write_atomic
     from dxfcheck.gate.spec import parse_assignment
     from dxfcheck.output.annotate import mark_revision
@@ -576,9 +577,13 @@ def _compare(args: argparse.Namespace) -> int:
             parse_fraction(text, option)  # refused before any drawing is read
     overrides = [parse_assignment(s) for s in args.set]
     judgements = []
-    for name in names:
-        cfg = resolve_config(name, args.config)
-        judgements.append(check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args)))
+    with progress.task("checking revisions", len(names)) as bar:
+        for name in names:
+            cfg = resolve_config(name, args.config)
+            judgements.append(
+                check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args))
+            )
+            bar.advance()
     spec = judgements[-1].spec
     thresholds = resolve_thresholds(args.max_torque_drop, args.max_force_rise, spec)
     comps = [compare_judgements(a, b, thresholds) for a, b in itertools.pairwise(judgements)]
@@ -773,6 +778,18 @@ def _route_library_logs() -> None:
         logger.propagate = False
 
 
+def _progress(args: argparse.Namespace) -> Any:
+    """Progress bars on a terminal's stderr for the long work of solve,
+    check, annotate and compare (batch has its own; none with --json)."""
+    from contextlib import nullcontext
+
+    if args.command not in ("solve", "check", "annotate", "compare") or getattr(args, "json", False):
+        return nullcontext()
+    from dxfcheck.output.terminal import progress_bar
+
+    return progress_bar()
+
+
 def _main(argv: Sequence[str] | None) -> int:
     from dxfcheck.output.terminal import print_error
 
@@ -790,7 +807,7 @@ def _main(argv: Sequence[str] | None) -> int:
     from dxfcheck.core import deadline
 
     try:
-        with deadline.limit(args.timeout):
+        with deadline.limit(args.timeout), _progress(args):
             return commands[args.command](args)
     except TimeLimitExceeded as exc:  # never caught as a reading problem: it is no Exception
         limit_error = _time_limit_error(args, exc)

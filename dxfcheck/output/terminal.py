@@ -18,6 +18,7 @@ import time
 from collections.abc import Callable, Iterator
 from typing import IO, TYPE_CHECKING, Any
 
+from dxfcheck.core import progress
 from dxfcheck.core.errors import DxfcheckError
 from dxfcheck.core.findings import Finding, Severity
 from dxfcheck.core.textsafe import markup as _esc
@@ -43,6 +44,7 @@ __all__ = [
     "print_judgement",
     "print_sensitivity",
     "print_solution",
+    "progress_bar",
 ]
 
 #: Width of the report when the output is not a terminal [characters].
@@ -465,6 +467,49 @@ def batch_progress(total: int, *, enabled: bool = True) -> Iterator[Callable[[An
             progress.update(task, advance=1, failures=failures["n"], rate=f"{rate:.1f}/s")
 
         yield on_result
+
+
+class _RichListener:
+    """The tasks of :mod:`dxfcheck.core.progress` as rich bars (stderr)."""
+
+    def __init__(self, bar: Any) -> None:
+        self._bar = bar
+
+    def start(self, label: str, total: float) -> object:
+        return self._bar.add_task(_esc(label), total=total)
+
+    def update(self, key: object, done: float) -> None:
+        self._bar.update(key, completed=done)
+
+    def stop(self, key: object) -> None:
+        self._bar.remove_task(key)
+
+
+@contextlib.contextmanager
+def progress_bar(*, enabled: bool = True, stream: IO[str] | None = None) -> Iterator[None]:
+    """Show the long work of the block (reading a big drawing, sampling, the
+    revisions of a compare) as rich progress bars on standard error, only
+    when that is a terminal and ``enabled``; each bar goes when its task
+    ends (nothing is left in the report)."""
+    stream = stream or sys.stderr
+    if not enabled or not stream.isatty():
+        yield
+        return
+    from rich.console import Console
+    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
+
+    with (
+        Progress(
+            TextColumn("{task.description}"),
+            BarColumn(),
+            TaskProgressColumn(),
+            TimeRemainingColumn(),
+            console=Console(file=stream),
+            transient=True,
+        ) as bar,
+        progress.listening(_RichListener(bar)),
+    ):
+        yield
 
 
 def print_batch(batch: Any, out: IO[str] | None = None) -> None:

@@ -24,7 +24,9 @@ PLAIN_LAYERS = '[layers]\npin = ["V-PIN"]\npivot = ["V-PIV"]\nlink = ["V-CL"]\n'
 
 
 def run(*args):
-    return subprocess.run([sys.executable, "-m", "dxfcheck", *map(str, args)], capture_output=True, text=True, timeout=120)
+    return subprocess.run(
+        [sys.executable, "-m", "dxfcheck", *map(str, args)], capture_output=True, text=True, timeout=120
+    )
 
 
 def _repo(tmp_path: Path, pyproject: str | None = None, dxfcheck_toml: str | None = None) -> Path:
