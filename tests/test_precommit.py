@@ -39,6 +39,17 @@ def _conveyor(text: str):
     return sk.load(520.0, 210, math.cos(t), math.sin(t), text, length=80)
 
 
+def test_the_shipped_manifest_is_valid_for_pre_commit():
+    """pre-commit's own manifest check (what it runs on a hooks repository)."""
+    from pre_commit.clientlib import load_manifest
+
+    hooks = {h["id"]: h for h in load_manifest(HOOKS)}
+    assert set(hooks) == {"dxfcheck-check", "dxfcheck-compare"}
+    assert all(h["language"] == "python" and h["pass_filenames"] for h in hooks.values())
+    assert hooks["dxfcheck-check"]["entry"] == "dxfcheck hook check"
+    assert hooks["dxfcheck-compare"]["entry"] == "dxfcheck hook compare"
+
+
 def _local_config() -> str:
     """The shipped hooks as ``repo: local`` hooks run by this interpreter."""
     shipped = yaml.safe_load(HOOKS.read_text())

@@ -470,19 +470,43 @@ def batch_progress(total: int, *, enabled: bool = True) -> Iterator[Callable[[An
 
 
 class _RichListener:
-    """The tasks of :mod:`dxfcheck.core.progress` as rich bars (stderr)."""
+    """The tasks of :mod:`dxfcheck.core.progress` as rich bars on a stream.
 
-    def __init__(self, bar: Any) -> None:
-        self._bar = bar
+    The display runs only while a task does: it starts with the first task
+    and stops (its bars erased) when the last one ends, so a report printed
+    afterwards, on either stream, never meets a live display; and it leaves
+    ``sys.stdout`` and ``sys.stderr`` as they are (no redirection)."""
+
+    def __init__(self, stream: IO[str]) -> None:
+        from rich.console import Console
+        from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
+
+        self._bar = Progress(
+            TextColumn("{task.description}"),
+            BarColumn(),
+            TaskProgressColumn(),
+            TimeRemainingColumn(),
+            console=Console(file=stream),
+            transient=True,
+            redirect_stdout=False,
+            redirect_stderr=False,
+        )
+        self._running = 0
 
     def start(self, label: str, total: float) -> object:
+        if self._running == 0:
+            self._bar.start()
+        self._running += 1
         return self._bar.add_task(_esc(label), total=total)
 
     def update(self, key: object, done: float) -> None:
-        self._bar.update(key, completed=done)
+        self._bar.update(key, completed=done)  # type: ignore[arg-type]
 
     def stop(self, key: object) -> None:
-        self._bar.remove_task(key)
+        self._bar.remove_task(key)  # type: ignore[arg-type]
+        self._running -= 1
+        if self._running == 0:
+            self._bar.stop()
 
 
 @contextlib.contextmanager
@@ -495,20 +519,7 @@ def progress_bar(*, enabled: bool = True, stream: IO[str] | None = None) -> Iter
     if not enabled or not stream.isatty():
         yield
         return
-    from rich.console import Console
-    from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
-
-    with (
-        Progress(
-            TextColumn("{task.description}"),
-            BarColumn(),
-            TaskProgressColumn(),
-            TimeRemainingColumn(),
-            console=Console(file=stream),
-            transient=True,
-        ) as bar,
-        progress.listening(_RichListener(bar)),
-    ):
+    with progress.listening(_RichListener(stream)):
         yield
 
 

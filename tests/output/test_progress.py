@@ -86,9 +86,10 @@ def test_compare_advances_one_revision_at_a_time(capsys):
     assert t["total"] == 3 and t["done"] == [1, 2, 3] and t["stopped"]
 
 
-def _stderr_on_a_terminal(*args):
-    """Run the command with its standard error on a pseudo-terminal; return
-    (exit code, what the terminal got, standard output)."""
+def _stderr_on_a_terminal(*args, stdout_too=False):
+    """Run the command with its standard error (and with ``stdout_too`` its
+    standard output) on a pseudo-terminal; return (exit code, what the
+    terminal got, standard output if piped)."""
     leader, follower = pty.openpty()
     got = bytearray()
 
@@ -108,7 +109,7 @@ def _stderr_on_a_terminal(*args):
     env.pop("NO_COLOR", None)
     done = subprocess.run(
         [sys.executable, "-m", "dxfcheck", *map(str, args)],
-        stdout=subprocess.PIPE,
+        stdout=follower if stdout_too else subprocess.PIPE,
         stderr=follower,
         env=env,
         timeout=300,
@@ -116,7 +117,7 @@ def _stderr_on_a_terminal(*args):
     os.close(follower)
     reader.join(timeout=10)
     os.close(leader)
-    return done.returncode, got.decode("utf-8", "replace"), done.stdout.decode()
+    return done.returncode, got.decode("utf-8", "replace"), (done.stdout or b"").decode()
 
 
 @pytest.mark.skipif(not hasattr(os, "openpty"), reason="needs a pseudo-terminal")
@@ -130,3 +131,13 @@ def test_bars_show_on_a_terminal_and_nowhere_else():
     assert piped.returncode == 0 and "sampling cw" not in piped.stderr + piped.stdout
     code, terminal, _ = _stderr_on_a_terminal(*args, "--json")  # --json: no bars, as batch
     assert code == 0 and "sampling cw" not in terminal
+
+
+@pytest.mark.skipif(not hasattr(os, "openpty"), reason="needs a pseudo-terminal")
+def test_the_report_after_the_bars_is_whole_on_one_terminal():
+    """Both streams on one terminal: the bars run only while the work does,
+    so the report printed after them comes out whole."""
+    code, terminal, _ = _stderr_on_a_terminal("solve", WINCH, "--mu", "0.3..0.4", "--samples", "20000", stdout_too=True)
+    assert code == 0 and "sampling cw" in terminal
+    report = terminal[terminal.rindex("sampling ccw") :]
+    assert "qualified engineer" in report and "p50" in report
