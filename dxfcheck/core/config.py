@@ -209,7 +209,8 @@ def find_config(drawing: Path) -> Path | None:
 
 
 def sidecar_of(drawing: Path) -> Path | None:
-    """The drawing's own file ``NAME.toml`` beside it, if there is one.
+    """The drawing's own file ``NAME.toml`` beside it, if there is one
+    (never a ``pyproject.toml``: that is the project's file).
 
     Raises
     ------
@@ -218,8 +219,8 @@ def sidecar_of(drawing: Path) -> Path | None:
         user than the drawing (it may have been planted there).
     """
     side = drawing.with_suffix(".toml")
-    if side == drawing or not os.path.lexists(side):
-        return None
+    if side == drawing or side.name == PYPROJECT_NAME or not os.path.lexists(side):
+        return None  # a drawing named pyproject.dxf has no own file: that one is the Python project's
     if _others_can_write(side.parent):
         try:
             foreign = side.lstat().st_uid != drawing.stat().st_uid

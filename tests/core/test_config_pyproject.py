@@ -136,3 +136,19 @@ def test_a_broken_pyproject_on_the_search_path_is_refused(tmp_path):
     drawing = _repo(tmp_path, "[tool.dxfcheck\n")
     r = run("solve", drawing)
     assert r.returncode == 2 and "pyproject.toml" in r.stderr and "not valid TOML" in r.stderr
+
+
+def test_a_drawing_named_pyproject_has_no_own_file(tmp_path):
+    """pyproject.dxf beside a pyproject.toml without [tool.dxfcheck]: the
+    TOML is the Python project's file, never read as the drawing's own file
+    (its [project] table would be refused as an unknown table)."""
+    repo = tmp_path / "repo"
+    (repo / ".git").mkdir(parents=True)
+    (repo / PYPROJECT_NAME).write_text('[project]\nname = "brakes"\n')
+    named = repo / "pyproject.dxf"
+    winch_two_shoe().save(named)
+    cfg = config_for_drawing(named)
+    assert cfg.sidecar is None and cfg.path is None
+    r = run("solve", named, "--json")
+    assert r.returncode == 0, r.stderr
+    assert output_json(r.stdout)["sidecar"] is None
