@@ -269,6 +269,22 @@ def _parser() -> argparse.ArgumentParser:
         metavar="ADDRESS",
         help="run on a Dask distributed cluster, e.g. tcp://10.0.0.5:8786 (extra 'cluster')",
     )
+    h = sub.add_parser(
+        "hook", help="for pre-commit: check each drawing named, or compare it with its committed revision"
+    )
+    h.add_argument("mode", choices=("check", "compare"), help="check: the release gate; compare: against --rev")
+    h.add_argument("drawings", nargs="+", help="the DXF files (pre-commit passes the changed ones)")
+    h.add_argument("--rev", default="HEAD", help="compare: the committed revision (default HEAD)")
+    h.add_argument("--config", default=None, help="project file (default: each drawing's nearest)")
+    h.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    h.add_argument("--strict", action="store_true", help="check: warnings fail too")
+    h.add_argument("--max-torque-drop", default=None, metavar="PCT", help="compare: as for compare")
+    h.add_argument("--max-force-rise", default=None, metavar="PCT", help="compare: as for compare")
+    h.set_defaults(timeout=None)
+
+    k = sub.add_parser("schema", help="print the JSON Schema of a --json document (without NAME: list the names)")
+    k.add_argument("name", nargs="?", default=None, help="solve, check, compare, batch, sensitivity or error")
+    k.set_defaults(timeout=None)
     return p
 
 
@@ -541,6 +557,7 @@ def _report_stream(args: argparse.Namespace, *targets: str | None) -> Any:
 
 
 def _compare(args: argparse.Namespace) -> int:
+    from dxfcheck.core import progress
     from dxfcheck.core.files import Target, check_targets, write_atomic
     from dxfcheck.gate.spec import parse_assignment
     from dxfcheck.output.annotate import mark_revision
@@ -564,9 +581,13 @@ def _compare(args: argparse.Namespace) -> int:
             parse_fraction(text, option)  # refused before any drawing is read
     overrides = [parse_assignment(s) for s in args.set]
     judgements = []
-    for name in names:
-        cfg = resolve_config(name, args.config)
-        judgements.append(check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args)))
+    with progress.task("checking revisions", len(names)) as bar:
+        for name in names:
+            cfg = resolve_config(name, args.config)
+            judgements.append(
+                check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args))
+            )
+            bar.advance()
     spec = judgements[-1].spec
     thresholds = resolve_thresholds(args.max_torque_drop, args.max_force_rise, spec)
     comps = [compare_judgements(a, b, thresholds) for a, b in itertools.pairwise(judgements)]
@@ -657,6 +678,58 @@ def _linings(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _hook_argv(args: argparse.Namespace, drawing: str, rev_dir: Any) -> list[str] | None:
+    """The command line one drawing of the hook runs, or None (a new drawing
+    has no committed revision to compare with)."""
+    from pathlib import Path
+
+    from dxfcheck.core.config import find_config
+    from dxfcheck.revision.committed import committed_copy
+
+    extra = [x for s in args.set for x in ("--set", s)]
+    if args.mode == "check":
+        config = ["--config", args.config] if args.config else []
+        return ["check", drawing, *config, *extra, *(["--strict"] if args.strict else [])]
+    old = committed_copy(Path(drawing), args.rev, Path(rev_dir))
+    if old is None:
+        sys.stdout.write(f"dxfcheck: {drawing}: new, not in {args.rev}: nothing to compare\n")
+        return None
+    project = args.config or find_config(Path(drawing))  # the copy lies outside the project: name its file
+    config = ["--config", str(project)] if project else []
+    for option, value in (("--max-torque-drop", args.max_torque_drop), ("--max-force-rise", args.max_force_rise)):
+        config += [option, value] if value is not None else []
+    return ["compare", str(old), drawing, *config, *extra]
+
+
+def _hook(args: argparse.Namespace) -> int:
+    """Each drawing in turn (a check, or a compare with its committed
+    revision); the exit code is the worst of theirs."""
+    import tempfile
+
+    worst = EXIT_OK
+    for drawing in args.drawings:
+        with tempfile.TemporaryDirectory(prefix="dxfcheck-hook-") as rev_dir:
+            argv = _hook_argv(args, drawing, rev_dir)
+            if argv is not None:
+                sys.stdout.flush()
+                worst = max(worst, _main(argv))
+    return worst
+
+
+def _schema(args: argparse.Namespace) -> int:
+    from dxfcheck.output.schemas import DOCUMENTS, SCHEMA_NAMES, schema_text
+
+    if args.name is None:
+        for name in SCHEMA_NAMES:
+            sys.stdout.write(f"{name:<12} {DOCUMENTS.get(name, 'the refusal document of solve, check, compare')}\n")
+        return EXIT_OK
+    try:
+        sys.stdout.write(schema_text(args.name))
+    except KeyError:
+        raise ConfigError(f"schema: no schema named {args.name!r} (names: {', '.join(SCHEMA_NAMES)})") from None
+    return EXIT_OK
+
+
 def _batch_exit(result: Any, *, strict: bool) -> int:
     import signal
 
@@ -721,6 +794,18 @@ def _route_library_logs() -> None:
         logger.propagate = False
 
 
+def _progress(args: argparse.Namespace) -> Any:
+    """Progress bars on a terminal's stderr for the long work of solve,
+    check, annotate and compare (batch has its own; none with --json)."""
+    from contextlib import nullcontext
+
+    if args.command not in ("solve", "check", "annotate", "compare") or getattr(args, "json", False):
+        return nullcontext()
+    from dxfcheck.output.terminal import progress_bar
+
+    return progress_bar()
+
+
 def _main(argv: Sequence[str] | None) -> int:
     from dxfcheck.output.terminal import print_error
 
@@ -733,11 +818,13 @@ def _main(argv: Sequence[str] | None) -> int:
         "compare": _compare,
         "batch": _batch,
         "linings": _linings,
+        "schema": _schema,
+        "hook": _hook,
     }
     from dxfcheck.core import deadline
 
     try:
-        with deadline.limit(args.timeout):
+        with deadline.limit(args.timeout), _progress(args):
             return commands[args.command](args)
     except TimeLimitExceeded as exc:  # never caught as a reading problem: it is no Exception
         limit_error = _time_limit_error(args, exc)

@@ -29,6 +29,7 @@ from pathlib import Path
 
 import pytest
 from common import ROOT, conveyor_block, winch_two_shoe
+from schema_check import output_json
 
 from dxfcheck import cli
 from dxfcheck.batch import (
@@ -84,7 +85,7 @@ def _run(*args: str, env: dict[str, str] | None = None, timeout: float = RUN_S) 
 def _batch_json(*args: str, env: dict[str, str] | None = None) -> tuple[int, dict]:
     done = _run("batch", *args, "--json", env=env)
     assert done.stdout, done.stderr
-    return done.returncode, json.loads(done.stdout)
+    return done.returncode, output_json(done.stdout)
 
 
 def _direct(path: Path) -> tuple[str, list[str]]:
@@ -93,7 +94,7 @@ def _direct(path: Path) -> tuple[str, list[str]]:
     buf = io.StringIO()
     with contextlib.redirect_stdout(buf):
         rc = cli.main(["check", str(path), "--json"])
-    doc = json.loads(buf.getvalue())
+    doc = output_json(buf.getvalue())
     assert rc == (1 if doc["verdict"] == "fail" else 0)
     return doc["verdict"], [r["rule"] for r in doc["rules"] if r["verdict"] == "fail"]
 
@@ -225,7 +226,7 @@ def test_batch_gives_the_verdicts_of_direct_checks(demos, tmp_path):
 def test_cli_outputs_and_exit_codes(folder, tmp_path, capsys):
     cache = str(tmp_path / "c")
     rc = cli.main(["batch", str(folder), "--json", "--cache-dir", cache, "--jobs", "2"])
-    doc = json.loads(capsys.readouterr().out)
+    doc = output_json(capsys.readouterr().out)
     assert rc == 2  # one drawing unusable
     assert doc["schema"] == "dxfcheck.batch/2"
     assert doc["counts"] == {"pass": 1, "warn": 0, "fail": 1, "error": 1, "timeout": 0}
@@ -313,7 +314,7 @@ def test_forged_cache_records_are_rejected_and_checked_again(tmp_path):
     assert stat.S_IMODE(cache.stat().st_mode) == 0o700
     for name, forge in forgeries.items():
         record = cache / f"{cache_key(top / name / 'winch_two_shoe.dxf', CheckOptions())}.json"
-        doc = json.loads(record.read_text())
+        doc = json.loads(record.read_text())  # a cache record, not an output
         forge(doc)
         record.write_text(json.dumps(doc))  # NaN is written as the bare word NaN
     rc, doc = _batch_json(str(top), "--cache-dir", str(cache))
@@ -422,7 +423,7 @@ def test_a_signal_ends_the_batch_and_its_workers(demos, tmp_path, sig, code):
     out, err = proc.communicate(timeout=30)
     assert time.monotonic() - t0 < 15
     assert proc.returncode == code, err
-    doc = json.loads(out)
+    doc = output_json(out)
     assert doc["interrupted"] is True and doc["signal"] == signal.Signals(sig).name
     assert f"interrupted by {signal.Signals(sig).name}" in err
     deadline = time.monotonic() + 10
@@ -502,7 +503,7 @@ def test_links_out_of_the_folder_are_not_followed_and_bytes_never_echoed(demos, 
     os.symlink(demos / "conveyor_block.dxf", demos / "inside.dxf")  # stays in the folder: followed
 
     done = _run("batch", str(demos), "--no-cache", "--json")
-    doc = json.loads(done.stdout)
+    doc = output_json(done.stdout)
     assert "SECRET" not in done.stdout + done.stderr
     assert sorted(Path(s["path"]).name for s in doc["skipped"]) == ["blob.dxf", "leak.dxf", "linked"]
     assert "inside.dxf" in _verdicts(doc) and "hidden.dxf" not in _verdicts(doc)
@@ -514,7 +515,7 @@ def test_links_out_of_the_folder_are_not_followed_and_bytes_never_echoed(demos, 
         done = _run("batch", *args, "--json")
         assert done.returncode == 2
         assert "SECRET" not in done.stdout + done.stderr and "hunter2" not in done.stdout + done.stderr
-        got = {Path(r["drawing"]).name: r["message"] for r in json.loads(done.stdout)["results"]}
+        got = {Path(r["drawing"]).name: r["message"] for r in output_json(done.stdout)["results"]}
         assert "bytes of text (not shown)" in got["leak.dxf"]
         assert "bytes of binary data (not shown)" in got["blob.dxf"]
         assert ("hidden.dxf" in got) is ("--follow-symlinks" in args)

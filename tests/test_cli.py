@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import json
 import subprocess
 import sys
 
 import pytest
 from common import ROOT, conveyor_block, frame_bellcrank_two_shoe
+from schema_check import output_json
 
 DEMO = ROOT / "drawings" / "winch_two_shoe.dxf"
 
@@ -30,7 +30,7 @@ def test_solve_demo_terminal():
 def test_solve_json_schema():
     r = run("solve", DEMO, "--mu", "0.35", "--json")
     assert r.returncode == 0, r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert doc["schema"] == "dxfcheck.solve/2"
     assert doc["units"]["name"] == "mm"
     assert [c["direction"] for c in doc["cases"]] == ["cw", "ccw"]
@@ -49,7 +49,7 @@ def test_solve_json_schema():
 def test_direction_and_effort_options():
     r = run("solve", DEMO, "--mu", "0.3", "--direction", "ccw", "--effort", "3.6kN", "--json")
     base = run("solve", DEMO, "--mu", "0.3", "--direction", "ccw", "--json")
-    a, b = json.loads(r.stdout), json.loads(base.stdout)
+    a, b = output_json(r.stdout), output_json(base.stdout)
     assert [c["direction"] for c in a["cases"]] == ["ccw"]
     assert a["cases"][0]["torque_Nm"] == pytest.approx(2 * b["cases"][0]["torque_Nm"], rel=1e-9)
 
@@ -101,7 +101,7 @@ def test_config_file_maps_layers(tmp_path):
     (tmp_path / "dxfcheck.toml").write_text('[layers]\npivot = ["brk-fixed"]\nlink = ["BRK-CL"]\ndrum = ["BRK-DRUM"]\n')
     r = run("solve", tmp_path / "mapped.dxf", "--json")
     assert r.returncode == 0, r.stderr
-    assert json.loads(r.stdout)["mechanism"]["pins"][0]["pivot"] is True
+    assert output_json(r.stdout)["mechanism"]["pins"][0]["pivot"] is True
 
 
 def test_config_unknown_key_rejected(tmp_path):
@@ -129,11 +129,11 @@ def test_check_demo_fails_on_the_shoe_pins(tmp_path):
     junit = tmp_path / "gate.xml"
     r = run("check", DEMO, "--junit", junit, "--json")
     assert r.returncode == 1, r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     failed = sorted(x["rule"] for x in doc["rules"] if x["verdict"] == "fail")
     assert failed == ["lining.pressure.left shoe", "pin.bearing.S1", "pin.bearing.S2"]
     short = run("check", DEMO, "--shoe-model", "short", "--json")
-    failed_short = sorted(x["rule"] for x in json.loads(short.stdout)["rules"] if x["verdict"] == "fail")
+    failed_short = sorted(x["rule"] for x in output_json(short.stdout)["rules"] if x["verdict"] == "fail")
     assert failed_short == ["pin.bearing.S1", "pin.bearing.S2"]
     sources = {s["key"]: s["source"] for s in doc["spec"]}
     assert 'dxfcheck.toml [spec."winch_two_shoe.dxf"]' in sources["required_torque"]

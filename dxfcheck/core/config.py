@@ -1,14 +1,19 @@
-"""Project configuration: ``dxfcheck.toml`` and the drawing's own file.
+"""Project configuration: ``dxfcheck.toml``, ``[tool.dxfcheck]`` in
+``pyproject.toml``, and the drawing's own file.
 
-The project file is named with ``--config FILE`` or, failing that, found as
-``dxfcheck.toml`` in the drawing's folder or a parent folder.  The search
-stops at the first folder that is a repository root (holds ``.git``), holds a
-``pyproject.toml``, or is the user's home folder; it never reads a folder
-that other users can write to (a shared ``/tmp``), so a file planted there
-cannot change the layer map.  Its ``[layers]`` table maps each layer role to
-a list of layer names (matched case-insensitively)::
+The project file is named with ``--config FILE`` or, failing that, found in
+the drawing's folder or a parent folder: a ``dxfcheck.toml``, or else a
+``pyproject.toml`` that holds a ``[tool.dxfcheck]`` table (the same keys,
+one level down, as linters and test runners read theirs).  Where one folder
+holds both, ``dxfcheck.toml`` is the project file and the table is not read.
+The search stops at the first folder that is a repository root (holds
+``.git``), holds a ``pyproject.toml`` (with or without the table), or is the
+user's home folder; it never reads a folder that other users can write to (a
+shared ``/tmp``), so a file planted there cannot change the layer map.  Its
+``[layers]`` table maps each layer role to a list of layer names (matched
+case-insensitively)::
 
-    [layers]
+    [layers]                      # [tool.dxfcheck.layers] in pyproject.toml
     pivot = ["BRK-FIXED", "PIVOT"]
     link = ["BRK-CL"]
 
@@ -40,6 +45,7 @@ __all__ = [
     "CONFIG_NAME",
     "DEFAULT_LAYERS",
     "MAX_FILE_BYTES",
+    "PYPROJECT_NAME",
     "Config",
     "Role",
     "config_for_drawing",
@@ -47,10 +53,16 @@ __all__ = [
     "load_config",
     "read_toml",
     "sidecar_of",
+    "table_name",
     "toml_layers_line",
 ]
 
 CONFIG_NAME = "dxfcheck.toml"
+#: A Python project's file; its ``[tool.dxfcheck]`` table is a project file.
+PYPROJECT_NAME = "pyproject.toml"
+#: Where dxfcheck's keys sit in a ``pyproject.toml``.
+TOOL_TABLE = ("tool", "dxfcheck")
+_TOOL_TABLE_NAME = f"[{'.'.join(TOOL_TABLE)}]"
 #: Largest project file or sidecar read [bytes]: a real one is a few kB.
 MAX_FILE_BYTES = 1_000_000
 #: Files whose folder ends the search for a project file (a repository root
@@ -128,6 +140,14 @@ class Config:
         return out
 
 
+def table_name(path: str | os.PathLike[str] | None, table: str) -> str:
+    """How a table of the project file at ``path`` is written:
+    ``[layers]``, or ``[tool.dxfcheck.layers]`` in a ``pyproject.toml``."""
+    if path is not None and Path(path).name == PYPROJECT_NAME:
+        return f"[{'.'.join(TOOL_TABLE)}.{table}]"
+    return f"[{table}]"
+
+
 def toml_layers_line(role: Role, names: Sequence[str]) -> str:
     """The line of the ``[layers]`` table that maps ``role`` to ``names``,
     as :func:`load_config` reads it, e.g. ``pin = ["PIN", "PINS"]``."""
@@ -148,8 +168,26 @@ def _home() -> Path | None:
         return None
 
 
+def _tool_table(data: dict[str, Any], spath: str) -> dict[str, Any] | None:
+    """A ``pyproject.toml``'s ``[tool.dxfcheck]`` table, or None."""
+    tool = data.get(TOOL_TABLE[0])
+    table = tool.get(TOOL_TABLE[1]) if isinstance(tool, dict) else None
+    if table is not None and not isinstance(table, dict):
+        raise ConfigError(f"{_TOOL_TABLE_NAME} must be a table", path=spath)
+    return table
+
+
+def _has_tool_table(pyproject: Path) -> bool:
+    """Whether a ``pyproject.toml`` holds ``[tool.dxfcheck]`` (it is read,
+    within the same bounds as a project file: a broken one is refused,
+    naming it, since it may hold the layer map)."""
+    return _tool_table(read_toml(pyproject, f"the {PYPROJECT_NAME}"), str(pyproject)) is not None
+
+
 def find_config(drawing: Path) -> Path | None:
-    """The nearest ``dxfcheck.toml`` in the drawing's folder or its parents.
+    """The nearest project file in the drawing's folder or its parents: a
+    ``dxfcheck.toml``, or else a ``pyproject.toml`` with ``[tool.dxfcheck]``
+    (in one folder, ``dxfcheck.toml`` wins).
 
     The search stops after the first folder that is a repository root
     (``.git``), holds a ``pyproject.toml`` or is the user's home folder, and
@@ -162,13 +200,17 @@ def find_config(drawing: Path) -> Path | None:
         p = candidate / CONFIG_NAME
         if os.path.lexists(p):
             return p  # read_toml refuses what is not a regular file, naming it
+        pyproject = candidate / PYPROJECT_NAME
+        if os.path.lexists(pyproject) and _has_tool_table(pyproject):
+            return pyproject
         if candidate == home or any(os.path.lexists(candidate / m) for m in PROJECT_ROOT_MARKERS):
             return None
     return None
 
 
 def sidecar_of(drawing: Path) -> Path | None:
-    """The drawing's own file ``NAME.toml`` beside it, if there is one.
+    """The drawing's own file ``NAME.toml`` beside it, if there is one
+    (never a ``pyproject.toml``: that is the project's file).
 
     Raises
     ------
@@ -177,8 +219,8 @@ def sidecar_of(drawing: Path) -> Path | None:
         user than the drawing (it may have been planted there).
     """
     side = drawing.with_suffix(".toml")
-    if side == drawing or not os.path.lexists(side):
-        return None
+    if side == drawing or side.name == PYPROJECT_NAME or not os.path.lexists(side):
+        return None  # a drawing named pyproject.dxf has no own file: that one is the Python project's
     if _others_can_write(side.parent):
         try:
             foreign = side.lstat().st_uid != drawing.stat().st_uid
@@ -240,23 +282,24 @@ def _short(exc: BaseException) -> str:
 
 def _parse_layers(raw: Any, path: str, base: dict[Role, tuple[str, ...]]) -> dict[Role, tuple[str, ...]]:
     """``base`` with the roles of a ``[layers]`` table replaced."""
+    t = table_name(path, "layers")
     if not isinstance(raw, dict):
-        raise ConfigError("[layers] must be a table", path=path)
+        raise ConfigError(f"{t} must be a table", path=path)
     layers = dict(base)
     roles = {r.value: r for r in Role}
     for key, value in raw.items():
         if key not in roles:
-            raise ConfigError(f"[layers] has an unknown role {key!r} (roles: {', '.join(roles)})", path=path)
+            raise ConfigError(f"{t} has an unknown role {key!r} (roles: {', '.join(roles)})", path=path)
         if isinstance(value, str):
             value = [value]
         if not isinstance(value, list) or not all(isinstance(v, str) and v for v in value):
-            raise ConfigError(f"[layers] {key} must be a list of layer names", path=path)
+            raise ConfigError(f"{t} {key} must be a list of layer names", path=path)
         layers[roles[key]] = tuple(v.upper() for v in value)
     seen: dict[str, Role] = {}
     for role, names in layers.items():
         for n in names:
             if n in seen and seen[n] is not role:
-                raise ConfigError(f"[layers] layer {n!r} is given two roles ({seen[n]}, {role})", path=path)
+                raise ConfigError(f"{t} layer {n!r} is given two roles ({seen[n]}, {role})", path=path)
             seen[n] = role
     return layers
 
@@ -266,44 +309,51 @@ def _apply(data: dict[str, Any], spath: str, base: Config) -> Config:
     ``[spec]`` is checked to be a table, and read by :mod:`dxfcheck.gate.spec`)."""
     unknown = set(data) - _TOP_LEVEL
     if unknown:
+        where = f" in {_TOOL_TABLE_NAME}" if Path(spath).name == PYPROJECT_NAME else ""
         raise ConfigError(
-            f"unknown table or key {sorted(unknown)[0]!r} (known: {', '.join(sorted(_TOP_LEVEL))})",
+            f"unknown table or key {sorted(unknown)[0]!r}{where} (known: {', '.join(sorted(_TOP_LEVEL))})",
             path=spath,
         )
     layers = _parse_layers(data.get("layers", {}), spath, base.layers)
     if not isinstance(data.get("spec", {}), dict):
-        raise ConfigError("[spec] must be a table", path=spath)
+        raise ConfigError(f"{table_name(spath, 'spec')} must be a table", path=spath)
     markup = data.get("markup", {})
+    t = table_name(spath, "markup")
     if not isinstance(markup, dict):
-        raise ConfigError("[markup] must be a table", path=spath)
+        raise ConfigError(f"{t} must be a table", path=spath)
     for key, value in markup.items():
         if key not in _MARKUP_KEYS:
-            raise ConfigError(
-                f"[markup] has an unknown key {key!r} (known: {', '.join(sorted(_MARKUP_KEYS))})", path=spath
-            )
+            raise ConfigError(f"{t} has an unknown key {key!r} (known: {', '.join(sorted(_MARKUP_KEYS))})", path=spath)
         if not isinstance(value, str) or not value.strip():
-            raise ConfigError(f"[markup] {key} must be a layer name", path=spath)
+            raise ConfigError(f"{t} {key} must be a layer name", path=spath)
     skeleton = {n for names in layers.values() for n in names}
     force_layer = markup.get("force_layer", base.force_layer)
     note_layer = markup.get("note_layer", base.note_layer)
     for name in (force_layer, note_layer):
         if name.upper() in skeleton:
-            raise ConfigError(f"[markup] layer {name!r} is also a skeleton layer", path=spath)
+            raise ConfigError(f"{t} layer {name!r} is also a skeleton layer", path=spath)
     return replace(base, layers=layers, force_layer=force_layer, note_layer=note_layer)
 
 
 def load_config(path: Path | None) -> Config:
-    """Read a project file; ``None`` gives the defaults.
+    """Read a project file (a ``pyproject.toml``: its ``[tool.dxfcheck]``
+    table); ``None`` gives the defaults.
 
     Raises
     ------
     ConfigError
-        When the file cannot be read, is not TOML, or has unknown keys.
+        When the file cannot be read, is not TOML, has unknown keys, or is
+        a ``pyproject.toml`` without ``[tool.dxfcheck]``.
     """
     if path is None:
         return Config()
     spath = str(path)
     data = read_toml(path, "the project file")
+    if path.name == PYPROJECT_NAME:
+        table = _tool_table(data, spath)
+        if table is None:
+            raise ConfigError(f"has no {_TOOL_TABLE_NAME} table for dxfcheck", path=spath)
+        data = table
     cfg = _apply(data, spath, Config())
     return replace(cfg, path=spath, spec=data.get("spec", {}))
 

@@ -12,30 +12,45 @@ Conversion factors are exact by definition (the international inch is
 9.806 65 N), so they are written out here rather than taken from ezdxf,
 whose factors carry a rounding error in the 12th figure.
 
+Numbers are always read here (decimal and thousands marks, words around the
+number).  A unit the tables do not list, such as a compound ``daN*m``,
+``ft*lbf``, ``kgf/cm^2`` or ``MPa*ft/min``, is read by pint [3]_ where it is
+installed (the ``units`` extra): only the unit's text goes to pint, which
+is imported on the first such text, and its answer must have the dimension
+asked for (:func:`pint_factor`).  pint does not read the numbers: it takes
+``1 200 N`` for 200 N, ``1,5 kN`` for 15 kN and ``1.200,5 N`` for 1.2005 N
+(``tests/benchmarks/bench_units.py``).
+
 References
 ----------
 .. [1] NIST Special Publication 811 (2008 ed.), "Guide for the Use of the
    International System of Units", Appendix B.8 (conversion factors).
 .. [2] Autodesk, DXF Reference, HEADER section: ``$INSUNITS`` and
    ``$MEASUREMENT``.
+.. [3] pint, a Python package to define, operate and manipulate physical
+   quantities (https://pint.readthedocs.io), its default unit definitions.
 """
 
 from __future__ import annotations
 
+import functools
 import math
 import re
 from dataclasses import dataclass
+from typing import Any
 
 __all__ = [
     "FORCE_N",
     "INSUNITS_MM",
     "LENGTH_MM",
+    "PINT_UNITS",
     "SPACES",
     "AmbiguousTextError",
     "Quantity",
     "UnitError",
     "length_unit_factor",
     "parse_quantity",
+    "pint_factor",
     "quantity_in_text",
 ]
 
@@ -250,6 +265,27 @@ DIMENSIONS: dict[str, tuple[dict[str, float], str]] = {
     "heat_transfer": (HEAT_TRANSFER_W_M2_K, "W/(m2*K)"),
 }
 
+#: Dimensions whose units pint may read where the tables lack them, with the
+#: internal unit as pint writes it.  Not speed: pint's revolution is 2π
+#: radians and a frequency has the same dimension, so ``Hz`` would pass.
+PINT_UNITS: dict[str, str] = {
+    "length": "mm",
+    "force": "N",
+    "torque": "N*m",
+    "pressure": "MPa",
+    "power": "W",
+    "area": "mm**2",
+    "pv": "MPa*m/s",
+}
+#: What a unit given to pint may look like: names joined by ``*``, ``/``,
+#: ``·`` or a space, each with an exponent 2 or 3 (``cm^2``, ``cm2``, ``cm²``).
+#: Nothing else reaches pint (no brackets, numbers or ``**``, which its
+#: parser answers with assorted exceptions).
+_PINT_TEXT = re.compile(r"^[A-Za-zµ]+(?:\^?[23²³])?(?:\s*[*/·⋅ ]\s*[A-Za-zµ]+(?:\^?[23²³])?)*$")
+#: A word after a number in a drawing's text is given to pint only if it is
+#: compound (a plain word is a name, ``12 coils``).
+_COMPOUND = re.compile(r"[*/·⋅^]")
+
 #: Spaces that may group a number's digits in threes: space, no-break space,
 #: thin space, narrow no-break space, figure space.
 SPACES = " \u00a0\u2009\u202f\u2007"
@@ -305,6 +341,84 @@ class Quantity:
     value: float
     unit: str
     text: str
+
+
+@functools.cache
+def _registry() -> Any:
+    """pint's default registry, built on the first text that needs it.
+
+    Raises
+    ------
+    ImportError
+        When pint is not installed.
+    """
+    import pint
+
+    return pint.UnitRegistry()
+
+
+def _pint_spelling(unit: str) -> str:
+    """``kgf/cm²`` -> ``kgf/cm^2``; ``N·m`` -> ``N*m``; ``cm2`` -> ``cm^2``."""
+    u = unit.strip().replace("·", "*").replace("⋅", "*").replace("²", "^2").replace("³", "^3")
+    return re.sub(r"(?<=[A-Za-zµ])([23])\b", r"^\1", u)
+
+
+def pint_factor(unit: str, dimension: str) -> float | None:
+    """The size of ``unit`` in the internal unit of ``dimension``, read by
+    pint; None where pint cannot say (not installed, a dimension it does not
+    read for us, or a text that is not a unit expression).
+
+    Raises
+    ------
+    UnitError
+        When pint reads the unit as another dimension, does not know a name
+        in it, or (for a torque) reads an energy unit such as ``J``.
+    """
+    target = PINT_UNITS.get(dimension)
+    if target is None or not _PINT_TEXT.match(unit.strip()):
+        return None
+    try:
+        ureg = _registry()
+    except ImportError:
+        return None
+    import pint
+
+    try:
+        units = ureg.parse_units(_pint_spelling(unit))
+        if dimension == "torque" and any(
+            ureg.get_dimensionality(n) == ureg.get_dimensionality("J") for n in units._units
+        ):
+            raise UnitError(f"{unit!r} is an energy unit, not a torque; write e.g. 'N*m'")
+        factor = float(ureg.Quantity(1.0, units).to(target).magnitude)
+    except pint.errors.DimensionalityError:
+        hint = " (pint reads lb as a mass: write lbf)" if re.search(r"\blb\b", unit) else ""
+        raise UnitError(f"{unit!r} is not a {dimension} unit{hint}") from None
+    except pint.errors.PintError as exc:
+        raise UnitError(f"{unit!r} is not a unit pint knows ({exc})") from None
+    return factor
+
+
+def _pint_missing(dimension: str) -> bool:
+    """Whether pint would read ``dimension``'s compound units but is not installed."""
+    import importlib.util
+
+    return dimension in PINT_UNITS and importlib.util.find_spec("pint") is None
+
+
+def _factor(unit: str, dimension: str) -> float | None:
+    """The size of ``unit`` in the internal unit of ``dimension``: from the
+    tables, else from pint (:func:`pint_factor`); None when neither knows it.
+
+    Raises
+    ------
+    UnitError
+        From :func:`pint_factor`.
+    """
+    table = DIMENSIONS[dimension][0]
+    key = _normalise_unit(unit)
+    if key in table:
+        return table[key]
+    return pint_factor(unit, dimension)
 
 
 def _normalise_unit(unit: str) -> str:
@@ -442,11 +556,15 @@ def parse_quantity(text: str, dimension: str, *, default_unit: str | None = None
         if default_unit is None:
             raise UnitError(f"{text!r} has no unit; write e.g. '{text.strip()} {internal}'")
         unit = default_unit
-    key = _normalise_unit(unit)
-    if key not in table:
+    try:
+        factor = _factor(unit, dimension)
+    except UnitError as exc:
+        raise UnitError(f"{text!r}: {exc}") from None
+    if factor is None:
         known = ", ".join(sorted(table))
-        raise UnitError(f"{text!r}: {unit!r} is not a {dimension} unit (known: {known})")
-    value = num * table[key]
+        more = "; compound units such as daN*m need pint (extra 'units')" if _pint_missing(dimension) else ""
+        raise UnitError(f"{text!r}: {unit!r} is not a {dimension} unit (known: {known}{more})")
+    value = num * factor
     if not math.isfinite(value):
         raise UnitError(f"{text!r} is not a finite number")
     return Quantity(value=value, unit=internal, text=text.strip())
@@ -520,8 +638,9 @@ def _quantities_in_text(text: str, dimension: str, glued: str) -> tuple[list[Qua
         if glued and len(word) > 1 and word[-1] in glued and _unit_of(word[:-1]) == dimension:
             word = word[:-1]
         kind = _unit_of(word)
-        if kind == dimension:
-            value = num * table[_normalise_unit(word)]
+        factor = table.get(_normalise_unit(word)) if kind == dimension else _compound_factor(word, dimension, kind)
+        if factor is not None:
+            value = num * factor
             if not math.isfinite(value):
                 raise UnitError(f"{text.strip()!r}: {m[0].strip()!r} is not a finite number")
             written = text[m.start() : m.end() - len(m["unit"]) + len(word)]
@@ -529,6 +648,17 @@ def _quantities_in_text(text: str, dimension: str, glued: str) -> tuple[list[Qua
         elif kind in (None, "factor"):
             loose.append(m[0].strip())
     return found, loose
+
+
+def _compound_factor(word: str, dimension: str, kind: str | None) -> float | None:
+    """A compound unit after a number in a text (``45 daN*m``) read by pint,
+    or None (a plain word, another dimension, no pint)."""
+    if kind != "word" or not _COMPOUND.search(word):
+        return None
+    try:
+        return pint_factor(word, dimension)
+    except UnitError:
+        return None  # another dimension's unit: passed over, as the tables' are
 
 
 def _the_one_quantity(text: str, dimension: str, found: list[Quantity], loose: list[str]) -> Quantity:

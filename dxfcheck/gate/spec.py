@@ -35,7 +35,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
-from dxfcheck.core.config import read_toml, sidecar_of
+from dxfcheck.core.config import read_toml, sidecar_of, table_name
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.units import DIMENSIONS, Quantity, UnitError, parse_quantity
 from dxfcheck.gate.linings import LININGS, lining_values
@@ -509,12 +509,12 @@ def load_spec(
     for key, (value, note) in DEFAULTS.items():
         b.values[key] = SpecValue(key, value, "", str(value), f"default ({note})")
     if project:
-        src = f"{project_path or 'dxfcheck.toml'} [spec]"
+        src = f"{project_path or 'dxfcheck.toml'} {table_name(project_path, 'spec')}"
         drawing_tables = [k for k, v in project.items() if k.lower().endswith(".dxf") and isinstance(v, dict)]
         b.table(project, src, skip=drawing_tables)
         for k in drawing_tables:
             if k.lower() == p.name.lower():
-                b.table(project[k], f'{project_path or "dxfcheck.toml"} [spec."{k}"]')
+                b.table(project[k], f'{project_path or "dxfcheck.toml"} {table_name(project_path, "spec")[:-1]}."{k}"]')
     for name, raw in custom_properties:
         if name.lower().startswith(PROPERTY_PREFIX):
             _put_dotted(b, name[len(PROPERTY_PREFIX) :], raw, f"{p} header property {name}")

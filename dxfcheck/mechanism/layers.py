@@ -38,7 +38,7 @@ from collections import Counter
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 
-from dxfcheck.core.config import CONFIG_NAME, DEFAULT_LAYERS, Role, toml_layers_line
+from dxfcheck.core.config import CONFIG_NAME, DEFAULT_LAYERS, Role, table_name, toml_layers_line
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross, dist, point_segment_distance
 from dxfcheck.mechanism.model import Mechanism, Mounting
@@ -408,7 +408,7 @@ def _mapping(drawing: Drawing, role: Role, layer: str) -> str:
     """``"the [layers] table of FILE: pin = ["PIN", "PINS"]"``."""
     names = (*layer_map(drawing)[role], layer)
     where = drawing.layer_map_source or f"a {CONFIG_NAME} beside the drawing"
-    return f"the [layers] table of {where}: {toml_layers_line(role, names)}"
+    return f"the {table_name(drawing.layer_map_source, 'layers')} table of {where}: {toml_layers_line(role, names)}"
 
 
 def _fix(drawing: Drawing, miss: NearMiss) -> str:

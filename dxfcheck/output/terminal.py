@@ -18,6 +18,7 @@ import time
 from collections.abc import Callable, Iterable, Iterator
 from typing import IO, TYPE_CHECKING, Any
 
+from dxfcheck.core import progress
 from dxfcheck.core.errors import DxfcheckError
 from dxfcheck.core.findings import Finding, Severity
 from dxfcheck.core.textsafe import markup as _esc
@@ -45,6 +46,7 @@ __all__ = [
     "print_linings",
     "print_sensitivity",
     "print_solution",
+    "progress_bar",
 ]
 
 #: Width of the report when the output is not a terminal [characters].
@@ -499,6 +501,60 @@ def batch_progress(total: int, *, enabled: bool = True) -> Iterator[Callable[[An
             progress.update(task, advance=1, failures=failures["n"], rate=f"{rate:.1f}/s")
 
         yield on_result
+
+
+class _RichListener:
+    """The tasks of :mod:`dxfcheck.core.progress` as rich bars on a stream.
+
+    The display runs only while a task does: it starts with the first task
+    and stops (its bars erased) when the last one ends, so a report printed
+    afterwards, on either stream, never meets a live display; and it leaves
+    ``sys.stdout`` and ``sys.stderr`` as they are (no redirection)."""
+
+    def __init__(self, stream: IO[str]) -> None:
+        from rich.console import Console
+        from rich.progress import BarColumn, Progress, TaskProgressColumn, TextColumn, TimeRemainingColumn
+
+        self._bar = Progress(
+            TextColumn("{task.description}"),
+            BarColumn(),
+            TaskProgressColumn(),
+            TimeRemainingColumn(),
+            console=Console(file=stream),
+            transient=True,
+            redirect_stdout=False,
+            redirect_stderr=False,
+        )
+        self._running = 0
+
+    def start(self, label: str, total: float) -> object:
+        if self._running == 0:
+            self._bar.start()
+        self._running += 1
+        return self._bar.add_task(_esc(label), total=total)
+
+    def update(self, key: object, done: float) -> None:
+        self._bar.update(key, completed=done)  # type: ignore[arg-type]
+
+    def stop(self, key: object) -> None:
+        self._bar.remove_task(key)  # type: ignore[arg-type]
+        self._running -= 1
+        if self._running == 0:
+            self._bar.stop()
+
+
+@contextlib.contextmanager
+def progress_bar(*, enabled: bool = True, stream: IO[str] | None = None) -> Iterator[None]:
+    """Show the long work of the block (reading a big drawing, sampling, the
+    revisions of a compare) as rich progress bars on standard error, only
+    when that is a terminal and ``enabled``; each bar goes when its task
+    ends (nothing is left in the report)."""
+    stream = stream or sys.stderr
+    if not enabled or not stream.isatty():
+        yield
+        return
+    with progress.listening(_RichListener(stream)):
+        yield
 
 
 def print_batch(batch: Any, out: IO[str] | None = None) -> None:

@@ -21,9 +21,13 @@ full reader (and that to ezdxf's recover mode).
 from __future__ import annotations
 
 import functools
+import io
+import os
 from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import Any
+
+from dxfcheck.core import progress
 
 __all__ = ["MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported", "load_fast"]
 
@@ -31,6 +35,9 @@ __all__ = ["MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported",
 #: each block), counted on the entity's own layer: enough to recognise a pin
 #: or drum layer, bounded on a vendor sheet with thousands of holes.
 MAX_LOOSE_CIRCLES_PER_LAYER = 200
+#: Entities (groups) read between two progress updates: a few a second on a
+#: big file, no measurable cost.
+PROGRESS_EVERY_GROUPS = 4096
 
 #: Polyline flag bits (group code 70; DXF Reference, POLYLINE and
 #: LWPOLYLINE; from memory): closed, 3D polyline, polygon mesh, polyface mesh.
@@ -590,7 +597,15 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
             raise FastReadUnsupported("binary DXF")
     info = dxf_file_info(str(path))
     loader = _Loader(roles)
-    with open(path, encoding=info.encoding or "cp1252", errors="surrogateescape") as fh:
-        for name, section, body in _groups(iter(fh), roles):
+    size = os.path.getsize(path)
+    with (
+        open(path, "rb") as raw,
+        io.TextIOWrapper(raw, encoding=info.encoding or "cp1252", errors="surrogateescape") as fh,
+        progress.task(f"reading {path.name}", size) as bar,
+    ):
+        for n, (name, section, body) in enumerate(_groups(iter(fh), roles)):
             loader.take(name, section, body)
+            if n % PROGRESS_EVERY_GROUPS == 0:
+                bar.set(raw.tell())  # the bytes the text layer has taken so far
+        bar.set(size)
     return loader.doc

@@ -32,7 +32,7 @@ from typing import NamedTuple
 import numpy as np
 from numpy.typing import NDArray
 
-from dxfcheck.core import deadline
+from dxfcheck.core import deadline, progress
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.geometry import Point
 from dxfcheck.mechanism import FRAME, Drum, Mechanism, Shoe
@@ -301,11 +301,13 @@ def _solve_chunks(
             for i in range(0, len(mu_all), chunk)
         ]
         results = []
-        for f in futures:
-            try:
-                results.append(f.result(timeout=deadline.remaining()))
-            except FuturesTimeout:
-                raise deadline.TimeLimitExceeded(deadline.limit_seconds() or 0.0, "sampling") from None
+        with progress.task(f"sampling {parts.direction}", len(mu_all)) as bar:
+            for f in futures:
+                try:
+                    results.append(f.result(timeout=deadline.remaining()))
+                except FuturesTimeout:
+                    raise deadline.TimeLimitExceeded(deadline.limit_seconds() or 0.0, "sampling") from None
+                bar.advance(len(results[-1][0]))
         done = True
         return results
     finally:

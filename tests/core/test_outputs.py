@@ -16,7 +16,6 @@ Reference ("Group codes in numerical order": 999, comment), from memory.
 
 from __future__ import annotations
 
-import json
 import os
 import re
 import resource
@@ -32,6 +31,7 @@ from pathlib import Path
 import ezdxf
 import pytest
 from common import ROOT, conveyor_block, winch_two_shoe
+from schema_check import output_json
 
 from dxfcheck.core.files import MARKER, is_dxfcheck_output
 
@@ -388,7 +388,7 @@ def test_batch_skips_outputs_by_marker_and_says_so(tmp_path):
     assert "conveyor-rev-B.dxf: skipped" in r.stderr and "marked-up copy" in r.stderr
     assert re.search(r"2 drawings: .*; 1 skipped", r.stdout), r.stdout
     r = run("batch", vault, "--no-cache", "--jobs", "1", "--json")
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert sorted(Path(x["drawing"]).name for x in doc["results"]) == ["conveyor.dxf", "lever-forces.dxf"]
     assert [Path(x["path"]).name for x in doc["skipped"]] == ["conveyor-rev-B.dxf"]
 
@@ -403,7 +403,7 @@ def test_compare_skips_outputs_in_a_folder_and_refuses_one_named(tmp_path):
     r = run("compare", revs, "--json")
     assert r.returncode in (0, 1), r.stderr
     assert "rev-C.dxf: skipped" in r.stderr
-    assert [Path(p).name for p in json.loads(r.stdout)["drawings"]] == ["rev-A.dxf", "rev-B.dxf"]
+    assert [Path(p).name for p in output_json(r.stdout)["drawings"]] == ["rev-A.dxf", "rev-B.dxf"]
     r = run("compare", revs / "rev-A.dxf", revs / "rev-C.dxf")
     assert r.returncode == 2 and "marked-up copy" in r.stderr
 

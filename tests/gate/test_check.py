@@ -4,7 +4,6 @@ and exit codes."""
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
@@ -12,6 +11,7 @@ import xml.etree.ElementTree as ET
 
 import pytest
 from common import block_brake, push_rod_block
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck.gate.rules import Verdict
@@ -265,7 +265,7 @@ def test_junit_parses_and_counts_rules(brake, tmp_path):
     out = tmp_path / "gate.xml"
     r = cli("check", brake, "--mu", MU, "--set", "pin_shear_allow=1MPa", "--junit", out, "--json")
     assert r.returncode == 1
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert doc["schema"] == "dxfcheck.check/2" and doc["verdict"] == "fail"
     suite = ET.parse(out).getroot().find("testsuite")
     cases = suite.findall("testcase")

@@ -9,7 +9,6 @@ larger and the report shows both, with their sources.
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
@@ -17,6 +16,7 @@ import sys
 import ezdxf
 import pytest
 from common import block_brake, winch_two_shoe
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck.pipeline import check
@@ -201,7 +201,7 @@ def test_cli_report_shows_both_duties(brake):
     text = " ".join(r.stdout.replace("│", " ").split())  # the note column wraps inside the table
     assert "governs" in text and "74.09" in text and "50 N·m" in text
     r = cli("check", brake, "--mu", MU, "--set", "required_torque=50 N*m", "--json")
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     rule = next(x for x in doc["rules"] if x["rule"] == "torque.cw")
     assert rule["limit"] == pytest.approx(MOTOR_NM, rel=1e-12)
     assert {x["duty"] for x in rule["inputs"]["duties"]} == {"required_torque", "motor duty"}

@@ -12,13 +12,13 @@ drawing, not with a published value.
 
 from __future__ import annotations
 
-import json
 import subprocess
 import sys
 from pathlib import Path
 
 import pytest
 from common import CATALOGUE, ROOT, conveyor_block, pivoted_long_shoes, winch_two_shoe
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck.core.config import Role, load_config
@@ -151,7 +151,7 @@ def test_cli_check_does_not_pass_pins_on_pins(tmp_path):
     assert "layers: pivot ← PIVOT (2), pin ← PIN (none)" in r.stdout
     strict = run("check", path, "--strict")
     assert strict.returncode == 1 and strict.stdout.startswith("FAIL")
-    js = json.loads(run("check", path, "--json").stdout)
+    js = output_json(run("check", path, "--json").stdout)
     hygiene = next(x for x in js["rules"] if x["rule"] == "drawing.hygiene")
     assert hygiene["verdict"] == "warn" and {"M223", "M224"} <= set(hygiene["inputs"]["codes"])
 
@@ -161,7 +161,7 @@ def test_cli_solve_reports_layers_searched(tmp_path):
     r = run("solve", path)
     assert r.returncode == 0, r.stderr
     assert "layers: pivot ← PIVOT (2), pin ← PIN (none), link ← LINK (4), drum ← DRUM (1)" in r.stdout
-    doc = json.loads(run("solve", path, "--json").stdout)
+    doc = output_json(run("solve", path, "--json").stdout)
     assert doc["layers"]["pin"] == ["PIN"] and doc["layers"]["drum"] == ["DRUM"] and len(doc["layers"]) == 9
     near = [f for f in doc["findings"] if f["code"] == "M223"]
     assert near and near[0]["layers"] == ["PINS"] and near[0]["name"] == "layer-near-miss"
@@ -193,8 +193,8 @@ def test_cli_drum_on_brk_drum_names_the_layer_searched_and_the_mapping(tmp_path)
     _toml(tmp_path, 'drum = ["DRUM", "BRK-DRUM"]')
     fixed = run("solve", path, "--json")
     assert fixed.returncode == 0, fixed.stderr
-    demo = json.loads(run("solve", ROOT / "drawings" / "winch_two_shoe.dxf", "--json").stdout)
-    got = json.loads(fixed.stdout)
+    demo = output_json(run("solve", ROOT / "drawings" / "winch_two_shoe.dxf", "--json").stdout)
+    got = output_json(fixed.stdout)
     assert got["cases"][0]["torque_Nm"] == pytest.approx(demo["cases"][0]["torque_Nm"], rel=1e-12)
     assert got["layers"]["drum"] == ["DRUM", "BRK-DRUM"]
 
@@ -301,7 +301,7 @@ def test_no_near_miss_on_the_catalogue(tmp_path, name):
 @pytest.mark.parametrize("path", sorted((ROOT / "drawings").glob("*.dxf")), ids=lambda p: p.name)
 def test_no_near_miss_on_the_demos(path):
     r = run("check", path, "--json")
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert not {"M223", "M224"} & {f["code"] for f in doc["findings"]}
     assert doc["layers"] == {role.value: [role.value.upper()] for role in Role}
 

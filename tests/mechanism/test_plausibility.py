@@ -9,7 +9,6 @@ every test geometry must stay free of plausibility findings.
 from __future__ import annotations
 
 import inspect
-import json
 import math
 import subprocess
 import sys
@@ -18,6 +17,7 @@ import common
 import ezdxf
 import pytest
 from common import ROOT, block_brake, simple_band, winch_two_shoe
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck.core.errors import DxfcheckError
@@ -40,7 +40,7 @@ def run(*args, cwd=None):
 def check_json(*args):
     r = run("check", *args, "--json")
     assert r.returncode in (0, 1), r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     return r.returncode, doc, {x["rule"]: x for x in doc["rules"]}, {f["code"] for f in doc["findings"]}
 
 
@@ -144,7 +144,7 @@ def test_confirmed_implausible_unit_warns_and_strict_fails(metres_drawing):
 def test_solve_shows_the_findings_and_exits_0(metres_drawing):
     r = run("solve", metres_drawing, "--json")
     assert r.returncode == 0, r.stderr
-    assert "D110" in {f["code"] for f in json.loads(r.stdout)["findings"]}
+    assert "D110" in {f["code"] for f in output_json(r.stdout)["findings"]}
     r = run("solve", metres_drawing)
     assert r.returncode == 0 and "D110" in r.stdout
 

@@ -11,7 +11,6 @@ source.)
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
@@ -19,6 +18,7 @@ import sys
 import ezdxf
 import pytest
 from common import ROOT, capstan_band, conveyor_block, winch_two_shoe
+from schema_check import output_json
 
 GAP_MM = 0.5
 
@@ -95,7 +95,7 @@ def test_json_refusal_is_one_document(tmp_path):
         [sys.executable, "-m", "dxfcheck", "solve", str(path), "--json"], capture_output=True, text=True, timeout=120
     )
     assert r.returncode == 2
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert doc["schema"] == "dxfcheck.solve/2" and doc["drawing"] == str(path)
     assert doc["error"]["kind"] == "unusable"
     codes = [f["code"] for f in doc["findings"]]
@@ -104,7 +104,7 @@ def test_json_refusal_is_one_document(tmp_path):
     r = subprocess.run(
         [sys.executable, "-m", "dxfcheck", "check", str(path), "--json"], capture_output=True, text=True, timeout=120
     )
-    assert r.returncode == 2 and json.loads(r.stdout)["schema"] == "dxfcheck.check/2"
+    assert r.returncode == 2 and output_json(r.stdout)["schema"] == "dxfcheck.check/2"
 
 
 def test_json_refusal_of_compare_is_one_document(tmp_path):
@@ -125,5 +125,5 @@ def test_json_refusal_of_compare_is_one_document(tmp_path):
         timeout=120,
     )
     assert r.returncode == 2
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert doc["schema"] == "dxfcheck.revision.compare/2" and doc["error"]["kind"] == "unusable"

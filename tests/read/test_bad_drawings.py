@@ -15,6 +15,7 @@ import pytest
 from common import conveyor_block, winch_two_shoe
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
+from schema_check import output_json
 
 from dxfcheck import cli
 
@@ -94,8 +95,6 @@ def test_byte_flips(capsys, good, tmp_path):
 
 
 def test_binary_and_r12_versions_solve_alike(capsys, good, tmp_path):
-    import json
-
     import ezdxf
 
     doc = ezdxf.readfile(good / "winch.dxf")
@@ -105,10 +104,10 @@ def test_binary_and_r12_versions_solve_alike(capsys, good, tmp_path):
     for name in ("winch-bin.dxf", "winch-r12.dxf"):
         rc, out, _ = run(capsys, "solve", tmp_path / name, "--json", "--units", "mm")
         assert rc == 0
-        results.append(json.loads(out)["cases"][0]["torque_Nm"])
+        results.append(output_json(out)["cases"][0]["torque_Nm"])
         TRIED["binary/R12"] += 1
     rc, out, _ = run(capsys, "solve", good / "winch.dxf", "--json")
-    assert results == [pytest.approx(json.loads(out)["cases"][0]["torque_Nm"], rel=1e-12)] * 2
+    assert results == [pytest.approx(output_json(out)["cases"][0]["torque_Nm"], rel=1e-12)] * 2
 
 
 @pytest.mark.parametrize(
@@ -398,8 +397,6 @@ UNIT_SLIPS = {
 def test_units_misread(capsys, tmp_path, case):
     """A drawing read in the wrong unit never passes check; the finding says
     which unit makes it plausible; a confirmed or plausible unit passes."""
-    import json
-
     sketch, measurement, options, code, must, must_not, phrase = UNIT_SLIPS[case]
     path = tmp_path / "units.dxf"
     doc = sketch.to_doc()
@@ -408,7 +405,7 @@ def test_units_misread(capsys, tmp_path, case):
     doc.saveas(path)
     rc, out, _ = run(capsys, "check", path, "--json", *options)
     TRIED["units misread"] += 1
-    report = json.loads(out)
+    report = output_json(out)
     codes = {f["code"] for f in report["findings"]}
     units_rule = next(r for r in report["rules"] if r["rule"] == "drawing.units")
     assert rc == code, units_rule
@@ -450,7 +447,6 @@ def test_hostile_labels_are_shown_not_obeyed(capsys, tmp_path):
     override, rich markup and < & >: no raw control character anywhere, the
     markup printed as written, both XML files well-formed (parsed here with
     xml.etree), the labels readable in them."""
-    import json
     import xml.etree.ElementTree as ET
 
     import ezdxf
@@ -462,7 +458,7 @@ def test_hostile_labels_are_shown_not_obeyed(capsys, tmp_path):
     assert "\\x1b[31mO1<&>" in out and "[/]lev\\x07er [bold red]x" in out and ":warning:" in out
     rc, out, _ = run(capsys, "solve", path, "--json")
     assert rc == 0 and not any(c in out for c in RAW_CONTROLS)
-    names = {p["name"] for p in json.loads(out)["mechanism"]["pins"]}
+    names = {p["name"] for p in output_json(out)["mechanism"]["pins"]}
     assert names == {HOSTILE_LABELS["O"]}  # the data itself is kept, JSON escapes it
     junit = tmp_path / "gate.xml"
     rc, out, _ = run(capsys, "check", path, "--junit", junit)
@@ -548,14 +544,12 @@ def test_layer_slips(capsys, tmp_path, case):
     """A role's entities on a layer with no role never pass check quietly:
     the finding names the layer and the [layers] line that reads it; a
     warning fails --strict."""
-    import json
-
     build, code, must, phrase = LAYER_SLIPS[case]
     path = tmp_path / "layers.dxf"
     build().saveas(path)
     rc, out, _ = run(capsys, "check", path, "--json")
     TRIED["layer near miss"] += 1
-    report = json.loads(out)
+    report = output_json(out)
     codes = {f["code"] for f in report["findings"]}
     assert rc == code, report.get("error")
     assert must <= codes, codes

@@ -9,7 +9,6 @@ of a few kB: answers within seconds, never more than a few hundred MB.
 
 from __future__ import annotations
 
-import json
 import os
 import resource
 import subprocess
@@ -21,6 +20,7 @@ from pathlib import Path
 import hostile
 import pytest
 from common import winch_two_shoe
+from schema_check import output_json
 
 ROOT = Path(__file__).resolve().parents[2]  # the repository
 #: Address space of each child [bytes]: numpy and its threads fit well within.
@@ -123,7 +123,7 @@ def test_a_skeleton_placed_on_itself_many_times_is_refused(tmp_path):
 def test_a_deep_chain_of_blocks_is_read_in_bounded_time(tmp_path):
     run = dxfcheck("solve", hostile.deep_chain(tmp_path, n=20_000), "--json", limit_s=60)
     assert run.code == 0
-    doc = json.loads(run.out)
+    doc = output_json(run.out)
     assert len(doc["mechanism"]["pins"]) == 7
     assert any("nested deeper than 32" in f["message"] for f in doc["findings"])
 
@@ -164,9 +164,9 @@ def test_a_time_limit_is_never_taken_for_a_reading_problem(tmp_path):
         run = dxfcheck("solve", path, "--json", "--timeout", limit, limit_s=60)
         if run.code == 2:
             assert f"took longer than {limit} s (--timeout)" in run.err
-            assert json.loads(run.out)["error"]
+            assert output_json(run.out)["error"]
         else:
-            doc = json.loads(run.out)
+            doc = output_json(run.out)
             assert run.code == 0 and len(doc["mechanism"]["pins"]) == 7
             assert not [f for f in doc["findings"] if f["code"] in ("D106", "D109")]
     assert run.code == 0  # with 30 s it ends in time
@@ -280,7 +280,7 @@ def test_values_out_of_range_are_named(winch, tmp_path, args, named):
     run = dxfcheck(args[0], winch, *args[1:], limit_s=30, cwd=tmp_path)
     assert run.code == 2 and named in run.err, run.err
     if "--json" in args:
-        assert json.loads(run.out)["error"]
+        assert output_json(run.out)["error"]
 
 
 def test_a_toml_integer_of_thousands_of_digits_is_refused(tmp_path, winch):
@@ -303,7 +303,7 @@ def test_what_follows_a_complete_eof_is_ignored_with_a_finding(tmp_path, kind):
     path = hostile.eof_trailer(tmp_path, kind)
     run = dxfcheck("solve", path, "--json", limit_s=30)
     assert run.code == 0, run.err
-    doc = json.loads(run.out)
+    doc = output_json(run.out)
     after = [f for f in doc["findings"] if f["code"] == "D112"]
     assert len(after) == (0 if kind == "blank-lines" else 1)
     assert lib.read_drawing(path, reader="fast") == lib.read_drawing(path, reader="full")
@@ -333,7 +333,7 @@ def test_a_project_file_in_a_folder_others_can_write_is_not_read(tmp_path, winch
     drawing = shared / "me" / "w.dxf"
     drawing.write_bytes(winch.read_bytes())
     run = dxfcheck("solve", drawing, "--json", limit_s=30)
-    assert run.code == 0 and json.loads(run.out)["config"] is None
+    assert run.code == 0 and output_json(run.out)["config"] is None
 
 
 @pytest.mark.parametrize("marker", [".git", "pyproject.toml"])
@@ -345,10 +345,10 @@ def test_the_search_stops_at_a_project_root(tmp_path, winch, marker):
     drawing = repo / "drawings" / "w.dxf"
     drawing.write_bytes(winch.read_bytes())
     run = dxfcheck("solve", drawing, "--json", limit_s=30)
-    assert run.code == 0 and json.loads(run.out)["config"] is None
+    assert run.code == 0 and output_json(run.out)["config"] is None
     (repo / "dxfcheck.toml").write_text("[spec]\nmu = 0.3\n")
     run = dxfcheck("solve", drawing, "--json", limit_s=30)
-    assert json.loads(run.out)["config"] == str((repo / "dxfcheck.toml").resolve())
+    assert output_json(run.out)["config"] == str((repo / "dxfcheck.toml").resolve())
 
 
 def test_the_project_file_used_is_in_every_report(tmp_path, winch):
@@ -357,7 +357,7 @@ def test_the_project_file_used_is_in_every_report(tmp_path, winch):
     drawing.write_bytes(winch.read_bytes())
     config = str((tmp_path / "dxfcheck.toml").resolve())
     for command in ("solve", "check"):
-        assert json.loads(dxfcheck(command, drawing, "--json", limit_s=30).out)["config"] == config
+        assert output_json(dxfcheck(command, drawing, "--json", limit_s=30).out)["config"] == config
         assert "mapfrom" + config in "".join(dxfcheck(command, drawing, limit_s=30).out.split())
 
 
@@ -379,18 +379,18 @@ def test_the_drawing_s_own_file_is_read_alike_by_every_command(tmp_path):
     """One rule (README, configuration): NAME.toml beside NAME.dxf may hold
     [layers], [markup] and [spec]; solve, check, compare and batch read it."""
     old, new = _vendor(tmp_path / "rev-a"), _vendor(tmp_path / "rev-b")
-    solved = json.loads(dxfcheck("solve", old, "--json", limit_s=30).out)
+    solved = output_json(dxfcheck("solve", old, "--json", limit_s=30).out)
     assert len(solved["mechanism"]["pins"]) == 7 and solved["sidecar"] == str(old.with_suffix(".toml"))
     checked = dxfcheck("check", old, "--json", limit_s=30)
-    doc = json.loads(checked.out)
+    doc = output_json(checked.out)
     assert checked.code == 0 and len(doc["mechanism"]["pins"]) == 7
     assert any(v["key"] == "required_torque" and "brake.toml" in v["source"] for v in doc["spec"])
     named = dxfcheck("check", old, "--config", old.with_suffix(".toml"), "--json", limit_s=30)
-    assert named.code == 0 and json.loads(named.out)["config"] == str(old.with_suffix(".toml"))
+    assert named.code == 0 and output_json(named.out)["config"] == str(old.with_suffix(".toml"))
     compared = dxfcheck("compare", old, new, limit_s=60)
     assert compared.code == 0, compared.err
     batch = dxfcheck("batch", tmp_path, "--json", "--no-cache", limit_s=120)
-    statuses = {Path(r["drawing"]).parent.name: r["status"] for r in json.loads(batch.out)["results"]}
+    statuses = {Path(r["drawing"]).parent.name: r["status"] for r in output_json(batch.out)["results"]}
     assert statuses == {"rev-a": "pass", "rev-b": "pass"}, batch.out
 
 
@@ -414,5 +414,5 @@ def test_ezdxf_messages_become_findings(tmp_path, winch):
     path.write_text("\n".join(lines))
     run = dxfcheck("solve", path, "--json", limit_s=30)
     assert run.err == ""  # nothing outside the report
-    messages = [f["message"] for f in json.loads(run.out)["findings"]]
+    messages = [f["message"] for f in output_json(run.out)["findings"]]
     assert any('invalid integer value "1e999"' in m for m in messages)

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
@@ -10,6 +9,7 @@ import sys
 import ezdxf
 import pytest
 from common import capstan_band, conveyor_block, winch_two_shoe
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck import cli
@@ -140,7 +140,7 @@ def test_cli_exit_codes_history_and_outputs(tmp_path, capsys):
     rc = cli.main(
         ["compare", str(tmp_path), "--max-torque-drop", "0%", "--json", "--svg", str(svg), "--annotate", str(marked)]
     )
-    doc = json.loads(capsys.readouterr().out)
+    doc = output_json(capsys.readouterr().out)
     assert rc == 1 and doc["failed"] is True
     assert [row["drawing"] for row in doc["trend"]] == [str(p) for p in revs]
     assert len(doc["steps"]) == 2
@@ -300,7 +300,7 @@ def test_cli_json_lists_geometry_changes_and_thresholds(tmp_path):
     capstan_spring_moved(-40.0).save(b)
     r = _cli("compare", a, b, "--json")
     assert r.returncode == 1, r.stderr  # the default 5 % torque-drop limit is crossed
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert doc["schema"] == "dxfcheck.revision.compare/2"
     assert doc["thresholds"] == {
         "max_torque_drop": 0.05,
@@ -313,7 +313,7 @@ def test_cli_json_lists_geometry_changes_and_thresholds(tmp_path):
     springs = [c for c in step["changes"] if c["kind"] == "spring"]
     assert len(springs) == 2 and all(len(c["at_mm"]) == 2 for c in springs)
     r = _cli("compare", a, b, "--max-torque-drop", "8%", "--json")
-    assert r.returncode == 0 and json.loads(r.stdout)["thresholds"]["max_torque_drop_source"] == "--max-torque-drop"
+    assert r.returncode == 0 and output_json(r.stdout)["thresholds"]["max_torque_drop_source"] == "--max-torque-drop"
     r = _cli("compare", a, b, "--set", "max_torque_drop=0.1")
     assert r.returncode == 0
     assert "torque drop 10 % (spec key max_torque_drop, command line)" in " ".join(r.stdout.split())
@@ -403,7 +403,7 @@ def test_trend_svg_axis_required_line_and_labels(tmp_path):
     svg = tmp_path / "trend.svg"
     r = _cli("compare", *names, "--set", "required_torque=1650 N*m", "--svg", svg, "--json")
     assert r.returncode == 0, r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     torques = [row["torque_cw_Nm"] for row in doc["trend"]]
     assert [row["required_torque_Nm"] for row in doc["trend"]] == [1650.0] * 3
     assert torques[2] / torques[0] == pytest.approx(370 / 330, rel=1e-9)

@@ -5,7 +5,6 @@ double-block examples (Mott, Jindal, book 764, Sarkar) are in
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
@@ -13,6 +12,7 @@ import sys
 import pytest
 from common import block_brake, differential_band, double_block_spring_pair, simple_band
 from handcalc import simple_band_effort
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck.core.findings import Code
@@ -60,7 +60,7 @@ def test_compression_spring_pushes(tmp_path):
         timeout=120,
     )
     assert r.returncode == 1  # solved, but no brake
-    for c in json.loads(r.stdout)["cases"]:
+    for c in output_json(r.stdout)["cases"]:
         assert c["torque_Nm"] is None and c["not_braking"].startswith("S303")
     r = subprocess.run(
         [sys.executable, "-m", "dxfcheck", "solve", str(tmp_path / "b.dxf"), "--mu", "0.4"],
@@ -113,7 +113,7 @@ def test_effort_for_torque_cli_keeps_load_ratios(tmp_path):
         timeout=120,
     )
     assert r.returncode == 0, r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     for c in doc["cases"]:
         f = {ld["name"]: ld["force_N"] for ld in c["loads"]}
         assert f["F1"] == pytest.approx(2 * f["F2"], rel=1e-12)

@@ -2,12 +2,12 @@
 
 from __future__ import annotations
 
-import json
 from dataclasses import replace
 
 import numpy as np
 import pytest
 from common import capstan_band, conveyor_block, winch_two_shoe
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck import cli
@@ -105,7 +105,7 @@ def test_cli_sampling(tmp_path, capsys):
         ]
     )
     assert rc == 0
-    doc = json.loads(capsys.readouterr().out)
+    doc = output_json(capsys.readouterr().out)
     assert doc["schema"] == "dxfcheck.statics.sampling/1" and doc["samples"] == 3000
     assert {d["direction"] for d in doc["directions"]} == {"cw", "ccw"}
     assert 0 < doc["directions"][0]["p_below_required"] < 1

@@ -19,12 +19,12 @@ refuse them, and checks that the marked-up arrows are the solver's vectors.
 from __future__ import annotations
 
 import dataclasses
-import json
 import math
 import re
 
 import pytest
 from common import CATALOGUE, capstan_band, conveyor_block, winch_two_shoe
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck import cli
@@ -259,7 +259,7 @@ def test_cli_reports_a_failed_check_as_an_internal_error(tmp_path, monkeypatch, 
     code = cli.main(["solve", str(_capstan(tmp_path)), "--json"])
     out, err = capsys.readouterr()
     assert code == cli.EXIT_INTERNAL == 3
-    doc = json.loads(out)  # one JSON document, without a result
+    doc = output_json(out)  # one JSON document, without a result
     assert doc["error"]["kind"] == "internal" and "cases" not in doc and "drum torque" in doc["error"]["message"]
     assert "internal error" in err and "drum torque" in err and "capstan.dxf" in err
 

@@ -1,0 +1,164 @@
+"""The published JSON Schemas: shipped, printed by ``dxfcheck schema``, met
+by every document the commands print, and strict enough to refuse a
+document with a wrong type, a missing key or a key of its own.
+
+Checked with the ``jsonschema`` package (draft 2020-12 meta-schema and
+validator: JSON Schema Core and Validation, draft 2020-12,
+json-schema.org); the rest is the project's own convention (no published
+source)."""
+
+from __future__ import annotations
+
+import copy
+import json
+import subprocess
+import sys
+import tomllib
+
+import jsonschema
+import pytest
+from common import ROOT
+from schema_check import output_json, validate_document, validator
+
+from dxfcheck.batch import BATCH_SCHEMA
+from dxfcheck.core.geometry import Affine
+from dxfcheck.output.json import CHECK_SCHEMA, COMPARE_SCHEMA, SENSITIVITY_SCHEMA, SOLVE_SCHEMA
+from dxfcheck.output.schemas import DOCUMENTS, SCHEMA_NAMES, load_schema, schema_text
+
+DEMOS = ROOT / "drawings"
+WINCH = DEMOS / "winch_two_shoe.dxf"
+
+
+def run(*args, cwd=None):
+    return subprocess.run(
+        [sys.executable, "-m", "dxfcheck", *map(str, args)], capture_output=True, text=True, cwd=cwd, timeout=300
+    )
+
+
+def test_every_schema_is_valid_draft_2020_12_and_names_its_document():
+    """Each file passes the draft 2020-12 meta-schema; the document's
+    versioned name in the schema is the one the code writes, so that a new
+    document version needs a new schema."""
+    assert set(SCHEMA_NAMES) == {"solve", "check", "compare", "batch", "sensitivity", "error"}
+    written = {
+        "solve": SOLVE_SCHEMA,
+        "check": CHECK_SCHEMA,
+        "compare": COMPARE_SCHEMA,
+        "batch": BATCH_SCHEMA,
+        "sensitivity": SENSITIVITY_SCHEMA,
+    }
+    assert written == DOCUMENTS
+    for name in SCHEMA_NAMES:
+        schema = load_schema(name)
+        jsonschema.Draft202012Validator.check_schema(schema)
+        assert schema["$schema"] == "https://json-schema.org/draft/2020-12/schema"
+        if name in DOCUMENTS:
+            assert schema["properties"]["schema"] == {"const": DOCUMENTS[name]}
+            version = DOCUMENTS[name].rsplit("/", 1)[1]
+            assert schema["$id"].endswith(f":{name}:{version}")
+
+
+def test_schemas_are_package_data():
+    """pyproject ships the schema files with the package (a wheel without
+    them would print nothing for ``dxfcheck schema``)."""
+    meta = tomllib.loads((ROOT / "pyproject.toml").read_text())
+    assert "*.json" in meta["tool"]["setuptools"]["package-data"]["dxfcheck.output.schemas"]
+
+
+@pytest.mark.parametrize("drawing", ["winch_two_shoe", "conveyor_block", "capstan_band"])
+def test_solve_and_check_of_every_demo_meet_their_schemas(drawing):
+    path = DEMOS / f"{drawing}.dxf"
+    solved = run("solve", path, "--json")
+    assert solved.returncode in (0, 1), solved.stderr
+    assert output_json(solved.stdout)["schema"] == SOLVE_SCHEMA
+    checked = run("check", path, "--json")
+    assert checked.returncode in (0, 1), checked.stderr
+    assert output_json(checked.stdout)["schema"] == CHECK_SCHEMA
+
+
+def test_compare_batch_and_sensitivity_meet_their_schemas(tmp_path):
+    moved = tmp_path / "winch-B.dxf"
+    from common import winch_two_shoe
+
+    winch_two_shoe().save(moved, transform=Affine.translation(300, 40) @ Affine.rotation(15))
+    compared = run("compare", WINCH, moved, "--json")
+    assert compared.returncode in (0, 1), compared.stderr
+    assert output_json(compared.stdout)["schema"] == COMPARE_SCHEMA
+    batch = run("batch", DEMOS, "--json", "--no-cache", "--jobs", "1")
+    assert batch.returncode in (0, 1), batch.stderr
+    assert len(output_json(batch.stdout)["results"]) == 3
+    sampled = run("solve", WINCH, "--mu", "0.3..0.4", "--samples", "200", "--pin-tolerance", "0.2mm", "--json")
+    assert sampled.returncode == 0, sampled.stderr
+    assert output_json(sampled.stdout)["schema"] == SENSITIVITY_SCHEMA
+
+
+@pytest.mark.parametrize("command", ["solve", "check"])
+def test_refusals_meet_the_error_schema(tmp_path, command):
+    """A refusal prints the error document under the command's name; the
+    command's schema accepts it, and so does the error schema."""
+    r = run(command, tmp_path / "missing.dxf", "--json")
+    assert r.returncode == 2
+    doc = output_json(r.stdout)
+    assert doc["error"]["kind"] == "unusable"
+    validate_document(doc, "error")
+
+
+def _demo_docs():
+    solved = json.loads(run("solve", WINCH, "--json").stdout)
+    checked = json.loads(run("check", WINCH, "--json").stdout)
+    return solved, checked
+
+
+MUTATIONS = {
+    "missing caution": lambda d: d.pop("caution"),
+    "torque as text": lambda d: d["cases"][0].__setitem__("torque_Nm", "2139.7"),
+    "pin without fx_N": lambda d: d["cases"][0]["pins"][0].pop("fx_N"),
+    "unknown top-level key": lambda d: d.__setitem__("torque", 1.0),
+    "unknown shoe key": lambda d: d["cases"][0]["shoes"][0].__setitem__("pressure_MPa", 0.5),
+    "direction not a drum direction": lambda d: d["cases"][0].__setitem__("direction", "up"),
+    "finding code out of pattern": lambda d: d["findings"].append(
+        {"code": "X1", "name": "x", "severity": "warning", "message": "", "handles": [], "layers": [], "at": None}
+    ),
+    "point of three numbers": lambda d: d["cases"][0]["shoes"][0].__setitem__("force_N", [1.0, 2.0, 3.0]),
+    "schema of another document": lambda d: d.__setitem__("schema", "dxfcheck.solve/1"),
+}
+
+
+@pytest.fixture(scope="module")
+def demo_docs():
+    return _demo_docs()
+
+
+@pytest.mark.parametrize("mutation", sorted(MUTATIONS))
+def test_a_mutated_document_fails(demo_docs, mutation):
+    """The schemas refuse a wrong type, a missing required key and a key
+    they do not list: the unchanged documents pass, each mutation fails."""
+    for doc, name in zip(demo_docs, ("solve", "check"), strict=True):
+        validate_document(doc, name)
+        bad = copy.deepcopy(doc)
+        MUTATIONS[mutation](bad)
+        with pytest.raises(jsonschema.ValidationError):
+            validate_document(bad, name)
+
+
+def test_check_document_is_no_solve_document(demo_docs):
+    """check/2 adds keys to solve/2: each schema refuses the other's document."""
+    solved, checked = demo_docs
+    assert list(validator("solve").iter_errors(checked))
+    assert list(validator("check").iter_errors(solved))
+    missing_rules = {k: v for k, v in checked.items() if k != "rules"}
+    with pytest.raises(jsonschema.ValidationError, match="rules"):
+        validate_document(missing_rules, "check")
+
+
+def test_schema_command_lists_and_prints():
+    listed = run("schema")
+    assert listed.returncode == 0
+    assert [line.split()[0] for line in listed.stdout.splitlines()] == list(SCHEMA_NAMES)
+    for name in SCHEMA_NAMES:
+        printed = run("schema", name)
+        assert printed.returncode == 0 and printed.stdout == schema_text(name)
+        assert json.loads(printed.stdout)["$id"].startswith("urn:dxfcheck:schema:")
+    assert run("schema", "dxfcheck.check/2").stdout == schema_text("check")
+    unknown = run("schema", "drawing")
+    assert unknown.returncode == 2 and "no schema named 'drawing'" in unknown.stderr
