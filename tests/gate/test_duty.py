@@ -18,6 +18,7 @@ import math
 import pytest
 from common import block_brake
 
+from dxfcheck.core.errors import ConfigError
 from dxfcheck.gate.rules import Verdict
 from dxfcheck.pipeline import check
 
@@ -263,3 +264,43 @@ def test_a_stop_from_the_project_file_and_from_python(brake):
     r = next(r for r in j.rules if r.rule == "torque.cw")
     assert r.limit == pytest.approx(expected, rel=1e-12)  # lowering not stated: taken as lowered
     assert "taken as lowered" in r.message
+
+
+# Values that would divide by zero are refused where they enter (exit 2 at
+# the command line), naming the key and its source: E/(C·m) with m = 0,
+# β = h·A/(m·C) with A = 0 or h = 0, θ = ω·t/2 with t = 0, t = v/a with a = 0.
+@pytest.mark.parametrize(
+    ("key", "value"),
+    [
+        ("drum_mass", "0 kg"),
+        ("cooling_area", "0 m2"),
+        ("stop_time", "0 s"),
+        ("deceleration", "0 m/s2"),
+        ("specific_heat", "0 J/(kg*K)"),
+        ("heat_transfer_coefficient", "0 W/(m2*K)"),
+    ],
+)
+def test_a_zero_that_divides_is_refused_naming_key_and_source(brake, key, value):
+    spec = dict(HEAT, stops_per_hour="30", cooling_area="1 m2", drum_peak_temperature_max="400 °C")
+    spec.pop("stop_time") if key == "deceleration" else None
+    spec[key] = value
+    with pytest.raises(ConfigError, match=rf"command line: {key} must be above 0 "):
+        check(brake, overrides=[(k, str(v)) for k, v in spec.items()])
+
+
+def test_ambient_below_freezing_is_read_within_its_stated_range(brake):
+    """An arctic site at −30 °C: one level stop from ambient gives
+    T = T∞ + E/(C·m) (Shigley §16-9), C = 500 J/(kg·K) of cast iron."""
+    spec = dict(HEAT, ambient_temperature="-30 °C", drum_peak_temperature_max="500 °C", drum_material="cast-iron")
+    peak = rules_of(brake, **spec)["heat.peak"]
+    assert peak.inputs["ambient_C"] == -30.0
+    assert peak.value == pytest.approx(-30.0 + E_STOP / (500 * 0.05), rel=1e-12)
+    assert "drum_material = cast iron" in peak.inputs["specific_heat_source"]
+    for spelling in ("cast_iron", "cast iron"):
+        same = rules_of(brake, **dict(spec, drum_material=spelling))["heat.peak"]
+        assert same.value == peak.value
+    for outside in ("-61 °C", "61 °C"):
+        with pytest.raises(ConfigError, match=r"command line: ambient_temperature must be from -60 to 60 °C"):
+            rules_of(brake, **dict(spec, ambient_temperature=outside))
+    with pytest.raises(ConfigError, match=r"drum_peak_temperature_max must not be negative"):
+        rules_of(brake, **dict(spec, drum_peak_temperature_max="-5 °C"))
