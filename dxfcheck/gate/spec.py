@@ -45,6 +45,7 @@ __all__ = [
     "AMBIENT_MIN_C",
     "DEFAULTS",
     "KEYS",
+    "LINING_MARK",
     "MU_MAX",
     "QUANTITY_MAX",
     "Key",
@@ -56,6 +57,9 @@ __all__ = [
     "load_spec",
     "parse_assignment",
 ]
+
+#: The words that end the source of a value the spec's lining filled.
+LINING_MARK = "lining from "
 
 #: Prefix of the drawing header's custom properties read as spec values.
 PROPERTY_PREFIX = "dxfcheck."
@@ -172,7 +176,9 @@ KEYS: dict[str, Key] = {
     ),
     # duty and heat of a stop (dxfcheck.gate.duty, dxfcheck.gate.heat) and the lining library
     "load_mass": Key(Kind.QUANTITY, "mass of the load the brake stops (moving at rope_speed)", "mass"),
-    "rope_speed": Key(Kind.QUANTITY, "load speed when a stop begins (default: the drum surface)", "velocity"),
+    "rope_speed": Key(
+        Kind.QUANTITY, "load speed when a stop begins (default: the drum surface)", "velocity", minimum=0.0, above=True
+    ),
     "inertia": Key(Kind.QUANTITY, "moment of inertia of the rotating parts reduced to the brake drum", "inertia"),
     "lowering": Key(
         Kind.CHOICE,
@@ -279,6 +285,11 @@ class SpecValue:
     unit: str
     text: str
     source: str
+
+    @property
+    def from_lining(self) -> bool:
+        """Whether the spec's ``lining`` filled this value (no source set it)."""
+        return self.source.endswith(")") and LINING_MARK in self.source
 
 
 @dataclass(frozen=True)
@@ -597,4 +608,4 @@ def _fill_from_lining(b: _Builder) -> None:
     for v in lining_values(str(chosen.value), None if own_mu is None else float(own_mu.value)):
         mine = b.values.get(v.key)
         if mine is None or mine.source.startswith("default"):
-            b.values[v.key] = SpecValue(v.key, v.value, v.unit, v.text, f"{v.source} (lining from {chosen.source})")
+            b.values[v.key] = SpecValue(v.key, v.value, v.unit, v.text, f"{v.source} ({LINING_MARK}{chosen.source})")
