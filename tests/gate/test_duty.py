@@ -404,3 +404,15 @@ def test_a_temperature_limit_below_ambient_fails_with_margin_zero(brake):
     )
     steady = rules_of(brake, **spec)["heat.steady"]
     assert steady.verdict is Verdict.FAIL and steady.margin == 0.0
+
+
+def test_a_linings_limits_alone_do_not_begin_the_heat_rules(brake):
+    """lining = non-asbestos-rigid fills both temperature limits (Tribology
+    Handbook Table 8.10: 225 °C operating, 500 °C maximum); they do not begin
+    the heat rules, which skip naming drum_mass; drum_mass begins heat.peak,
+    judged against the lining's 500 °C."""
+    rules = rules_of(brake, load_mass="10 kg", lining="non-asbestos-rigid", **STOP)
+    assert rules["heat.peak"].verdict is Verdict.SKIP and "drum_mass" in rules["heat.peak"].message
+    assert rules["heat.steady"].verdict is Verdict.SKIP
+    rules = rules_of(brake, load_mass="10 kg", lining="non-asbestos-rigid", drum_mass="1 kg", **STOP)
+    assert rules["heat.peak"].verdict is Verdict.PASS and rules["heat.peak"].limit == 500.0
