@@ -138,3 +138,37 @@ def test_check_demo_fails_on_the_shoe_pins(tmp_path):
     sources = {s["key"]: s["source"] for s in doc["spec"]}
     assert 'dxfcheck.toml [spec."winch_two_shoe.dxf"]' in sources["required_torque"]
     assert junit.read_text().count("<testcase") == len(doc["rules"])
+
+
+@pytest.mark.parametrize("setting", ["drum_mass=0kg", "cooling_area=0m2", "stop_time=0s", "deceleration=0m/s2"])
+def test_check_heat_duty_zero_that_divides_exits_2_naming_the_key(setting):
+    """A zero drum mass, cooling area, stop time or deceleration would divide
+    by zero in ΔT = E/(C·m), β = hA/(mC), θ = ωt/2, t = v/a: refused where it
+    enters (exit 2, the key and its source), not an internal error (exit 3)."""
+    stop = ["load_mass=1t", "rope_speed=0.5m/s", "drum_speed=30rpm", "drum_peak_temperature_max=400°C"]
+    stop += ["stop_time=1s"] if not setting.startswith("deceleration") else []
+    args = [a for s in [*stop, setting] for a in ("--set", s)]
+    r = run("check", DEMO, "--mu", "0.35", *args)
+    key = setting.split("=")[0]
+    assert r.returncode == 2, r.stderr
+    assert f"command line: {key} must be above 0" in r.stderr
+
+
+def test_check_heat_duty_stop_time_and_deceleration_disagree_exits_2():
+    """t = v/a: 0.5 m/s at 2 m/s² is 0.25 s, not the 1 s given: refused
+    (exit 2) naming both keys with their source and the drawing."""
+    sets = ["load_mass=1t", "rope_speed=0.5m/s", "drum_speed=30rpm", "stop_time=1s", "deceleration=2m/s2"]
+    r = run("check", DEMO, "--mu", "0.35", *[a for s in sets for a in ("--set", s)])
+    assert r.returncode == 2, r.stderr
+    assert "winch_two_shoe.dxf" in r.stderr and "disagree" in r.stderr
+    assert "stop_time = 1s (from command line)" in r.stderr and "deceleration = 2m/s2 (from command line)" in r.stderr
+
+
+def test_check_heat_duty_incomplete_stop_fails_the_gate():
+    """A lowered load without stop_time or deceleration: the stop duty is
+    incomplete and fails the gate (exit 1) naming the missing key."""
+    r = run("check", DEMO, "--mu", "0.35", "--json", "--set", "load_mass=1t", "--set", "drum_speed=30rpm")
+    doc = json.loads(r.stdout)
+    stop = next(x for x in doc["rules"] if x["rule"] == "stop.duty")
+    assert stop["verdict"] == "fail" and "needs stop_time (or deceleration)" in stop["message"]
+    assert r.returncode == 1 and doc["verdict"] == "fail"

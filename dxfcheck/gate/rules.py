@@ -160,6 +160,10 @@ def judge(mech: Mechanism, spec: Spec) -> Judgement:
     mu_max = mu if mu_max is None else mu_max
     if not mu_min <= mu <= mu_max:
         raise ConfigError(f"friction range must satisfy mu_min ≤ mu ≤ mu_max, got {mu_min:g}, {mu:g}, {mu_max:g}")
+    try:  # a stop whose time and deceleration disagree is refused before any solve
+        stop_of(spec, None if mech.drum is None else mech.drum.radius_mm)
+    except ConfigError as exc:
+        raise ConfigError(exc.message, path=mech.drawing.path) from None
     both = (Direction.CW, Direction.CCW)
     sm = spec.get("shoe_model")
     options = contact_options(
@@ -422,9 +426,13 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
     """Braking torque at mu_min against the duty: the larger of
     ``required_torque`` and the motor duty when both are given."""
     out: list[RuleResult] = []
-    found, miss = duties(spec, None if sol_min.mechanism.drum is None else sol_min.mechanism.drum.radius_mm)
+    radius_mm = None if sol_min.mechanism.drum is None else sol_min.mechanism.drum.radius_mm
+    found, miss = duties(spec, radius_mm)
     if not found:
         why = f"motor duty needs {', '.join(miss)}" if miss else "no required_torque or motor duty in the spec"
+        lacking = stop_of(spec, radius_mm)[1]
+        if lacking:
+            why += f"; the stop duty is incomplete (stop.duty: needs {', '.join(lacking)})"
         out += [_skip(f"torque.{d}", f"braking torque, {d}", why) for d in required]
     else:
         governing = max(found, key=lambda d: d.torque_Nm)

@@ -41,8 +41,11 @@ from dxfcheck.core.units import DIMENSIONS, Quantity, UnitError, parse_quantity
 from dxfcheck.gate.linings import LININGS, lining_values
 
 __all__ = [
+    "AMBIENT_MAX_C",
+    "AMBIENT_MIN_C",
     "DEFAULTS",
     "KEYS",
+    "LINING_MARK",
     "MU_MAX",
     "QUANTITY_MAX",
     "Key",
@@ -54,6 +57,9 @@ __all__ = [
     "load_spec",
     "parse_assignment",
 ]
+
+#: The words that end the source of a value the spec's lining filled.
+LINING_MARK = "lining from "
 
 #: Prefix of the drawing header's custom properties read as spec values.
 PROPERTY_PREFIX = "dxfcheck."
@@ -89,6 +95,13 @@ QUANTITY_MAX: dict[str, float] = {
 }
 
 
+#: Range of the ambient temperature accepted [°C]: from arctic sites to
+#: the hottest machine rooms; the IEC 60034-1 site range runs from -15 °C to
+#: 40 °C (from memory), and cranes are built for colder ports and warmer
+#: foundries (common practice, no single source).
+AMBIENT_MIN_C, AMBIENT_MAX_C = -60.0, 60.0
+
+
 class Kind(enum.Enum):
     """How a spec value is written."""
 
@@ -111,6 +124,8 @@ class Key:
     maximum: float | None = None
     #: the value must be above ``minimum`` (not equal to it)
     above: bool = False
+    #: other spellings of a choice and the choice they stand for
+    aliases: tuple[tuple[str, str], ...] = ()
 
 
 #: Every key the spec knows.
@@ -161,24 +176,49 @@ KEYS: dict[str, Key] = {
     ),
     # duty and heat of a stop (dxfcheck.gate.duty, dxfcheck.gate.heat) and the lining library
     "load_mass": Key(Kind.QUANTITY, "mass of the load the brake stops (moving at rope_speed)", "mass"),
-    "rope_speed": Key(Kind.QUANTITY, "load speed when a stop begins (default: the drum surface)", "velocity"),
+    "rope_speed": Key(
+        Kind.QUANTITY, "load speed when a stop begins (default: the drum surface)", "velocity", minimum=0.0, above=True
+    ),
     "inertia": Key(Kind.QUANTITY, "moment of inertia of the rotating parts reduced to the brake drum", "inertia"),
     "lowering": Key(
         Kind.CHOICE,
         "the stop: yes (load lowered, adds m·g·h), no (level), hoisting (load rising, gravity helps)",
         choices=("yes", "no", "hoisting"),
     ),
-    "stop_time": Key(Kind.QUANTITY, "time of a stop, uniform deceleration", "time"),
-    "deceleration": Key(Kind.QUANTITY, "load deceleration over a stop, uniform (needs rope_speed)", "acceleration"),
-    "stops_per_hour": Key(Kind.NUMBER, "stops per hour in service", minimum=0.0, maximum=36000.0, above=True),
-    "drum_mass": Key(Kind.QUANTITY, "mass of the drum that takes the heat of a stop", "mass"),
-    "drum_material": Key(Kind.CHOICE, "drum material (its specific heat)", choices=("steel", "cast iron")),
-    "specific_heat": Key(Kind.QUANTITY, "specific heat of the drum (overrides drum_material)", "specific_heat"),
-    "cooling_area": Key(Kind.QUANTITY, "drum surface that sheds heat to the air", "area"),
-    "heat_transfer_coefficient": Key(
-        Kind.QUANTITY, "combined convection and radiation coefficient of the drum", "heat_transfer"
+    "stop_time": Key(Kind.QUANTITY, "time of a stop, uniform deceleration", "time", minimum=0.0, above=True),
+    "deceleration": Key(
+        Kind.QUANTITY,
+        "load deceleration over a stop, uniform (needs rope_speed)",
+        "acceleration",
+        minimum=0.0,
+        above=True,
     ),
-    "ambient_temperature": Key(Kind.QUANTITY, "air temperature around the brake", "temperature"),
+    "stops_per_hour": Key(Kind.NUMBER, "stops per hour in service", minimum=0.0, maximum=36000.0, above=True),
+    "drum_mass": Key(Kind.QUANTITY, "mass of the drum that takes the heat of a stop", "mass", minimum=0.0, above=True),
+    "drum_material": Key(
+        Kind.CHOICE,
+        "drum material (its specific heat); cast-iron and cast_iron read as cast iron",
+        choices=("steel", "cast iron"),
+        aliases=(("cast-iron", "cast iron"), ("cast_iron", "cast iron")),
+    ),
+    "specific_heat": Key(
+        Kind.QUANTITY, "specific heat of the drum (overrides drum_material)", "specific_heat", minimum=0.0, above=True
+    ),
+    "cooling_area": Key(Kind.QUANTITY, "drum surface that sheds heat to the air", "area", minimum=0.0, above=True),
+    "heat_transfer_coefficient": Key(
+        Kind.QUANTITY,
+        "combined convection and radiation coefficient of the drum",
+        "heat_transfer",
+        minimum=0.0,
+        above=True,
+    ),
+    "ambient_temperature": Key(
+        Kind.QUANTITY,
+        f"air temperature around the brake, {AMBIENT_MIN_C:g} to {AMBIENT_MAX_C:g} °C",
+        "temperature",
+        minimum=AMBIENT_MIN_C,
+        maximum=AMBIENT_MAX_C,
+    ),
     "drum_temperature_max": Key(Kind.QUANTITY, "allowed steady (continuous) drum temperature", "temperature"),
     "drum_peak_temperature_max": Key(Kind.QUANTITY, "allowed drum temperature right after a stop", "temperature"),
     "lining": Key(
@@ -245,6 +285,11 @@ class SpecValue:
     unit: str
     text: str
     source: str
+
+    @property
+    def from_lining(self) -> bool:
+        """Whether the spec's ``lining`` filled this value (no source set it)."""
+        return self.source.endswith(")") and LINING_MARK in self.source
 
 
 @dataclass(frozen=True)
@@ -348,9 +393,7 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
             q = parse_quantity(raw, spec.dimension)
         except UnitError as exc:
             raise ConfigError(f"{where}: {exc}") from exc
-        if q.value < 0:
-            raise ConfigError(f"{where} must not be negative")
-        check_quantity(spec.dimension, q.value, where)
+        _check_range(spec, q.value, where)
         return SpecValue(key, q.value, q.unit, raw, source)
     if spec.kind is Kind.NUMBER:
         value = check_number(key, _plain_number(raw, where), where)
@@ -362,9 +405,37 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
         if not isinstance(items, list | tuple) or not items or not all(i in ("cw", "ccw") for i in items):
             raise ConfigError(f"{where} must be a list of 'cw' and 'ccw', got {raw!r}")
         return SpecValue(key, tuple(dict.fromkeys(items)), "", str(raw), source)
+    raw = dict(spec.aliases).get(raw, raw) if isinstance(raw, str) else raw
     if not isinstance(raw, str) or raw not in spec.choices:
         raise ConfigError(f"{where} must be one of {', '.join(spec.choices)}, got {raw!r}")
     return SpecValue(key, raw, "", raw, source)
+
+
+def _check_range(spec: Key, value: float, where: str) -> None:
+    """A quantity within its key's range: not negative (or, for a key whose
+    minimum is negative, from that minimum up to its maximum), within the
+    dimension's largest value, and above a strictly positive key's zero (a
+    value that divides: a stop time, a drum mass).
+
+    Raises
+    ------
+    ConfigError
+        Naming ``where`` (the key and its source) and the range.
+    """
+    assert spec.dimension is not None
+    low, high = spec.minimum, spec.maximum
+    if low is not None and low < 0 and high is not None:
+        if not low <= value <= high:
+            shown = DIMENSIONS[spec.dimension][1]
+            raise ConfigError(f"{where} must be from {low:g} to {high:g} {shown}, got {value:g} {shown}")
+        return
+    if value < 0:
+        raise ConfigError(f"{where} must not be negative")
+    check_quantity(spec.dimension, value, where)
+    if low is not None and (value <= low if spec.above else value < low):
+        shown = DIMENSIONS[spec.dimension][1]
+        bound = "above" if spec.above else "at least"
+        raise ConfigError(f"{where} must be {bound} {low:g} {shown} (it divides), got {value:g} {shown}")
 
 
 def _typed_quantity(raw: Any, where: str) -> Any:
@@ -537,4 +608,4 @@ def _fill_from_lining(b: _Builder) -> None:
     for v in lining_values(str(chosen.value), None if own_mu is None else float(own_mu.value)):
         mine = b.values.get(v.key)
         if mine is None or mine.source.startswith("default"):
-            b.values[v.key] = SpecValue(v.key, v.value, v.unit, v.text, f"{v.source} (lining from {chosen.source})")
+            b.values[v.key] = SpecValue(v.key, v.value, v.unit, v.text, f"{v.source} ({LINING_MARK}{chosen.source})")

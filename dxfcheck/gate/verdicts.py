@@ -12,7 +12,7 @@ from typing import Any
 
 from dxfcheck.gate.spec import Spec
 
-__all__ = ["RuleResult", "Verdict", "missing", "ratio_rule", "skip"]
+__all__ = ["RuleResult", "Verdict", "incomplete", "missing", "ratio_rule", "skip"]
 
 
 class Verdict(enum.StrEnum):
@@ -77,6 +77,15 @@ def ratio_rule(
 
 def skip(rule: str, title: str, why: str, source: str = "") -> RuleResult:
     return RuleResult(rule, title, Verdict.SKIP, None, None, "", None, {}, source, why)
+
+
+def incomplete(rule: str, title: str, keys: Iterable[str], source: str = "", why: str = "") -> RuleResult:
+    """A rule the spec begins but does not finish: FAIL (it stops a
+    release), naming exactly the keys it still needs, with no value."""
+    need = ", ".join(keys)
+    said = f"{why}; " if why else ""
+    msg = f"incomplete: {said}the spec begins this rule but it needs {need} (give them, or remove the rule's keys)"
+    return RuleResult(rule, title, Verdict.FAIL, None, None, "", None, {"missing": need}, source, msg)
 
 
 def missing(spec: Spec, keys: Iterable[str], subject: str | None = None) -> list[str]:

@@ -358,6 +358,22 @@ def print_judgement(j: Judgement, out: IO[str] | None = None, *, strict: bool = 
     console.print(CAUTION)
 
 
+#: Decimals of a μ range in the lining listing, and the relative round-off
+#: below which a bound counts as on its printed decimal (0.35·0.85 is
+#: 0.29749999999999999 in binary and shows as 0.2975).
+RANGE_DECIMALS, RANGE_ROUND_OFF = 4, 1e-9
+
+
+def _outward_range(low: float, high: float) -> str:
+    """``low-high`` rounded outward to :data:`RANGE_DECIMALS` decimals: the
+    range shown is never narrower than the one used (0.2975-0.4025, not
+    0.297-0.402)."""
+    scale = 10.0**RANGE_DECIMALS
+    lo = math.floor(low * scale * (1 + RANGE_ROUND_OFF)) / scale
+    hi = math.ceil(high * scale * (1 - RANGE_ROUND_OFF)) / scale
+    return f"{lo:.{RANGE_DECIMALS}f}".rstrip("0").rstrip(".") + "-" + f"{hi:.{RANGE_DECIMALS}f}".rstrip("0").rstrip(".")
+
+
 def print_linings(linings: Iterable[Lining], out: IO[str] | None = None) -> None:
     """The lining library of ``dxfcheck linings``: one row per lining, then
     the sources each row cites."""
@@ -375,7 +391,7 @@ def print_linings(linings: Iterable[Lining], out: IO[str] | None = None) -> None
             ln.name,
             ln.material,
             f"{ln.mu:g}",
-            f"{ln.mu_min:.3g}-{ln.mu_max:.3g}",
+            _outward_range(ln.mu_min, ln.mu_max),
             f"{low:g}-{high:g}",
             f"{ln.pressure_max_MPa:g}",
             f"{ln.pv_max_MPa_m_s:g}",

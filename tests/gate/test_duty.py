@@ -18,6 +18,7 @@ import math
 import pytest
 from common import block_brake
 
+from dxfcheck.core.errors import ConfigError
 from dxfcheck.gate.rules import Verdict
 from dxfcheck.pipeline import check
 
@@ -133,15 +134,57 @@ def test_inertia_and_load_speed_from_the_drum(brake):
     assert limit == pytest.approx(energy / THETA, rel=1e-12)
 
 
-def test_incomplete_stop_is_skipped_naming_the_keys(brake):
-    rules = rules_of(brake, load_mass="10 kg", rope_speed="1 m/s", mu=MU)
-    assert rules["stop.duty"].verdict is Verdict.SKIP
-    assert "stop_time" in rules["stop.duty"].message
-    assert rules["heat.peak"].verdict is Verdict.SKIP and "stop_time" in rules["heat.peak"].message
+def verdict_of(path, **spec):
+    return check(path, overrides=[(k, str(v)) for k, v in spec.items()]).verdict
+
+
+def needs(rule):
+    """The keys an incomplete rule names (its inputs' ``missing``)."""
+    assert rule.verdict is Verdict.FAIL and rule.value is None and rule.message.startswith("incomplete"), rule
+    return rule.inputs["missing"]
+
+
+def test_a_stop_begun_but_not_finished_stops_the_release(brake):
+    """A spec that begins a stop but cannot finish it never passes quietly:
+    the stop duty fails as incomplete naming exactly what it lacks, and the
+    gate's verdict is FAIL, however well the rest passes."""
+    # no drum_speed: the energy is known (the heat rules judge it), the torque E/θ, θ = ω·t/2, is not
+    spec = dict(load_mass="10 kg", rope_speed="1 m/s", stop_time="0.5 s", mu=MU, **HOT)
+    rules = rules_of(brake, **spec)
+    assert needs(rules["stop.duty"]) == "drum_speed"
+    assert "stop_time" not in rules["stop.duty"].message
+    assert rules["heat.peak"].verdict is Verdict.PASS
+    assert verdict_of(brake, **spec) is Verdict.FAIL
+    # no stop_time: neither the lowered load's m·g·h (h = v·t/2) nor the torque can be found
+    spec = dict(load_mass="10 kg", drum_speed="60 rpm", mu=MU, **HOT)
+    rules = rules_of(brake, **spec)
+    assert needs(rules["stop.duty"]) == "stop_time (or deceleration)"
+    assert needs(rules["heat.peak"]) == "stop_time (or deceleration)"  # drum_mass begins it
+    assert rules["heat.steady"].verdict is Verdict.SKIP  # nothing of it stated
+    assert verdict_of(brake, **spec) is Verdict.FAIL
+    # a deceleration on a rotating mass alone acts on the rim speed πDn/60: it needs drum_speed, not rope_speed
+    rules = rules_of(brake, inertia="2 kg*m2", rope_speed="1 m/s", deceleration="2 m/s2", mu=MU)
+    assert "drum_speed" in needs(rules["stop.duty"]) and "rope_speed" not in needs(rules["stop.duty"])
+    # a spec that says nothing of a stop or of heat: the rules skip quietly, as before
     rules = rules_of(brake, mu=MU)
     assert "stop.duty" not in rules
     assert rules["heat.peak"].verdict is Verdict.SKIP and "load_mass or inertia" in rules["heat.peak"].message
     assert rules["heat.steady"].verdict is Verdict.SKIP
+    assert verdict_of(brake, mu=MU) is Verdict.PASS
+
+
+def test_a_heat_rule_begun_but_not_finished_fails_naming_its_keys(brake):
+    """stops_per_hour alone begins the steady temperature (E·n = 3600·h·A·ΔT
+    needs A and a limit); many stops without a cooling area cannot give the
+    settled peak, and one stop from ambient would understate it."""
+    rules = rules_of(brake, **dict(HEAT, stops_per_hour="360", drum_peak_temperature_max="400 °C"))
+    assert needs(rules["heat.steady"]) == "cooling_area, drum_temperature_max"
+    assert needs(rules["heat.peak"]) == "cooling_area"
+    assert "360 stops per hour" in rules["heat.peak"].message
+    rules = rules_of(brake, **dict(HEAT, stops_per_hour="1", drum_peak_temperature_max="400 °C"))
+    assert rules["heat.peak"].verdict is Verdict.PASS  # one stop an hour: one stop from ambient
+    rules = rules_of(brake, **dict(HEAT, drum_mass="1 kg"))  # drum_mass without a limit
+    assert needs(rules["heat.peak"]) == "drum_peak_temperature_max"
 
 
 def test_a_larger_required_torque_still_governs(brake):
@@ -263,3 +306,113 @@ def test_a_stop_from_the_project_file_and_from_python(brake):
     r = next(r for r in j.rules if r.rule == "torque.cw")
     assert r.limit == pytest.approx(expected, rel=1e-12)  # lowering not stated: taken as lowered
     assert "taken as lowered" in r.message
+
+
+# Values that would divide by zero are refused where they enter (exit 2 at
+# the command line), naming the key and its source: E/(C·m) with m = 0,
+# β = h·A/(m·C) with A = 0 or h = 0, θ = ω·t/2 with t = 0, t = v/a with a = 0.
+@pytest.mark.parametrize(
+    ("key", "value"),
+    [
+        ("drum_mass", "0 kg"),
+        ("cooling_area", "0 m2"),
+        ("stop_time", "0 s"),
+        ("deceleration", "0 m/s2"),
+        ("specific_heat", "0 J/(kg*K)"),
+        ("heat_transfer_coefficient", "0 W/(m2*K)"),
+    ],
+)
+def test_a_zero_that_divides_is_refused_naming_key_and_source(brake, key, value):
+    spec = dict(HEAT, stops_per_hour="30", cooling_area="1 m2", drum_peak_temperature_max="400 °C")
+    spec.pop("stop_time") if key == "deceleration" else None
+    spec[key] = value
+    with pytest.raises(ConfigError, match=rf"command line: {key} must be above 0 "):
+        check(brake, overrides=[(k, str(v)) for k, v in spec.items()])
+
+
+def test_ambient_below_freezing_is_read_within_its_stated_range(brake):
+    """An arctic site at −30 °C: one level stop from ambient gives
+    T = T∞ + E/(C·m) (Shigley §16-9), C = 500 J/(kg·K) of cast iron."""
+    spec = dict(HEAT, ambient_temperature="-30 °C", drum_peak_temperature_max="500 °C", drum_material="cast-iron")
+    peak = rules_of(brake, **spec)["heat.peak"]
+    assert peak.inputs["ambient_C"] == -30.0
+    assert peak.value == pytest.approx(-30.0 + E_STOP / (500 * 0.05), rel=1e-12)
+    assert "drum_material = cast iron" in peak.inputs["specific_heat_source"]
+    for spelling in ("cast_iron", "cast iron"):
+        same = rules_of(brake, **dict(spec, drum_material=spelling))["heat.peak"]
+        assert same.value == peak.value
+    for outside in ("-61 °C", "61 °C"):
+        with pytest.raises(ConfigError, match=r"command line: ambient_temperature must be from -60 to 60 °C"):
+            rules_of(brake, **dict(spec, ambient_temperature=outside))
+    with pytest.raises(ConfigError, match=r"drum_peak_temperature_max must not be negative"):
+        rules_of(brake, **dict(spec, drum_peak_temperature_max="-5 °C"))
+
+
+def test_stop_time_and_deceleration_must_agree(brake):
+    """Both given: t = v/a must hold within STOP_AGREEMENT_REL (1 %):
+    v = 1 m/s at a = 2 m/s² is the 0.5 s stop; 2.01 m/s² (t = 0.4975 s,
+    0.5 % off) is accepted on stop_time; 2.1 m/s² (t = 0.476 s, 4.8 % off)
+    is refused naming both and the drawing."""
+    base = rules_of(brake, load_mass="10 kg", **STOP)["torque.cw"].limit
+    same = rules_of(brake, load_mass="10 kg", deceleration="2.01 m/s2", **STOP)["torque.cw"]
+    assert same.limit == base and "the deceleration agrees" in same.message
+    with pytest.raises(ConfigError, match=r"stop_time = 0.5 s .*deceleration = 2.1 m/s2 .*disagree.* 0.4762 s") as exc:
+        rules_of(brake, load_mass="10 kg", deceleration="2.1 m/s2", **STOP)
+    assert exc.value.path == str(brake)
+
+
+def test_a_rising_load_stopped_by_gravity_says_so_with_the_numbers_used(brake):
+    """Hoisting 10 kg at 1 m/s stopped in 0.5 s: ½mv² = 5 J < m·g·h =
+    10·g·0.25 = 24.52 J, so E = −19.52 J: the brake absorbs nothing (the
+    heat rules take 0 J) and the torque is the holding torque m·g·v/ω =
+    10·g/(2π) = 15.61 N·m (power balance m·g·v = T·ω)."""
+    hold = 10 * G * V / (2 * math.pi * N_RPM / 60)
+    rules = rules_of(brake, load_mass="10 kg", lowering="hoisting", **HOT, **STOP)
+    torque, peak = rules["torque.cw"], rules["heat.peak"]
+    assert torque.limit == pytest.approx(hold, rel=1e-12)
+    assert peak.inputs["energy_per_stop_J"] == 0 and peak.value == peak.inputs["ambient_C"]
+    for said in (torque.message, peak.inputs["stop"]):
+        assert f"= {5 - 10 * G * 0.25:.4g} J" in said  # the balance, negative
+        assert "exceeds its kinetic energy" in said and "absorbs no energy (0 J, clamped)" in said
+        assert f"holding torque m·g·v/ω (m·g·r on the drum) = {hold:.4g} N·m governs" in said
+        assert "E/θ" not in said  # E/θ < 0 is not used and not shown as if it were
+
+
+def test_a_rising_load_the_brake_slows_below_its_holding_torque(brake):
+    """Hoisting 10 kg at 1.5 m/s stopped in 0.1 s (g < a = 15 < 2g m/s²):
+    E = 10·(½·1.5² − g·1.5·0.05) = 3.896 J > 0, E/θ = E/(ω·t/2) = 12.40 N·m,
+    below the holding torque 10·g·1.5/(2π) = 23.41 N·m, which governs."""
+    spec = dict(STOP, rope_speed="1.5 m/s", stop_time="0.1 s")
+    energy = 10 * (0.5 * 1.5**2 - G * 1.5 * 0.1 / 2)
+    e_theta = energy / (2 * math.pi * N_RPM / 60 * 0.1 / 2)
+    hold = 10 * G * 1.5 / (2 * math.pi * N_RPM / 60)
+    r = rules_of(brake, load_mass="10 kg", lowering="hoisting", **spec)["torque.cw"]
+    assert 0 < e_theta < hold and r.limit == pytest.approx(hold, rel=1e-12)
+    assert f"T = E/θ = {e_theta:.4g} N·m is below the holding torque" in r.message
+    assert f"which governs: T = {hold:.4g} N·m" in r.message
+
+
+def test_a_temperature_limit_below_ambient_fails_with_margin_zero(brake):
+    """A 30 °C limit under the default 40 °C ambient: no drum can stay under
+    it; the margin (allowed rise / rise) would be negative, it is reported 0."""
+    rules = rules_of(brake, **dict(HEAT, drum_peak_temperature_max="30 °C"))
+    peak = rules["heat.peak"]
+    assert peak.verdict is Verdict.FAIL and peak.margin == 0.0
+    assert "the limit is below the ambient" in peak.message
+    spec = dict(
+        HEAT, stops_per_hour="10", cooling_area="1 m2", drum_temperature_max="35 °C", ambient_temperature="40 °C"
+    )
+    steady = rules_of(brake, **spec)["heat.steady"]
+    assert steady.verdict is Verdict.FAIL and steady.margin == 0.0
+
+
+def test_a_linings_limits_alone_do_not_begin_the_heat_rules(brake):
+    """lining = non-asbestos-rigid fills both temperature limits (Tribology
+    Handbook Table 8.10: 225 °C operating, 500 °C maximum); they do not begin
+    the heat rules, which skip naming drum_mass; drum_mass begins heat.peak,
+    judged against the lining's 500 °C."""
+    rules = rules_of(brake, load_mass="10 kg", lining="non-asbestos-rigid", **STOP)
+    assert rules["heat.peak"].verdict is Verdict.SKIP and "drum_mass" in rules["heat.peak"].message
+    assert rules["heat.steady"].verdict is Verdict.SKIP
+    rules = rules_of(brake, load_mass="10 kg", lining="non-asbestos-rigid", drum_mass="1 kg", **STOP)
+    assert rules["heat.peak"].verdict is Verdict.PASS and rules["heat.peak"].limit == 500.0

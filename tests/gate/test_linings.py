@@ -131,3 +131,19 @@ def test_cli_lists_the_library():
             p_max,
         )
         assert "Table 8.10" in x["source"]
+
+
+def test_cli_mu_range_is_not_narrower_than_the_one_used():
+    """The listing's μ range holds the range the spec takes (μ ∓ 15 %,
+    common practice): μ = 0.35 (Table 8.10, non-asbestos rigid) gives
+    0.35·0.85 = 0.2975 and 0.35·1.15 = 0.4025, shown as such, not rounded
+    inward to 0.297-0.402."""
+    r = cli("linings")
+    assert r.returncode == 0, r.stderr
+    assert "0.2975-0.4025" in r.stdout
+    for name, ln in LININGS.items():
+        line = next(x for x in r.stdout.splitlines() if f" {name} " in x)
+        low, high = (float(v) for v in line.split("│")[4].split("-"))
+        assert low <= ln.mu_min * (1 + 1e-9) and high >= ln.mu_max * (1 - 1e-9), (name, low, high)
+        assert low == pytest.approx(ln.mu * (1 - MU_SPREAD), abs=1e-4)
+        assert high == pytest.approx(ln.mu * (1 + MU_SPREAD), abs=1e-4)
