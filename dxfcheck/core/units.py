@@ -421,7 +421,27 @@ def _factor(unit: str, dimension: str) -> float | None:
     return pint_factor(unit, dimension)
 
 
+#: A milli prefix before an upper-case unit symbol (``mN``, ``mPa``, ``mW``):
+#: the tables are read without regard to case, where it would be mega.
+_MILLI_SYMBOL = re.compile(r"^m[A-Z]")
+
+
 def _normalise_unit(unit: str) -> str:
+    """The unit as the tables spell it (lower case, ``*`` for products).
+
+    Raises
+    ------
+    UnitError
+        For a milli unit written with its case (``mN``, ``mPa``): read
+        without case it would be the mega unit, 10⁹ times larger, so it is
+        refused rather than guessed.
+    """
+    written = unit.strip()
+    if _MILLI_SYMBOL.match(written) and any(written[1:].lower() in t for t, _ in DIMENSIONS.values()):
+        raise UnitError(
+            f"{written!r} is milli-{written[1:]}, which dxfcheck does not read (brakes are not built in them); "
+            f"write the value in {written[1:]}, or 'M{written[1:]}' if mega was meant"
+        )
     u = unit.strip().lower().replace("·", "*").replace("⋅", "*").replace(" ", "")
     u = u.replace("²", "2").replace("**", "^")
     return u

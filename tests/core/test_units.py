@@ -182,3 +182,26 @@ def test_quantity_in_text_none(text):
         quantity_in_text(text, "force")
     assert not isinstance(info.value, AmbiguousTextError)
     assert repr(text) in str(info.value) and "holds no force" in str(info.value)
+
+
+@pytest.mark.parametrize(
+    ("text", "dimension"),
+    [("5 mN", "force"), ("2 mPa", "pressure"), ("3 mW", "power"), ("450 mN*m", "torque")],
+)
+def test_milli_with_its_case_is_refused_not_read_as_mega(text, dimension):
+    """SI Brochure (BIPM, 9th ed., 2019, §3, table of prefixes): m is milli
+    (10⁻³), M is mega (10⁶).  The tables are read without case, so ``mN``
+    would have been read as MN, 10⁹ times too large; it is refused naming
+    both readings."""
+    with pytest.raises(UnitError, match="milli"):
+        parse_quantity(text, dimension)
+
+
+def test_mega_and_upper_case_texts_still_read():
+    """Drawing texts are often all capitals: ``MN``, ``MPA``, ``KN`` are read
+    as mega and kilo (SI Brochure §3; upper-case k is common practice on
+    drawings)."""
+    assert parse_quantity("5 MN", "force").value == 5.0e6
+    assert parse_quantity("2 MPA", "pressure").value == 2.0
+    assert parse_quantity("1.2 KN", "force").value == 1200.0
+    assert parse_quantity("450 N*m", "torque").value == 450.0
