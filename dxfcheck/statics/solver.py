@@ -287,6 +287,10 @@ def _shoe_result(
     point = line_of_action_point(center, radius, force, m_o, s.arc.mid_deg)
     total = sum(c * w.torque_per_unit_Nmm for c, w in zip(coeffs, ws, strict=True))
     sign = 1.0 if total >= 0 else -1.0
+    if mu == 0.0:  # no torque to tell: the drum pushes a pressing shoe away from it
+        at = line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg)
+        away = (at[0] - center[0]) * normal[0] + (at[1] - center[1]) * normal[1]
+        sign = 1.0 if (away < 0) == s.internal else -1.0
     peak, peak_deg = model.peak(coeffs)
     patch = model.patch_deg()
     return ShoeResult(
