@@ -191,6 +191,7 @@ def check(
     ------
     DrawingReadError, ConfigError, MechanismError, SolveError
     """
+    from dxfcheck.gate.release import with_release
     from dxfcheck.gate.rules import judge
     from dxfcheck.gate.spec import load_spec
 
@@ -207,7 +208,7 @@ def check(
     drawing = _spec_units(drawing, judged_spec, path, cfg, units=units, max_bytes=max_bytes)
     effort = judged_spec.num("effort")
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort)
-    return judge(mech, judged_spec)
+    return with_release(judge(mech, judged_spec))
 
 
 def _spec_units(

@@ -99,6 +99,17 @@ FORCE_N: dict[str, float] = {
     "tf": 1000 * KGF_N,
 }
 
+#: Spring rate (force per length) -> [N/mm] (issue 19: spring_rate).
+STIFFNESS_N_PER_MM: dict[str, float] = {
+    "n/mm": 1.0,
+    "n/m": 1.0e-3,
+    "kn/m": 1.0,
+    "kn/mm": 1.0e3,
+    "n/cm": 0.1,
+    "lbf/in": LBF_N / INCH_MM,
+    "lb/in": LBF_N / INCH_MM,
+}
+
 #: Torque units -> [N·m].
 TORQUE_NM: dict[str, float] = {
     "n*m": 1.0,
@@ -150,6 +161,7 @@ PV_MPA_M_S: dict[str, float] = {"mpa*m/s": 1.0, "n/mm2*m/s": 1.0, "psi*ft/min": 
 DIMENSIONS: dict[str, tuple[dict[str, float], str]] = {
     "length": ({k.lower(): v for k, v in LENGTH_MM.items()}, "mm"),
     "force": (FORCE_N, "N"),
+    "stiffness": (STIFFNESS_N_PER_MM, "N/mm"),
     "torque": (TORQUE_NM, "N*m"),
     "pressure": (PRESSURE_MPA, "MPa"),
     "speed": (SPEED_RPM, "rpm"),

@@ -67,6 +67,7 @@ MU_MAX = 1.5
 QUANTITY_MAX: dict[str, float] = {
     "length": 1e6,  # mm: 1 km
     "force": 1e9,  # N
+    "stiffness": 1e9,  # N/mm
     "torque": 1e9,  # N*m
     "pressure": 1e6,  # MPa
     "speed": 1e6,  # rpm
@@ -83,6 +84,7 @@ class Kind(enum.Enum):
     NUMBER = "number"  # a dimensionless number
     DIRECTIONS = "directions"  # a list of "cw"/"ccw"
     CHOICE = "choice"  # one word from a list
+    NAME = "name"  # the name of something in the drawing (a load, a spring)
 
 
 @dataclass(frozen=True)
@@ -141,6 +143,18 @@ KEYS: dict[str, Key] = {
     "buckling_safety": Key(Kind.NUMBER, "required Euler load / axial load", per="members", minimum=1.0, maximum=100.0),
     # effort
     "effort": Key(Kind.QUANTITY, "magnitude of every load", "force"),
+    # release, wear and springs (issue 19: dxfcheck.gate.release, dxfcheck.statics.kinematics)
+    "actuator": Key(Kind.NAME, "the load or spring the release actuator moves against its force (F1, spring1)"),
+    "shoe_clearance": Key(Kind.QUANTITY, "radial lift of every shoe (and band) wanted at release", "length"),
+    "actuator_stroke": Key(Kind.QUANTITY, "the actuator's working stroke", "length"),
+    "actuator_force": Key(Kind.QUANTITY, "the actuator's force", "force"),
+    "release_margin": Key(Kind.NUMBER, "actuator force / force needed to release", minimum=1.0, maximum=10.0),
+    "lining_thickness": Key(Kind.QUANTITY, "lining thickness when new", "length"),
+    "wear_allowance": Key(Kind.QUANTITY, "lining wear the stroke must take up before adjustment", "length"),
+    "spring_rate": Key(Kind.QUANTITY, "rate of the setting spring(s)", "stiffness"),
+    "spring_preload_tolerance": Key(
+        Kind.NUMBER, "± tolerance of the spring force, a fraction (0.1 for ±10 %)", minimum=0.0, maximum=0.9
+    ),
     # shoe theory
     "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
     "long_shoe_threshold": Key(
@@ -172,6 +186,7 @@ DEFAULTS: dict[str, tuple[Any, str]] = {
     "pin_shear_planes": (1.0, "single shear, the conservative case"),
     "rod_end_factor": (1.0, "pinned-pinned (Euler's fundamental case)"),
     "buckling_safety": (3.0, "common practice for machine links, no single source"),
+    "release_margin": (1.2, "actuator 20 % above the force it must overcome: common practice, no single source"),
     "torque_asymmetry_max": (0.30, "the weaker direction usually sets the holding duty"),
     "shoe_model": ("auto", "long-shoe theory above the threshold"),
     "long_shoe_threshold": (60.0, "published thresholds range from 40° to 60°"),
@@ -321,6 +336,10 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
         if not isinstance(items, list | tuple) or not items or not all(i in ("cw", "ccw") for i in items):
             raise ConfigError(f"{where} must be a list of 'cw' and 'ccw', got {raw!r}")
         return SpecValue(key, tuple(dict.fromkeys(items)), "", str(raw), source)
+    if spec.kind is Kind.NAME:
+        if not isinstance(raw, str) or not raw.strip():
+            raise ConfigError(f"{where} must be a name from the drawing, e.g. 'F1', got {str(raw)[:40]!r}")
+        return SpecValue(key, raw.strip(), "", raw, source)
     if not isinstance(raw, str) or raw not in spec.choices:
         raise ConfigError(f"{where} must be one of {', '.join(spec.choices)}, got {raw!r}")
     return SpecValue(key, raw, "", raw, source)

@@ -78,6 +78,7 @@ __all__ = [
     "Release",
     "ShoeLift",
     "effort_names",
+    "equal_lift_motion",
     "free_motions",
     "lining_lift_mm",
     "release",
@@ -404,6 +405,19 @@ def _solve_lifts(y: NDArray[np.float64], target: NDArray[np.float64]) -> tuple[N
     alpha = np.asarray(np.linalg.lstsq(y, target, rcond=None)[0], dtype=np.float64)
     miss = float(np.linalg.norm(y @ alpha - target))
     return alpha, miss <= EQUAL_LIFT_RTOL * max(1.0, float(np.linalg.norm(target)))
+
+
+def equal_lift_motion(mech: Mechanism) -> Motion | None:
+    """The least motion in which every shoe lifts by 1 mm at its lining's
+    centre and every band by 1 mm of radial clearance (None when the drawing
+    has no shoe or band, or the linkage does not let them lift alike)."""
+    basis = free_motions(mech)
+    m = len(mech.shoes) + len(mech.bands)
+    if not basis or m == 0:
+        return None
+    y = np.array([_outputs(mech, report(mech, b)) for b in basis]).T
+    alpha, equal = _solve_lifts(y, np.ones(m))
+    return _combine(basis, alpha) if equal else None
 
 
 def release(mech: Mechanism, actuator: str) -> Release:
