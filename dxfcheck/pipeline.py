@@ -194,6 +194,7 @@ def check(
     from dxfcheck.gate.release import with_release
     from dxfcheck.gate.rules import judge
     from dxfcheck.gate.spec import load_spec
+    from dxfcheck.gate.strength import with_strength
 
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
@@ -208,7 +209,7 @@ def check(
     drawing = _spec_units(drawing, judged_spec, path, cfg, units=units, max_bytes=max_bytes)
     effort = judged_spec.num("effort")
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort)
-    return with_release(judge(mech, judged_spec))
+    return with_strength(with_release(judge(mech, judged_spec)))
 
 
 def _spec_units(

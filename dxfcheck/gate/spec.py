@@ -68,6 +68,7 @@ QUANTITY_MAX: dict[str, float] = {
     "length": 1e6,  # mm: 1 km
     "force": 1e9,  # N
     "stiffness": 1e9,  # N/mm
+    "section_modulus": 1e15,  # mm3
     "torque": 1e9,  # N*m
     "pressure": 1e6,  # MPa
     "speed": 1e6,  # rpm
@@ -95,7 +96,7 @@ class Key:
     doc: str
     dimension: str | None = None
     choices: tuple[str, ...] = ()
-    per: str | None = None  # "pins" or "members" when it may be overridden per subject
+    per: str | None = None  # "pins", "members" or "parts" when it may be overridden per subject
     minimum: float | None = None
     maximum: float | None = None
     #: the value must be above ``minimum`` (not equal to it)
@@ -155,6 +156,19 @@ KEYS: dict[str, Key] = {
     "spring_preload_tolerance": Key(
         Kind.NUMBER, "± tolerance of the spring force, a fraction (0.1 for ±10 %)", minimum=0.0, maximum=0.9
     ),
+    # strength of parts and the drum shaft (issue 19: dxfcheck.statics.strength, dxfcheck.gate.strength)
+    "part_width": Key(
+        Kind.QUANTITY, "rectangular section: width across the drawing (plate thickness)", "length", per="parts"
+    ),
+    "part_height": Key(Kind.QUANTITY, "rectangular section: depth in the drawing's plane", "length", per="parts"),
+    "part_diameter": Key(Kind.QUANTITY, "round section: diameter", "length", per="parts"),
+    "part_section_modulus": Key(
+        Kind.QUANTITY, "section modulus for bending in the drawing's plane", "section_modulus", per="parts"
+    ),
+    "part_stress_allow": Key(
+        Kind.QUANTITY, "allowed normal stress in a part (bending + axial)", "pressure", per="parts"
+    ),
+    "shaft_load_max": Key(Kind.QUANTITY, "allowed resultant force of the shoes and bands on the drum shaft", "force"),
     # shoe theory
     "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
     "long_shoe_threshold": Key(
@@ -192,7 +206,7 @@ DEFAULTS: dict[str, tuple[Any, str]] = {
     "long_shoe_threshold": (60.0, "published thresholds range from 40° to 60°"),
 }
 
-_SUBTABLES = ("pins", "members")
+_SUBTABLES = ("pins", "members", "parts")
 
 
 @dataclass(frozen=True)
@@ -228,12 +242,13 @@ class Spec:
     values: dict[str, SpecValue] = field(default_factory=dict)
     pins: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
     members: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+    parts: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
 
     def get(self, key: str, subject: str | None = None) -> SpecValue | None:
         """The value for ``key``, a per-pin or per-member one first."""
         per = KEYS[key].per
         if subject is not None and per is not None:
-            table = self.pins if per == "pins" else self.members
+            table = {"pins": self.pins, "members": self.members, "parts": self.parts}[per]
             hit = table.get(subject, {}).get(key)
             if hit is not None:
                 return hit
@@ -246,7 +261,7 @@ class Spec:
     def all_values(self) -> list[SpecValue]:
         """Every value, the per-subject ones named ``pins.NAME.key``."""
         out = list(self.values.values())
-        for tname, table in (("pins", self.pins), ("members", self.members)):
+        for tname, table in (("pins", self.pins), ("members", self.members), ("parts", self.parts)):
             for subject, vals in table.items():
                 out += [
                     SpecValue(f"{tname}.{subject}.{v.key}", v.value, v.unit, v.text, v.source) for v in vals.values()
@@ -365,6 +380,7 @@ class _Builder:
     values: dict[str, SpecValue] = field(default_factory=dict)
     pins: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
     members: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+    parts: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
 
     def put(self, key: str, raw: Any, source: str, subject: tuple[str, str] | None = None) -> None:
         if key not in KEYS:
@@ -378,7 +394,7 @@ class _Builder:
         table_name, name = subject
         if KEYS[key].per != table_name:
             raise ConfigError(f"{source}: {key!r} cannot be set per {table_name[:-1]}")
-        table = self.pins if table_name == "pins" else self.members
+        table = {"pins": self.pins, "members": self.members, "parts": self.parts}[table_name]
         table.setdefault(name, {})[key] = v
 
     def table(self, data: Mapping[str, Any], source: str, *, skip: Iterable[str] = ()) -> None:
@@ -398,7 +414,7 @@ class _Builder:
             self.put(key, raw, source)
 
     def build(self) -> Spec:
-        return Spec(dict(self.values), dict(self.pins), dict(self.members))
+        return Spec(dict(self.values), dict(self.pins), dict(self.members), dict(self.parts))
 
 
 def parse_assignment(text: str) -> tuple[str, str]:

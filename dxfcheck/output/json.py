@@ -27,6 +27,7 @@ from dxfcheck.statics import (
     CaseSolution,
     LoadResult,
     MemberResult,
+    PartDiagram,
     PinResult,
     ShoeResult,
     Solution,
@@ -190,6 +191,30 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
         "springs": [_spring_result(s) for s in c.springs],
         "effort_scale": c.effort_scale,
         "loads": [_load_result(ld) for ld in c.loads],
+        "drum_load_N": _point(c.drum_load_N),
+        "parts": [_part_diagram(d) for d in c.parts],
+    }
+
+
+def _point(p: tuple[float, float] | None) -> list[float] | None:
+    return None if p is None else [p[0], p[1]]
+
+
+def _part_diagram(d: PartDiagram) -> dict[str, Any]:
+    """A part's internal forces along its centreline (the solver's stations)."""
+    return {
+        "part": d.part,
+        "tree": d.tree,
+        "stations": [
+            {
+                "segment": st.segment,
+                "at_mm": _point(st.at_mm),
+                "axial_N": st.axial_N,
+                "shear_N": st.shear_N,
+                "moment_Nmm": st.moment_Nmm,
+            }
+            for st in d.stations
+        ],
     }
 
 

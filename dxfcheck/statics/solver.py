@@ -82,6 +82,7 @@ from dxfcheck.statics.results import (
     SpringEnd,
     SpringResult,
 )
+from dxfcheck.statics.strength import drum_load, part_diagrams
 from dxfcheck.statics.verify import verify_case
 
 __all__ = ["solve", "solve_case", "solve_for_torque"]
@@ -241,7 +242,7 @@ def _solve_case(
         findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
     case = _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options if locking else None)
     verify_case(mech, case)
-    return case
+    return replace(case, parts=part_diagrams(mech, case), drum_load_N=drum_load(case))
 
 
 def _refuse_bad_input(mech: Mechanism, mu: float) -> None:
