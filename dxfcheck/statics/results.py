@@ -232,12 +232,15 @@ class SpringResult:
 @dataclass(frozen=True)
 class MemberResult:
     """A two-force member's axial force ``axial_N`` [N], tension positive,
-    between pins ``ends``; ``length_mm`` [mm] between them."""
+    between ``ends`` (two pins, or a pin and a spring or load that acts on
+    the member's other end), at ``ends_mm`` [mm]; ``length_mm`` [mm] between
+    them."""
 
     name: str
     ends: tuple[str, str]
     axial_N: float
     length_mm: float
+    ends_mm: tuple[Point, Point] | None = None
 
     @property
     def state(self) -> str:
