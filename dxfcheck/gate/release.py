@@ -47,7 +47,7 @@ from typing import Any
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.gate.rules import Judgement, RuleResult, Verdict, _ratio_rule, _skip, duties
 from dxfcheck.gate.spec import Spec
-from dxfcheck.mechanism import Mechanism
+from dxfcheck.mechanism import Mechanism, Spring
 from dxfcheck.statics import solve
 from dxfcheck.statics.contact import Direction
 from dxfcheck.statics.kinematics import Release, effort_names, equal_lift_motion, release, report
@@ -255,21 +255,10 @@ def _force(spec: Spec, mech: Mechanism, rel: Release) -> RuleResult:
     return _ratio_rule(rule, title, need, available, "N", SRC_FORCE, inputs, at_most=True, message=msg)
 
 
-def _spring_torque(j: Judgement) -> list[RuleResult]:
-    """The duty at ``mu_min`` with every spring at its weakest: the bottom of
-    its tolerance, relaxed by the wear."""
-    spec, mech = j.spec, j.mechanism
-    if not mech.springs or (spec.get("spring_rate") is None and spec.get("spring_preload_tolerance") is None):
-        return []
-    dirs_v = spec.get("directions")
-    required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
-    found, _ = duties(spec)
-    if not found:
-        return [
-            _skip(f"spring.torque.{d}", f"torque at the weakest spring, {d}", "needs a duty", SRC_SPRING)
-            for d in required
-        ]
-    need = max(d.torque_Nm for d in found)
+def _weak_springs(spec: Spec, mech: Mechanism) -> tuple[tuple[Spring, ...], dict[str, Any]]:
+    """Every spring at its weakest: the bottom of its tolerance, less rate ×
+    its extension over the wear (its stroke per mm of equal lift × the wear),
+    and the inputs that say so."""
     tol = spec.num("spring_preload_tolerance") or 0.0
     rate = spec.num("spring_rate") or 0.0
     wear = spec.num("wear_allowance") or 0.0
@@ -280,8 +269,6 @@ def _spring_torque(j: Judgement) -> list[RuleResult]:
         for sp in mech.springs
     )
     inputs: dict[str, Any] = {
-        "mu_min": j.mu_min,
-        "required_torque_Nm": need,
         "spring_preload_tolerance": tol,
         "spring_rate_N_per_mm": rate,
         "wear_mm": wear,
@@ -295,19 +282,28 @@ def _spring_torque(j: Judgement) -> list[RuleResult]:
             for sp, w in zip(mech.springs, weak, strict=True)
         ],
     }
+    return weak, inputs
+
+
+def _spring_torque(j: Judgement) -> list[RuleResult]:
+    """The duty at ``mu_min`` with every spring at its weakest."""
+    spec, mech = j.spec, j.mechanism
+    if not mech.springs or (spec.get("spring_rate") is None and spec.get("spring_preload_tolerance") is None):
+        return []
+    dirs_v = spec.get("directions")
+    required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
+    found, _ = duties(spec)
+    title = "torque at the weakest spring, {}"
+    if not found:
+        return [_skip(f"spring.torque.{d}", title.format(d), "needs a duty", SRC_SPRING) for d in required]
+    need = max(d.torque_Nm for d in found)
+    weak, inputs = _weak_springs(spec, mech)
+    inputs.update(mu_min=j.mu_min, required_torque_Nm=need)
     if any((w.force_N or 0.0) <= 0.0 for w in weak):
+        spent = "a spring is spent: its force falls to zero or below"
         return [
             RuleResult(
-                f"spring.torque.{d}",
-                f"torque at the weakest spring, {d}",
-                Verdict.FAIL,
-                None,
-                need,
-                "N*m",
-                None,
-                inputs,
-                SRC_SPRING,
-                "a spring is spent: its force falls to zero or below",
+                f"spring.torque.{d}", title.format(d), Verdict.FAIL, None, need, "N*m", None, inputs, SRC_SPRING, spent
             )
             for d in required
         ]
@@ -315,7 +311,7 @@ def _spring_torque(j: Judgement) -> list[RuleResult]:
     return [
         _ratio_rule(
             f"spring.torque.{d}",
-            f"torque at the weakest spring, {d}",
+            title.format(d),
             sol.case(d).torque_Nm,
             need,
             "N*m",
