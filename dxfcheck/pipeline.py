@@ -250,9 +250,11 @@ def sensitivity(
     effort_N: float | None = None,
     required_torque_Nm: float | None = None,
     max_bytes: int | None = None,
+    spring_tolerance: float = 0.0,
 ) -> SensitivityResult:
-    """Sample μ over ``mu_range`` and every pin within ``pin_tolerance_mm``
-    [mm]; see :func:`dxfcheck.statics.sampling.sample_design`."""
+    """Sample μ over ``mu_range``, every pin within ``pin_tolerance_mm``
+    [mm] and every spring's force within ± ``spring_tolerance`` (a
+    fraction); see :func:`dxfcheck.statics.sampling.sample_design`."""
     from dxfcheck.statics.sampling import sample_design
 
     cfg = resolve_config(path, config)
@@ -277,4 +279,5 @@ def sensitivity(
         directions=directions,
         options=options,
         required_torque_Nm=required_torque_Nm,
+        spring_tolerance=spring_tolerance,
     )

@@ -450,6 +450,7 @@ def sensitivity_to_dict(res: Any, drawing: str) -> dict[str, Any]:
         "seed": res.seed,
         "mu_range": list(res.mu_range),
         "pin_tolerance_mm": res.pin_tolerance_mm,
+        "spring_tolerance": res.spring_tolerance,
         "required_torque_Nm": res.required_torque_Nm,
         "seconds": res.seconds,
         "directions": [_sampled_direction(d) for d in res.directions],
