@@ -176,6 +176,9 @@ def _parser() -> argparse.ArgumentParser:
     )
     s.add_argument("--pin-tolerance", default="0mm", help="with --samples: each pin within ± this, e.g. 0.2mm")
     s.add_argument("--seed", type=_count("--seed", 0, 2**63 - 1), default=0, help="with --samples: the random seed")
+    s.add_argument(
+        "--spring-tolerance", type=float, default=0.0, help="with --samples: each spring's force within ± this fraction"
+    )
     s.add_argument("--required-torque", default=None, help="with --samples: report P(torque below this)")
     s.add_argument("--svg", default=None, metavar="OUT.svg", help="with --samples: torque against μ as SVG")
     _shoe_options(s)
@@ -383,6 +386,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
         effort_N=effort,
         required_torque_Nm=req,
         max_bytes=_max_bytes(args),
+        spring_tolerance=args.spring_tolerance,
         **_shoe_kwargs(args),
     )
     if args.svg:

@@ -191,8 +191,10 @@ def check(
     ------
     DrawingReadError, ConfigError, MechanismError, SolveError
     """
+    from dxfcheck.gate.release import with_release
     from dxfcheck.gate.rules import judge
     from dxfcheck.gate.spec import load_spec
+    from dxfcheck.gate.strength import with_strength
 
     cfg = resolve_config(path, config)
     drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
@@ -207,7 +209,7 @@ def check(
     drawing = _spec_units(drawing, judged_spec, path, cfg, units=units, max_bytes=max_bytes)
     effort = judged_spec.num("effort")
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort)
-    return judge(mech, judged_spec)
+    return with_strength(with_release(judge(mech, judged_spec)))
 
 
 def _spec_units(
@@ -248,9 +250,11 @@ def sensitivity(
     effort_N: float | None = None,
     required_torque_Nm: float | None = None,
     max_bytes: int | None = None,
+    spring_tolerance: float = 0.0,
 ) -> SensitivityResult:
-    """Sample μ over ``mu_range`` and every pin within ``pin_tolerance_mm``
-    [mm]; see :func:`dxfcheck.statics.sampling.sample_design`."""
+    """Sample μ over ``mu_range``, every pin within ``pin_tolerance_mm``
+    [mm] and every spring's force within ± ``spring_tolerance`` (a
+    fraction); see :func:`dxfcheck.statics.sampling.sample_design`."""
     from dxfcheck.statics.sampling import sample_design
 
     cfg = resolve_config(path, config)
@@ -275,4 +279,5 @@ def sensitivity(
         directions=directions,
         options=options,
         required_torque_Nm=required_torque_Nm,
+        spring_tolerance=spring_tolerance,
     )

@@ -31,6 +31,7 @@ __all__ = [
     "pivoted_long_shoes",
     "push_rod_block",
     "simple_band",
+    "spring_rod_double_block",
     "winch_two_shoe",
 ]
 
@@ -91,6 +92,37 @@ def double_block_spring_pair(*, r: float, l: float, x: float, a: float, spring: 
         c = 180.0 if side < 0 else 0.0
         sk.shoe(0, 0, r, c - 20, c + 20, label=f"{name} block")
         sk.load(ox, oy + l, -side, 0, spring, length=50)
+    return sk
+
+
+def spring_rod_double_block(*, spring: str = "3500 N C", rod_first: bool = False, reverse: bool = False) -> Sketch:
+    """The double-block geometry of :func:`double_block_spring_pair` (r = 180,
+    l = 450, x = 200, a = 140) set the usual way: a pull rod pinned to the
+    left lever's top T1(-320, 250) runs through the right lever (which
+    crosses it and goes on to (320, 300): crossing lines do not join) to a
+    nut at (400, 250); a compression spring on the rod between the right
+    lever and the nut pushes the lever towards the drum and pulls the rod,
+    and so the left lever, the other way.  ``rod_first`` draws the rod
+    before the right lever, ``reverse`` the spring from the nut."""
+    sk = Sketch()
+    r = 180.0
+    sk.drum(0, 0, r)
+    for side, name in ((-1, "left"), (1, "right")):
+        ox = side * 320.0
+        sk.pivot(ox, -200, 20, label=f"O {name}")
+        sk.link((ox, 0.0), (side * r, 0.0))
+        c = 180.0 if side < 0 else 0.0
+        sk.shoe(0, 0, r, c - 20, c + 20, label=f"{name} block")
+    sk.link((-320, -200), (-320, 250), label="left lever", label_at=(-335, 100))
+    sk.pin(-320, 250, 16, label="T1")
+    rod = ((-320.0, 250.0), (400.0, 250.0))
+    if rod_first:
+        sk.link(*rod, label="pull rod", label_at=(0, 265))
+    sk.link((320, -200), (320, 300), label="right lever", label_at=(335, 100))
+    if not rod_first:
+        sk.link(*rod, label="pull rod", label_at=(0, 265))
+    ends = ((400.0, 250.0), (320.0, 250.0)) if reverse else ((320.0, 250.0), (400.0, 250.0))
+    sk.spring(*ends, spring)
     return sk
 
 
@@ -301,6 +333,7 @@ CATALOGUE: dict[str, tuple[Callable[[], Sketch], float]] = {
     "block a<0": (lambda: block_brake(r=200, l=500, x=200, a=-50, effort="1 kN"), 0.35),
     "block a=0": (lambda: block_brake(r=200, l=500, x=200, a=0, effort="1 kN"), 0.35),
     "double block": (lambda: double_block_spring_pair(r=180, l=450, x=200, a=140, spring="3500 N"), 0.4),
+    "double block, spring on a pull rod": (spring_rod_double_block, 0.4),
     "push rod block": (push_rod_block, 0.3),
     "pivoted long pair": (lambda: pivoted_long_shoes(r=250, semi_deg=50, a=280.59, effort_N=4000, pair=True), 0.2),
     "pivoted long, pin off the ideal": (

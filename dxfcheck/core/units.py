@@ -125,6 +125,27 @@ FORCE_N: dict[str, float] = {
     "tf": 1000 * KGF_N,
 }
 
+#: Spring rate (force per length) -> [N/mm] (issue 19: spring_rate).
+STIFFNESS_N_PER_MM: dict[str, float] = {
+    "n/mm": 1.0,
+    "n/m": 1.0e-3,
+    "kn/m": 1.0,
+    "kn/mm": 1.0e3,
+    "n/cm": 0.1,
+    "lbf/in": LBF_N / INCH_MM,
+    "lb/in": LBF_N / INCH_MM,
+}
+
+#: Section modulus (a length cubed) -> [mm³] (issue 19: part_section_modulus).
+SECTION_MODULUS_MM3: dict[str, float] = {
+    "mm3": 1.0,
+    "mm^3": 1.0,
+    "cm3": 1.0e3,
+    "cm^3": 1.0e3,
+    "in3": INCH_MM**3,
+    "in^3": INCH_MM**3,
+}
+
 #: Torque units -> [N·m].
 TORQUE_NM: dict[str, float] = {
     "n*m": 1.0,
@@ -248,6 +269,8 @@ HEAT_TRANSFER_W_M2_K: dict[str, float] = {
 DIMENSIONS: dict[str, tuple[dict[str, float], str]] = {
     "length": ({k.lower(): v for k, v in LENGTH_MM.items()}, "mm"),
     "force": (FORCE_N, "N"),
+    "stiffness": (STIFFNESS_N_PER_MM, "N/mm"),
+    "section_modulus": (SECTION_MODULUS_MM3, "mm3"),
     "torque": (TORQUE_NM, "N*m"),
     "pressure": (PRESSURE_MPA, "MPa"),
     "speed": (SPEED_RPM, "rpm"),

@@ -212,7 +212,10 @@ def check_subjects(spec: Spec, mech: Mechanism, members: Iterable[str]) -> None:
         if name not in member_names:
             why = ""
             if name in {p.name for p in mech.parts}:
-                why = f" ('{name}' is a part, but not a two-force member: a rod pinned at its two ends only)"
+                why = (
+                    f" ('{name}' is a part, but not a two-force member: a rod with forces at its two ends only, "
+                    "two pins or a pin and a spring)"
+                )
             problems.append(_unknown_subject("two-force member", name, values, member_names, "members", why))
     if problems:
         raise ConfigError("; ".join(problems), path=mech.drawing.path)

@@ -77,6 +77,8 @@ MU_MAX = 1.5
 QUANTITY_MAX: dict[str, float] = {
     "length": 1e6,  # mm: 1 km
     "force": 1e9,  # N
+    "stiffness": 1e9,  # N/mm
+    "section_modulus": 1e15,  # mm3
     "torque": 1e9,  # N*m
     "pressure": 1e6,  # MPa
     "speed": 1e6,  # rpm
@@ -109,6 +111,7 @@ class Kind(enum.Enum):
     NUMBER = "number"  # a dimensionless number
     DIRECTIONS = "directions"  # a list of "cw"/"ccw"
     CHOICE = "choice"  # one word from a list
+    NAME = "name"  # the name of something in the drawing (a load, a spring)
 
 
 @dataclass(frozen=True)
@@ -119,7 +122,7 @@ class Key:
     doc: str
     dimension: str | None = None
     choices: tuple[str, ...] = ()
-    per: str | None = None  # "pins" or "members" when it may be overridden per subject
+    per: str | None = None  # "pins", "members" or "parts" when it may be overridden per subject
     minimum: float | None = None
     maximum: float | None = None
     #: the value must be above ``minimum`` (not equal to it)
@@ -169,6 +172,31 @@ KEYS: dict[str, Key] = {
     "buckling_safety": Key(Kind.NUMBER, "required Euler load / axial load", per="members", minimum=1.0, maximum=100.0),
     # effort
     "effort": Key(Kind.QUANTITY, "magnitude of every load", "force"),
+    # release, wear and springs (issue 19: dxfcheck.gate.release, dxfcheck.statics.kinematics)
+    "actuator": Key(Kind.NAME, "the load or spring the release actuator moves against its force (F1, spring1)"),
+    "shoe_clearance": Key(Kind.QUANTITY, "radial lift of every shoe (and band) wanted at release", "length"),
+    "actuator_stroke": Key(Kind.QUANTITY, "the actuator's working stroke", "length"),
+    "actuator_force": Key(Kind.QUANTITY, "the actuator's force", "force"),
+    "release_margin": Key(Kind.NUMBER, "actuator force / force needed to release", minimum=1.0, maximum=10.0),
+    "lining_thickness": Key(Kind.QUANTITY, "lining thickness when new", "length"),
+    "wear_allowance": Key(Kind.QUANTITY, "lining wear the stroke must take up before adjustment", "length"),
+    "spring_rate": Key(Kind.QUANTITY, "rate of the setting spring(s)", "stiffness"),
+    "spring_preload_tolerance": Key(
+        Kind.NUMBER, "± tolerance of the spring force, a fraction (0.1 for ±10 %)", minimum=0.0, maximum=0.9
+    ),
+    # strength of parts and the drum shaft (issue 19: dxfcheck.statics.strength, dxfcheck.gate.strength)
+    "part_width": Key(
+        Kind.QUANTITY, "rectangular section: width across the drawing (plate thickness)", "length", per="parts"
+    ),
+    "part_height": Key(Kind.QUANTITY, "rectangular section: depth in the drawing's plane", "length", per="parts"),
+    "part_diameter": Key(Kind.QUANTITY, "round section: diameter", "length", per="parts"),
+    "part_section_modulus": Key(
+        Kind.QUANTITY, "section modulus for bending in the drawing's plane", "section_modulus", per="parts"
+    ),
+    "part_stress_allow": Key(
+        Kind.QUANTITY, "allowed normal stress in a part (bending + axial)", "pressure", per="parts"
+    ),
+    "shaft_load_max": Key(Kind.QUANTITY, "allowed resultant force of the shoes and bands on the drum shaft", "force"),
     # shoe theory
     "shoe_model": Key(Kind.CHOICE, "short, long or auto", choices=("short", "long", "auto")),
     "long_shoe_threshold": Key(
@@ -253,12 +281,13 @@ DEFAULTS: dict[str, tuple[Any, str]] = {
     "pin_shear_planes": (1.0, "single shear, the conservative case"),
     "rod_end_factor": (1.0, "pinned-pinned (Euler's fundamental case)"),
     "buckling_safety": (3.0, "common practice for machine links, no single source"),
+    "release_margin": (1.2, "actuator 20 % above the force it must overcome: common practice, no single source"),
     "torque_asymmetry_max": (0.30, "the weaker direction usually sets the holding duty"),
     "shoe_model": ("auto", "long-shoe theory above the threshold"),
     "long_shoe_threshold": (60.0, "published thresholds range from 40° to 60°"),
 }
 
-_SUBTABLES = ("pins", "members")
+_SUBTABLES = ("pins", "members", "parts")
 
 
 @dataclass(frozen=True)
@@ -299,12 +328,13 @@ class Spec:
     values: dict[str, SpecValue] = field(default_factory=dict)
     pins: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
     members: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+    parts: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
 
     def get(self, key: str, subject: str | None = None) -> SpecValue | None:
         """The value for ``key``, a per-pin or per-member one first."""
         per = KEYS[key].per
         if subject is not None and per is not None:
-            table = self.pins if per == "pins" else self.members
+            table = {"pins": self.pins, "members": self.members, "parts": self.parts}[per]
             hit = table.get(subject, {}).get(key)
             if hit is not None:
                 return hit
@@ -317,7 +347,7 @@ class Spec:
     def all_values(self) -> list[SpecValue]:
         """Every value, the per-subject ones named ``pins.NAME.key``."""
         out = list(self.values.values())
-        for tname, table in (("pins", self.pins), ("members", self.members)):
+        for tname, table in (("pins", self.pins), ("members", self.members), ("parts", self.parts)):
             for subject, vals in table.items():
                 out += [
                     SpecValue(f"{tname}.{subject}.{v.key}", v.value, v.unit, v.text, v.source) for v in vals.values()
@@ -405,6 +435,10 @@ def _parse_value(key: str, raw: Any, source: str) -> SpecValue:
         if not isinstance(items, list | tuple) or not items or not all(i in ("cw", "ccw") for i in items):
             raise ConfigError(f"{where} must be a list of 'cw' and 'ccw', got {raw!r}")
         return SpecValue(key, tuple(dict.fromkeys(items)), "", str(raw), source)
+    if spec.kind is Kind.NAME:
+        if not isinstance(raw, str) or not raw.strip():
+            raise ConfigError(f"{where} must be a name from the drawing, e.g. 'F1', got {str(raw)[:40]!r}")
+        return SpecValue(key, raw.strip(), "", raw, source)
     raw = dict(spec.aliases).get(raw, raw) if isinstance(raw, str) else raw
     if not isinstance(raw, str) or raw not in spec.choices:
         raise ConfigError(f"{where} must be one of {', '.join(spec.choices)}, got {raw!r}")
@@ -458,6 +492,7 @@ class _Builder:
     values: dict[str, SpecValue] = field(default_factory=dict)
     pins: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
     members: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
+    parts: dict[str, dict[str, SpecValue]] = field(default_factory=dict)
 
     def put(self, key: str, raw: Any, source: str, subject: tuple[str, str] | None = None) -> None:
         if key not in KEYS:
@@ -471,7 +506,7 @@ class _Builder:
         table_name, name = subject
         if KEYS[key].per != table_name:
             raise ConfigError(f"{source}: {key!r} cannot be set per {table_name[:-1]}")
-        table = self.pins if table_name == "pins" else self.members
+        table = {"pins": self.pins, "members": self.members, "parts": self.parts}[table_name]
         table.setdefault(name, {})[key] = v
 
     def table(self, data: Mapping[str, Any], source: str, *, skip: Iterable[str] = ()) -> None:
@@ -491,7 +526,7 @@ class _Builder:
             self.put(key, raw, source)
 
     def build(self) -> Spec:
-        return Spec(dict(self.values), dict(self.pins), dict(self.members))
+        return Spec(dict(self.values), dict(self.pins), dict(self.members), dict(self.parts))
 
 
 def parse_assignment(text: str) -> tuple[str, str]:

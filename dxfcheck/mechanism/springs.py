@@ -69,8 +69,13 @@ def _ends(
     end on neither."""
     ends: list[str | None] = []
     findings: list[Finding] = []
-    for end in (sp.points[0], sp.points[-1]):
+    pair = (sp.points[0], sp.points[-1])
+    for k, end in enumerate(pair):
         on = topo.parts_at(end)
+        # a spring on a rod: the end where the rod crosses a lever acts on the
+        # lever, not on the rod that also carries the spring's other end
+        other = set(topo.parts_at(pair[1 - k]))
+        on = [i for i in on if i not in other] + [i for i in on if i in other]
         if on:
             ends.append(part_names[on[0]])
         elif any(dist(c, end) <= topo.tol for c in pivots):

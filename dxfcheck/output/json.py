@@ -29,6 +29,7 @@ from dxfcheck.statics import (
     CaseSolution,
     LoadResult,
     MemberResult,
+    PartDiagram,
     PinResult,
     ShoeResult,
     Solution,
@@ -196,6 +197,30 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
         "springs": [_spring_result(s) for s in c.springs],
         "effort_scale": c.effort_scale,
         "loads": [_load_result(ld) for ld in c.loads],
+        "drum_load_N": _point(c.drum_load_N),
+        "parts": [_part_diagram(d) for d in c.parts],
+    }
+
+
+def _point(p: tuple[float, float] | None) -> list[float] | None:
+    return None if p is None else [p[0], p[1]]
+
+
+def _part_diagram(d: PartDiagram) -> dict[str, Any]:
+    """A part's internal forces along its centreline (the solver's stations)."""
+    return {
+        "part": d.part,
+        "tree": d.tree,
+        "stations": [
+            {
+                "segment": st.segment,
+                "at_mm": _point(st.at_mm),
+                "axial_N": st.axial_N,
+                "shear_N": st.shear_N,
+                "moment_Nmm": st.moment_Nmm,
+            }
+            for st in d.stations
+        ],
     }
 
 
@@ -454,6 +479,7 @@ def sensitivity_to_dict(res: Any, drawing: str) -> dict[str, Any]:
         "seed": res.seed,
         "mu_range": list(res.mu_range),
         "pin_tolerance_mm": res.pin_tolerance_mm,
+        "spring_tolerance": res.spring_tolerance,
         "required_torque_Nm": res.required_torque_Nm,
         "seconds": res.seconds,
         "directions": [_sampled_direction(d) for d in res.directions],

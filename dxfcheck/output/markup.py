@@ -281,14 +281,19 @@ def _arrows(forces: list[_Force], drum_d: float) -> tuple[float, str, tuple[Arro
 
 
 def _member_notes(case: CaseSolution) -> tuple[MemberNote, ...]:
-    """Each two-force member's axial force, written between its end pins."""
+    """Each two-force member's axial force, written between its ends."""
 
     def at(pin: str) -> Point:
         p = case.pin(pin)
         return (p.x_mm, p.y_mm)
 
     return tuple(
-        MemberNote(m.name, (at(m.ends[0]), at(m.ends[1])), m.axial_N, f"{m.name}: {_fmt_force(m.axial_N)} {m.state}")
+        MemberNote(
+            m.name,
+            m.ends_mm if m.ends_mm is not None else (at(m.ends[0]), at(m.ends[1])),
+            m.axial_N,
+            f"{m.name}: {_fmt_force(m.axial_N)} {m.state}",
+        )
         for m in case.members
     )
 

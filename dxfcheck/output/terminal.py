@@ -601,7 +601,9 @@ def print_sensitivity(res: Any, drawing: str, out: IO[str] | None = None) -> Non
     console = _console(out)
     console.print(
         f"[bold]dxfcheck sensitivity[/]  {_esc(drawing)}: {res.samples} samples, μ {res.mu_range[0]:g} to "
-        f"{res.mu_range[1]:g}, pins ± {res.pin_tolerance_mm:g} mm, seed {res.seed} ({res.seconds:.2f} s)"
+        f"{res.mu_range[1]:g}, pins ± {res.pin_tolerance_mm:g} mm"
+        + (f", springs ± {100 * res.spring_tolerance:g} %" if res.spring_tolerance else "")
+        + f", seed {res.seed} ({res.seconds:.2f} s)"
     )
     t = _table("distributions", ("quantity", *SAMPLE_KEYS), right=SAMPLE_KEYS)
     for d in res.directions:

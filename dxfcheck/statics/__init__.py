@@ -18,11 +18,13 @@ from dxfcheck.statics.results import (
     CaseSolution,
     LoadResult,
     MemberResult,
+    PartDiagram,
     PinResult,
     ShoeResult,
     Solution,
     SpringEnd,
     SpringResult,
+    Station,
 )
 from dxfcheck.statics.solver import solve, solve_case, solve_for_torque
 
@@ -33,11 +35,13 @@ __all__ = [
     "CaseSolution",
     "LoadResult",
     "MemberResult",
+    "PartDiagram",
     "PinResult",
     "ShoeResult",
     "Solution",
     "SpringEnd",
     "SpringResult",
+    "Station",
     "critical_mu",
     "solve",
     "solve_case",

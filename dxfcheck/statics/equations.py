@@ -38,6 +38,7 @@ __all__ = [
     "coefficients",
     "column_owners",
     "contact_models",
+    "reference_points",
     "row_owners",
     "solve_system",
     "tight_at_end",
@@ -172,6 +173,13 @@ def _ref_point(mech: Mechanism, part: Part) -> Point:
     return (sum(p[0] for p in pts) / len(pts), sum(p[1] for p in pts) / len(pts))
 
 
+def reference_points(mech: Mechanism) -> dict[str, Point]:
+    """Each part's reference point [mm]: the point its moment row is taken
+    about and its motion is given at (a pivoted shoe's pin, else the mean of
+    its centreline's points)."""
+    return {p.name: _ref_point(mech, p) for p in mech.parts}
+
+
 def contact_models(
     mech: Mechanism, options: ContactOptions = DEFAULT_OPTIONS
 ) -> tuple[dict[str, ContactModel], list[Finding]]:
@@ -223,7 +231,7 @@ def assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direct
     bases = {sh.name: models[sh.name].basis(mu, direction) for sh in mech.shoes}
     cols = column_owners(mech, bases)
     index = {o: i for i, o in enumerate(rows)}
-    refs = {p.name: _ref_point(mech, p) for p in mech.parts}
+    refs = reference_points(mech)
     a = np.zeros((len(rows), len(cols)))
     _pin_columns(mech, a, cols, index, refs)
     findings = _shoe_columns(mech, a, cols, index, refs, bases)

@@ -21,11 +21,13 @@ __all__ = [
     "CaseSolution",
     "LoadResult",
     "MemberResult",
+    "PartDiagram",
     "PinResult",
     "ShoeResult",
     "Solution",
     "SpringEnd",
     "SpringResult",
+    "Station",
 ]
 
 
@@ -230,16 +232,60 @@ class SpringResult:
 @dataclass(frozen=True)
 class MemberResult:
     """A two-force member's axial force ``axial_N`` [N], tension positive,
-    between pins ``ends``; ``length_mm`` [mm] between them."""
+    between ``ends`` (two pins, or a pin and a spring or load that acts on
+    the member's other end), at ``ends_mm`` [mm]; ``length_mm`` [mm] between
+    them."""
 
     name: str
     ends: tuple[str, str]
     axial_N: float
     length_mm: float
+    ends_mm: tuple[Point, Point] | None = None
 
     @property
     def state(self) -> str:
         return "tension" if self.axial_N >= 0 else "compression"
+
+
+@dataclass(frozen=True)
+class Station:
+    """The internal forces at one section of a part's centreline.
+
+    ``at_mm`` [mm] is the section's point on the segment from ``start_mm``
+    to ``end_mm`` [mm] of the part's ``segment``; the forces are those the
+    part beyond the section (towards ``end_mm``) passes through it:
+    ``axial_N`` [N] along the segment (tension positive), ``shear_N`` [N]
+    across it (along the segment's direction turned 90° counter-clockwise)
+    and ``moment_Nmm`` [N·mm], the moment about the section of every force
+    on the part beyond it, counter-clockwise positive.
+    """
+
+    segment: int
+    start_mm: Point
+    end_mm: Point
+    at_mm: Point
+    axial_N: float
+    shear_N: float
+    moment_Nmm: float
+
+
+@dataclass(frozen=True)
+class PartDiagram:
+    """A part's axial force, shear and bending moment along its centreline
+    (its segments split where another segment or a force meets them), from
+    the solved pin, contact, load and spring forces on it.  ``stations``
+    holds both sides of every point where a force acts; ``tree`` is False
+    for a part whose centreline closes a loop (its internal forces are then
+    not fixed by statics, and no stations are given)."""
+
+    part: str
+    tree: bool
+    stations: tuple[Station, ...]
+
+    @property
+    def worst(self) -> Station | None:
+        """The station of the largest bending moment, if any."""
+        return max(self.stations, key=lambda s: abs(s.moment_Nmm), default=None)
 
 
 @dataclass(frozen=True)
@@ -301,6 +347,11 @@ class CaseSolution:
     springs: tuple[SpringResult, ...] = ()
     effort_scale: float | None = None
     short_shoe_torque_Nm: float | None = None
+    #: Each part's internal forces along its centreline.
+    parts: tuple[PartDiagram, ...] = ()
+    #: The resultant [N] of every force the shoes and bands put on the drum
+    #: (the drum shaft's load; its bearings take the opposite).
+    drum_load_N: Point | None = None
 
     @property
     def brakes(self) -> bool:
@@ -328,6 +379,9 @@ class CaseSolution:
 
     def member(self, name: str) -> MemberResult:
         return next(m for m in self.members if m.name == name)
+
+    def part(self, name: str) -> PartDiagram:
+        return next(p for p in self.parts if p.part == name)
 
 
 @dataclass(frozen=True)

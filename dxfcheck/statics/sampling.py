@@ -1,8 +1,11 @@
-"""Design sensitivity: the torque and the loads over the friction range and
-the pins' positional tolerance, by Monte Carlo sampling.
+"""Design sensitivity: the torque and the loads over the friction range,
+the pins' positional tolerance and the springs' force tolerance, by Monte
+Carlo sampling.
 
 μ is drawn uniformly over its range, every pin's position uniformly within
-its tolerance (a square of side 2 × tolerance about its drawn position).  For
+its tolerance (a square of side 2 × tolerance about its drawn position),
+every spring's force uniformly within ± its tolerance (a fraction; the
+right-hand side is linear in each spring's force).  For
 a given geometry the statics is linear in the unknowns, and every entry of
 the equilibrium matrix is known in closed form from μ and the pin positions:
 moment-row entries move with the pins; shoe columns are affine in μ (the
@@ -26,7 +29,7 @@ import time
 from collections.abc import Sequence
 from concurrent.futures import ThreadPoolExecutor
 from concurrent.futures import TimeoutError as FuturesTimeout
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import NamedTuple
 
 import numpy as np
@@ -113,6 +116,8 @@ class SensitivityResult:
     directions: tuple[DirectionStats, ...]
     seconds: float
     curve: dict[str, list[tuple[float, float]]] = field(default_factory=dict)
+    #: Each spring's force within ± this fraction of it [-].
+    spring_tolerance: float = 0.0
 
 
 def _stats(values: NDArray[np.float64]) -> dict[str, float]:
@@ -135,6 +140,12 @@ class _Parts:
         self.mech = mech
         self.direction = direction
         self.b = s0.b[self.keep]
+        # the right-hand side without the springs, and each spring's share of it
+        bare = assemble(replace(mech, springs=()), models, 0.0, direction).b[self.keep]
+        self.b_springs = np.array(
+            [assemble(replace(mech, springs=(sp,)), models, 0.0, direction).b[self.keep] - bare for sp in mech.springs]
+        ).reshape(len(mech.springs), len(self.keep))
+        self.b_bare = bare
         self.fixed = s0.a.copy()
         self.mu_part = np.zeros_like(s0.a)
         self.exp_part = np.zeros_like(s0.a)
@@ -216,9 +227,10 @@ class _Parts:
         self._local = threading.local()  # one work buffer per thread
 
     def solve(
-        self, mu: NDArray[np.float64], dpin: NDArray[np.float64]
+        self, mu: NDArray[np.float64], dpin: NDArray[np.float64], springs: NDArray[np.float64] | None = None
     ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
-        """Torque [N·m] and every pin's force [N] (on its first body) for each sample."""
+        """Torque [N·m] and every pin's force [N] (on its first body) for each
+        sample; ``springs`` (samples × springs) scales each spring's force."""
         if not hasattr(self, "fixed_k"):
             self.prepare()
         n = mu.shape[0]
@@ -246,7 +258,11 @@ class _Parts:
             if r2 is not None:
                 ref = pins[k].center
                 a[:, r2, j] = ((px_c - ref[0]) * fy - (py_c - ref[1]) * fx) / self.L
-        x = np.linalg.solve(a, np.broadcast_to(self.b, (n, self.b.shape[0]))[..., None])[..., 0]
+        if springs is None:
+            b = np.broadcast_to(self.b, (n, self.b.shape[0]))
+        else:
+            b = self.b_bare[None, :] + springs @ self.b_springs
+        x = np.linalg.solve(a, b[..., None])[..., 0]
         torque = x @ self.torque0 + (mu[:, None] * x) @ self.torque_mu
         for j, theta in self.exp_theta.items():
             torque += x[:, j] * np.exp(mu * theta) * self.torque_exp[j]
@@ -279,14 +295,18 @@ def _pivoted_contact(
 
 
 def _chunk(
-    parts: _Parts, mu: NDArray[np.float64], dpin: NDArray[np.float64]
+    parts: _Parts, mu: NDArray[np.float64], dpin: NDArray[np.float64], springs: NDArray[np.float64] | None
 ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
     deadline.check("sampling")  # a chunk that starts after the deadline is not solved
-    return parts.solve(mu, dpin)
+    return parts.solve(mu, dpin, springs)
 
 
 def _solve_chunks(
-    parts: _Parts, mu_all: NDArray[np.float64], dpin_all: NDArray[np.float64], chunk: int
+    parts: _Parts,
+    mu_all: NDArray[np.float64],
+    dpin_all: NDArray[np.float64],
+    chunk: int,
+    springs_all: NDArray[np.float64] | None = None,
 ) -> list[tuple[NDArray[np.float64], NDArray[np.float64]]]:
     """Every chunk of samples solved on a thread pool (numpy's batched
     solve releases the GIL: chunks run on every core), within the run's
@@ -297,7 +317,13 @@ def _solve_chunks(
     done = False
     try:
         futures = [
-            pool.submit(_chunk, parts, mu_all[i : i + chunk], dpin_all[i : i + chunk])
+            pool.submit(
+                _chunk,
+                parts,
+                mu_all[i : i + chunk],
+                dpin_all[i : i + chunk],
+                None if springs_all is None else springs_all[i : i + chunk],
+            )
             for i in range(0, len(mu_all), chunk)
         ]
         results = []
@@ -325,8 +351,10 @@ def sample_design(
     options: ContactOptions = DEFAULT_OPTIONS,
     required_torque_Nm: float | None = None,
     chunk: int = CHUNK,
+    spring_tolerance: float = 0.0,
 ) -> SensitivityResult:
-    """Sample μ and the pin positions and solve every sample exactly.
+    """Sample μ, the pin positions and the spring forces (each within ±
+    ``spring_tolerance``, a fraction) and solve every sample exactly.
 
     Raises
     ------
@@ -334,6 +362,8 @@ def sample_design(
         On a bad range or sample count, or a linkage that cannot be sampled.
     """
     lo, hi = mu_range
+    if not 0.0 <= spring_tolerance < 1.0:
+        raise ConfigError(f"the spring force tolerance must be a fraction from 0 to below 1, got {spring_tolerance:g}")
     if not (0 <= lo <= hi < math.inf) or not 1 <= samples <= MAX_SAMPLES or not 0 <= pin_tolerance_mm < math.inf:
         raise ConfigError(
             f"sampling needs 0 ≤ mu_min ≤ mu_max, 1 to {MAX_SAMPLES:,} samples and a tolerance ≥ 0 "
@@ -349,7 +379,10 @@ def sample_design(
         parts.prepare()
         mu_all = rng.uniform(lo, hi, samples)
         dpin_all = rng.uniform(-pin_tolerance_mm, pin_tolerance_mm, (samples, len(mech.pins), 2))
-        results = _solve_chunks(parts, mu_all, dpin_all, chunk)
+        springs_all = None
+        if spring_tolerance > 0 and mech.springs:  # drawn only then: a seed's other samples stay as they were
+            springs_all = rng.uniform(1 - spring_tolerance, 1 + spring_tolerance, (samples, len(mech.springs)))
+        results = _solve_chunks(parts, mu_all, dpin_all, chunk, springs_all)
         torque = np.concatenate([t for t, _ in results])
         force = np.concatenate([f for _, f in results])
         worst = int(np.argmax(np.percentile(force, GOVERNING_PERCENTILE, axis=0)))
@@ -361,7 +394,15 @@ def sample_design(
         t_grid, _ = parts.solve(grid, np.zeros((grid.size, len(mech.pins), 2)))
         curve[str(direction)] = [(float(m), float(t)) for m, t in zip(grid, t_grid, strict=True)]
     return SensitivityResult(
-        samples, seed, (lo, hi), pin_tolerance_mm, required_torque_Nm, tuple(stats), time.perf_counter() - t0, curve
+        samples,
+        seed,
+        (lo, hi),
+        pin_tolerance_mm,
+        required_torque_Nm,
+        tuple(stats),
+        time.perf_counter() - t0,
+        curve,
+        spring_tolerance,
     )
 
 

@@ -82,6 +82,7 @@ from dxfcheck.statics.results import (
     SpringEnd,
     SpringResult,
 )
+from dxfcheck.statics.strength import drum_load, part_diagrams
 from dxfcheck.statics.verify import verify_case
 
 __all__ = ["solve", "solve_case", "solve_for_torque"]
@@ -241,7 +242,7 @@ def _solve_case(
         findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
     case = _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options if locking else None)
     verify_case(mech, case)
-    return case
+    return replace(case, parts=part_diagrams(mech, case), drum_load_N=drum_load(case))
 
 
 def _refuse_bad_input(mech: Mechanism, mu: float) -> None:
@@ -287,6 +288,10 @@ def _shoe_result(
     point = line_of_action_point(center, radius, force, m_o, s.arc.mid_deg)
     total = sum(c * w.torque_per_unit_Nmm for c, w in zip(coeffs, ws, strict=True))
     sign = 1.0 if total >= 0 else -1.0
+    if mu == 0.0:  # no torque to tell: the drum pushes a pressing shoe away from it
+        at = line_of_action_point(center, radius, normal, 0.0, s.arc.mid_deg)
+        away = (at[0] - center[0]) * normal[0] + (at[1] - center[1]) * normal[1]
+        sign = 1.0 if (away < 0) == s.internal else -1.0
     peak, peak_deg = model.peak(coeffs)
     patch = model.patch_deg()
     return ShoeResult(
@@ -438,22 +443,37 @@ def _pin_results(mech: Mechanism, att: dict[str, list[Attachment]]) -> tuple[Pin
 
 
 def _member_results(mech: Mechanism, att: dict[str, list[Attachment]]) -> tuple[MemberResult, ...]:
-    """The two-force members (two pins, no shoe, load or spring on them):
-    their axial force, positive in tension."""
+    """The two-force members (no shoe, exactly two points where forces act:
+    two pins, or a pin and a spring's end or a load, such as a pull rod with
+    the setting spring on its nut): their axial force, positive in tension."""
     shoe_parts = {s.part for s in mech.shoes}
-    loaded = {ld.part for ld in mech.loads} | {p for sp in mech.springs for p in sp.parts if p}
     members: list[MemberResult] = []
     for part in mech.parts:
-        if len(part.pins) != 2 or part.name in shoe_parts or part.name in loaded:
+        if part.name in shoe_parts:
             continue
-        pa, pb = mech.pin(part.pins[0]), mech.pin(part.pins[1])
-        length = dist(pa.center, pb.center)
+        points = _force_points(mech, att, part.name)
+        if len(points) != 2:
+            continue
+        (na, pa, _), (nb, pb, fb) = points
+        length = dist(pa, pb)
         if length <= mech.tolerance_mm:
             continue
-        ux, uy = (pb.center[0] - pa.center[0]) / length, (pb.center[1] - pa.center[1]) / length
-        fb = next(a for a in att[pb.name] if a.body == part.name)
-        members.append(MemberResult(part.name, (pa.name, pb.name), fb.fx_N * ux + fb.fy_N * uy, length))
+        ux, uy = (pb[0] - pa[0]) / length, (pb[1] - pa[1]) / length
+        members.append(MemberResult(part.name, (na, nb), fb[0] * ux + fb[1] * uy, length, (pa, pb)))
     return tuple(members)
+
+
+def _force_points(mech: Mechanism, att: dict[str, list[Attachment]], part: str) -> list[tuple[str, Point, Point]]:
+    """Every point where a force acts on ``part``: (the pin's, spring's or
+    load's name, the point [mm], the force on the part there [N]); pins first."""
+    out: list[tuple[str, Point, Point]] = []
+    for name in mech.part(part).pins:
+        a = next(x for x in att[name] if x.body == part)
+        out.append((name, mech.pin(name).center, (a.fx_N, a.fy_N)))
+    for sp in mech.springs:
+        out += [(sp.name, sp.ends[k], sp.force_on(k)) for k in (0, 1) if sp.parts[k] == part]
+    out += [(ld.name, ld.point, ld.force) for ld in mech.loads if ld.part == part]
+    return out
 
 
 def _load_results(mech: Mechanism) -> tuple[LoadResult, ...]:

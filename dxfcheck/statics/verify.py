@@ -207,7 +207,9 @@ def _check_shoes(mech: Mechanism, case: CaseSolution, ftol: float, mtol: float) 
             continue
         _check_pressure(mech, case, s)
         on_drum = -_moment(s.friction_at_mm, s.friction_force_N, c)
-        if on_drum * case.direction.sign >= 0 or abs(on_drum + case.direction.sign * s.torque_Nm * 1000) > mtol:
+        # at μ = 0 there is no friction to oppose the motion (the release kinematics solve there)
+        against = on_drum * case.direction.sign < 0 or case.mu == 0.0
+        if not against or abs(on_drum + case.direction.sign * s.torque_Nm * 1000) > mtol:
             raise _fail(
                 mech,
                 case,

@@ -306,6 +306,7 @@ GEOMETRIES = {
     "block_brake, 90° block": lambda: block_brake(r=125, l=450, x=200, a=50, effort="700 N", contact_deg=90),
     "double_block_spring_pair": lambda: common.double_block_spring_pair(r=180, l=450, x=200, a=140, spring="3500 N"),
     "frame_bellcrank_two_shoe": common.frame_bellcrank_two_shoe,
+    "spring_rod_double_block": common.spring_rod_double_block,
     "push_rod_block": common.push_rod_block,
     "pivoted_long_shoes": lambda: common.pivoted_long_shoes(r=250, semi_deg=50, a=281, effort_N=8000, pair=True),
     "pivoted_long_shoes, far pin": lambda: common.pivoted_long_shoes(

@@ -14,6 +14,7 @@ from common import (
     pivoted_long_shoes,
     push_rod_block,
     simple_band,
+    spring_rod_double_block,
     winch_two_shoe,
 )
 
@@ -37,6 +38,7 @@ SKETCHES = {
     "pivoted-long": lambda: pivoted_long_shoes(r=250, semi_deg=50, a=281, effort_N=8000, pair=True),
     "simple-band": lambda: simple_band(r=200, wrap_deg=225, anchor_run=150, arm=700, effort="500 N"),
     "differential-band": lambda: differential_band(r=300, wrap_deg=240, a=200, c=50, arm=950, effort="300 N"),
+    "spring-on-rod": spring_rod_double_block,
     # layer near misses: circles and entities on layers with no role
     "pins-on-PINS": lambda: _on_layers(
         pivoted_long_shoes(r=250, semi_deg=50, a=330, effort_N=4000, pair=True), pin="PINS"
