@@ -477,7 +477,8 @@ def _annotate(args: argparse.Namespace) -> int:
     out = args.output
     if out is None:
         p = Path(args.drawing)
-        out = str(p.with_name(f"{p.stem}-forces{p.suffix or '.dxf'}"))
+        suffix = ".dxf" if p.suffix.lower() in ("", ".dwg") else p.suffix  # a DWG's copy is DXF
+        out = str(p.with_name(f"{p.stem}-forces{suffix}"))
     sol = analyse(
         args.drawing,
         mu=mu,
@@ -502,8 +503,8 @@ def _subject(args: argparse.Namespace) -> str:
 
 
 def _revisions(items: Sequence[str]) -> list[str]:
-    """The drawings to compare: files as named, folders' ``*.dxf`` in name
-    order.  dxfcheck's own outputs (the marker, whatever their name) are
+    """The drawings to compare: files as named, folders' ``*.dxf`` and
+    ``*.dwg`` in name order.  dxfcheck's own outputs (the marker, whatever their name) are
     skipped in a folder, with a note, and refused when named."""
     from pathlib import Path
 
@@ -513,7 +514,7 @@ def _revisions(items: Sequence[str]) -> list[str]:
     for item in items:
         p = Path(item)
         if p.is_dir():
-            for x in sorted(str(x) for x in p.glob("*.dxf")):
+            for x in sorted(str(x) for pattern in ("*.dxf", "*.dwg") for x in p.glob(pattern)):
                 if is_dxfcheck_output(x):
                     sys.stderr.write(f"dxfcheck: {x}: skipped: a marked-up copy dxfcheck wrote, not a revision\n")
                 else:

@@ -50,6 +50,11 @@ def annotate(
     source = sol.mechanism.drawing.path
     if out is None and svg is None and png is None:
         raise ConfigError("nothing to write: give -o OUT.dxf, --svg OUT.svg or --png OUT.png")
+    if out is not None and str(out) != "-" and Path(out).suffix.lower() == ".dwg":
+        raise ConfigError(
+            "the marked-up copy is written as DXF (there is no DWG writer dxfcheck trusts); name it .dxf",
+            path=str(out),
+        )
     check_targets((Target(out, force), Target(svg, force, text=True), Target(png, force)), protect=(source,))
     markup = plan_markup(sol, direction, judgement)
     title = f"dxfcheck: {Path(source).name}, drum {markup.direction}"
