@@ -12,9 +12,9 @@ give the same :class:`~dxfcheck.read.drawing.Drawing`.  ezdwg's bundled DXF
 conversion (``to_dxf``) is never used: it drops ``$INSUNITS`` and block
 inserts of older versions.
 
-Carried over as geometry: LINE, CIRCLE, ARC, LWPOLYLINE, 2D POLYLINE (its
-vertices and bulges), TEXT, MTEXT, INSERT and MINSERT.  Other kinds (SPLINE,
-ELLIPSE, SOLID, 3D polylines, ...) become an invisible entity of their kind
+Carried over as geometry: LINE, CIRCLE, ARC, ELLIPSE, LWPOLYLINE, 2D
+POLYLINE (its vertices and bulges), TEXT, MTEXT, INSERT and MINSERT.  Other
+kinds (SPLINE, SOLID, 3D polylines, ...) become an invisible entity of their kind
 without geometry where they could reach a role layer (their own layer has a
 role, or ``0`` inside a block), so that the reader reports them as it does
 for DXF (D102); hatches, dimensions, attributes, viewports and points are
@@ -457,6 +457,15 @@ def _carry(layout: Any, e: Any, layer: str, dec: _Source, in_block: bool) -> Any
             float(d["radius"]),
             float(d["start_angle"]),
             float(d["end_angle"]),
+            dxfattribs=_attribs(e, layer, "extrusion"),
+        )
+    if kind == "ELLIPSE":
+        return layout.add_ellipse(
+            d["center"],
+            d["major_axis"],
+            float(d["axis_ratio"]),
+            float(d.get("start_angle", 0.0)),
+            float(d.get("end_angle", math.tau)),
             dxfattribs=_attribs(e, layer, "extrusion"),
         )
     if kind == "LWPOLYLINE":
