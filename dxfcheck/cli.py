@@ -475,8 +475,9 @@ def _annotate(args: argparse.Namespace) -> int:
     effort, mu = _effort_mu(args)
     cfg = resolve_config(args.drawing, args.config)
     out = args.output
+    p_in = Path(args.drawing)
     if out is None:
-        p = Path(args.drawing)
+        p = p_in
         suffix = ".dxf" if p.suffix.lower() in ("", ".dwg") else p.suffix  # a DWG's copy is DXF
         out = str(p.with_name(f"{p.stem}-forces{suffix}"))
     sol = analyse(
@@ -491,9 +492,10 @@ def _annotate(args: argparse.Namespace) -> int:
     )
     written = annotate(sol, out=out, svg=args.svg, png=args.png, direction=args.direction, config=cfg, force=args.force)
     notes = sys.stderr if _report_stream(args, args.svg) else sys.stdout  # the SVG itself may be on stdout
+    as_dxf = " (as DXF: the marked-up copy of a DWG drawing is DXF)" if p_in.suffix.lower() == ".dwg" else ""
     for w in written:
         if str(w) != "-":
-            notes.write(f"wrote {w}\n")
+            notes.write(f"wrote {w}{as_dxf if str(w).lower().endswith('.dxf') else ''}\n")
     return EXIT_OK
 
 
