@@ -238,6 +238,11 @@ def load_dwg(path: Path, head: bytes, roles: Iterable[str]) -> DwgDocument:
         if not _is_panic(exc):
             raise
         raise _damaged_file(spath, code, exc) from None
+    finally:
+        # ezdwg keeps what it decoded keyed by the path: a file changed at the
+        # same path would be read from the old one's tables (and a batch
+        # worker would keep every drawing it read)
+        ezdwg.clear_decode_caches()
     out.seconds = time.perf_counter() - t0
     out.roles_found = any(layer.dxf.name.upper() in wanted for layer in out.doc.layers)
     if code == "AC1012" and not out.roles_found:

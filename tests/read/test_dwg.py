@@ -25,6 +25,7 @@ from __future__ import annotations
 import gzip
 import math
 import os
+import shutil
 import subprocess
 import sys
 from collections import Counter
@@ -254,6 +255,20 @@ def test_arc_ends_agree_under_mirroring(samples: Path) -> None:
     for arc in a.arcs:
         s, e = key[arc.source.ref]
         assert math.isclose(arc.start_deg, s, abs_tol=1e-7) and math.isclose(arc.end_deg, e, abs_tol=1e-7)
+
+
+def test_a_file_changed_at_the_same_path_is_read_anew(samples: Path, tmp_path: Path) -> None:
+    """ezdwg keeps decoded tables by path; the adapter clears them after
+    each reading, so a drawing saved again under its name is read as it is
+    now (before the fix: the second reading mixed both files' tables)."""
+    p = tmp_path / "same.dwg"
+    cfg = Config(layers={Role.PIVOT: ("JOINTS", "0")})
+    shutil.copy(samples / "synth_lr_r2000.dwg", p)
+    first = read_drawing(p, cfg)
+    shutil.copy(samples / "BLOCKXYPARAMETER.dwg", p)
+    second = read_drawing(p, cfg)
+    assert _items(second) == _items(read_drawing(samples / "BLOCKXYPARAMETER.dwg", cfg))
+    assert _items(first) != _items(second)
 
 
 # ---------------------------------------------------------------- R14 and R13
