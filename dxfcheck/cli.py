@@ -124,7 +124,7 @@ class _Parser(argparse.ArgumentParser):
 
 
 def _common(s: argparse.ArgumentParser) -> None:
-    s.add_argument("drawing", help="the DXF drawing (it is only read)")
+    s.add_argument("drawing", help="the DXF or DWG drawing (it is only read; DWG needs the extra dwg)")
     s.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
     s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS (mm, cm, m, inch, ft)")
     s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
@@ -158,7 +158,7 @@ def _shoe_options(s: argparse.ArgumentParser) -> None:
 def _parser() -> argparse.ArgumentParser:
     from dxfcheck.core.version import __version__
 
-    p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF.")
+    p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF (or DWG).")
     p.add_argument("--version", action="version", version=f"dxfcheck {__version__}")
     sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
