@@ -45,7 +45,7 @@ from typing import Any
 
 from dxfcheck.core import deadline
 from dxfcheck.core.errors import DrawingReadError
-from dxfcheck.core.findings import Code, Finding
+from dxfcheck.core.findings import Code, Finding, Severity
 
 __all__ = [
     "DWG_SUFFIX",
@@ -342,8 +342,8 @@ def _build(src: Any, code: str, roles: frozenset[str]) -> DwgDocument:
         base = dec.bases.get(handle, (0.0, 0.0, 0.0))
         try:
             block = doc.blocks.new(name, base_point=base)
-        except _data_errors():  # a duplicate or refused name: its entities cannot be placed
-            carrier.skipped("BLOCK", handle, f"block {name!r} could not be carried over")
+        except _data_errors() as exc:  # a duplicate or refused name: its entities cannot be placed
+            carrier.skipped("BLOCK", handle, f"{name!r} not carried over: {exc}", "0", False)
             continue
         carrier.fill(block, dec.owned.get(handle, ()), in_block=True)
     carrier.fill(doc.modelspace(), dec.model, in_block=False)
@@ -398,18 +398,48 @@ class _Carrier:
         self.dec = dec
         self.count = 0
         self.n_skipped = 0
+        self.unlisted_errors = 0
+        in_blocks = [e for items in dec.owned.values() for e in items]
+        #: some block holds an entity on a role layer (a lost INSERT may place it)
+        self.blocks_hold_roles = any(self.layer_of(e).upper() in dec.roles for e in in_blocks)
+        #: some INSERT is on a role layer (layer-0 entities in blocks may take it)
+        self.inserts_on_roles = any(
+            e.dxftype in ("INSERT", "MINSERT") and self.layer_of(e).upper() in dec.roles
+            for e in (*dec.model, *in_blocks)
+        )
 
-    def skipped(self, kind: str, handle: int, message: str, layer: str | None = None) -> None:
+    def severity(self, kind: str, layer: str, in_block: bool) -> Severity:
+        """An error where what is lost may be the brake's skeleton (so the
+        drawing is not solved with part of it missing), else a warning."""
+        if layer.upper() in self.dec.roles:
+            return Severity.ERROR
+        if kind in ("INSERT", "MINSERT", "BLOCK") and (self.blocks_hold_roles or layer.upper() in self.dec.roles):
+            return Severity.ERROR
+        if in_block and layer == "0" and self.inserts_on_roles:
+            return Severity.ERROR
+        return Severity.WARNING
+
+    def skipped(self, kind: str, handle: int, message: str, layer: str, in_block: bool) -> None:
         self.n_skipped += 1
-        if self.n_skipped <= MAX_SKIPPED_FINDINGS:
-            self.out.findings.append(
-                Finding(Code.DWG_NOT_CARRIED, f"{kind}: {message}", (f"{handle:X}",), (layer,) if layer else ())
+        severity = self.severity(kind, layer, in_block)
+        if severity is Severity.ERROR:
+            message += (
+                "; it may hold the brake's skeleton, so the drawing is not solved: "
+                "save it as DWG R2000 or later, or as DXF"
             )
+        if self.n_skipped <= MAX_SKIPPED_FINDINGS:
+            finding = Finding(Code.DWG_NOT_CARRIED, f"{kind} {message}", (f"{handle:X}",), (layer,), severity=severity)
+            self.out.findings.append(finding)
+        elif severity is Severity.ERROR:
+            self.unlisted_errors += 1
 
     def close(self) -> None:
         more = self.n_skipped - MAX_SKIPPED_FINDINGS
         if more > 0:
-            self.out.findings.append(Finding(Code.DWG_NOT_CARRIED, f"{more} more DWG entities could not be read"))
+            severity = Severity.ERROR if self.unlisted_errors else Severity.WARNING
+            self.out.findings.append(
+                Finding(Code.DWG_NOT_CARRIED, f"{more} more DWG entities could not be carried over", severity=severity)
+            )
 
     def layer_of(self, e: Any) -> str:
         h = e.dxf.get("layer_handle")
@@ -426,7 +456,7 @@ class _Carrier:
             try:
                 made = _carry(layout, e, layer, self.dec, in_block)
             except _data_errors() as exc:
-                self.skipped(e.dxftype, int(e.handle), f"could not be read ({type(exc).__name__}: {exc})", layer)
+                self.skipped(e.dxftype, int(e.handle), f"not carried over: {exc}", layer, in_block)
                 continue
             if made is not None:
                 self.out.handles[str(made.dxf.handle)] = f"{int(e.handle):X}"
@@ -520,7 +550,7 @@ def _insert(layout: Any, e: Any, layer: str, dec: _Source) -> Any:
     d = e.dxf
     name = dec.insert_names.get(int(e.handle)) or d.get("name")
     if not name:
-        raise ValueError("the block it places is not named")
+        raise ValueError("the reader does not decode which block it places (as in some writers' R14 files)")
     attribs = _attribs(e, layer, "xscale", "yscale", "zscale", "rotation", "extrusion")
     if e.dxftype == "MINSERT":
         attribs.update(_attribs(e, layer, "row_count", "column_count", "row_spacing", "column_spacing"))

@@ -36,7 +36,7 @@ import pytest
 
 from dxfcheck.core.config import Config, Role
 from dxfcheck.core.errors import DrawingReadError
-from dxfcheck.core.findings import Code
+from dxfcheck.core.findings import Code, Severity
 from dxfcheck.read import dwg
 from dxfcheck.read.drawing import Drawing, _load_dwg, read_drawing
 
@@ -308,6 +308,14 @@ def test_r14_converter_names_every_insert_it_cannot_place(samples: Path) -> None
     model_inserts = {e.dxf.handle for e in twin.modelspace() if e.dxftype() == "INSERT"}
     named = {h for f in d.findings if f.code is Code.DWG_NOT_CARRIED for h in f.handles}
     assert named == model_inserts and len(named) == 11
+    # no role layer anywhere (default map): what is lost cannot be skeleton, a warning
+    assert {f.severity for f in d.findings if f.code is Code.DWG_NOT_CARRIED} == {Severity.WARNING}
+    # JOINTS as pivots: the blocks hold them, so a lost reference may hold skeleton,
+    # an error: the mechanism is not solved with part of the drawing missing
+    joints = read_drawing(samples / "synth_lr_r14.dwg", Config(layers={Role.PIVOT: ("JOINTS",)}))
+    lost = [f for f in joints.findings if f.code is Code.DWG_NOT_CARRIED]
+    assert len(lost) == 11 and {f.severity for f in lost} == {Severity.ERROR}
+    assert "not solved" in lost[0].message
     dd = _load_dwg(samples / "synth_lr_r14.dwg", Config(), None)
     loose = [(k, layer, s) for k, layer, s in _flat(twin) if k != "INSERT"]
     direct = {e.dxf.handle for e in twin.modelspace() if e.dxftype() != "INSERT"}
