@@ -999,7 +999,7 @@ def _file_ends(path: Path, max_bytes: int | None) -> tuple[int, bytes, bytes]:
 
 
 def load_document(
-    path: Path, *, max_bytes: int | None = None, checked_size: int | None = None
+    path: Path, *, max_bytes: int | None = None, checked_size: int | None = None, config: Config | None = None
 ) -> tuple[Any, list[Finding]]:
     """Open a DXF file with ezdxf, falling back to its recover mode for a
     damaged file; returns the document and what the recovery repaired (as
@@ -1013,6 +1013,10 @@ def load_document(
     checked_size : int, optional
         The size :func:`precheck` already found [bytes]; the checks are not
         run again.
+    config : Config, optional
+        The layer roles (for a DWG: an R13 file is refused when none of its
+        layers has a role).  A ``.dwg`` gives the in-memory document of
+        :mod:`dxfcheck.read.dwg`.
 
     Raises
     ------
@@ -1025,7 +1029,7 @@ def load_document(
 
     spath = str(path)
     if dwg.is_dwg_name(path):
-        dd = _load_dwg(path, Config(), max_bytes)
+        dd = _load_dwg(path, config or Config(), max_bytes)
         return dd.doc, list(dd.findings)
     size = precheck(path, max_bytes) if checked_size is None else checked_size
     findings: list[Finding] = []
