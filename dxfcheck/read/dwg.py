@@ -109,7 +109,17 @@ def _data_errors() -> tuple[type[BaseException], ...]:
     memory)."""
     from ezdxf.lldxf.const import DXFError
 
-    return (DXFError, ValueError, TypeError, KeyError, IndexError, OSError, EOFError, ArithmeticError, UnicodeError)
+    return (
+        DXFError,
+        ValueError,
+        TypeError,
+        AttributeError,
+        LookupError,
+        OSError,
+        EOFError,
+        ArithmeticError,
+        UnicodeError,
+    )
 
 
 def _is_panic(exc: BaseException) -> bool:
@@ -571,7 +581,7 @@ def _stand_in(layout: Any, e: Any, layer: str, dec: _Source, in_block: bool) -> 
     else:
         try:
             made = layout.new_entity(kind, {})
-        except _data_errors():  # a kind ezdxf cannot make: not on any role layer's list anyway
+        except _data_errors():  # a kind ezdxf cannot make bare (IMAGE needs its definition): never skeleton
             return None
     made.dxf.layer = layer
     made.dxf.invisible = 1
