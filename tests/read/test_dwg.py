@@ -426,6 +426,18 @@ def test_bit_flips_are_refused_or_read(samples: Path, tmp_path: Path) -> None:
     assert sum(outcomes.values()) == 12
 
 
+def test_a_section_marked_encrypted_is_refused(samples: Path, tmp_path: Path) -> None:
+    """One bit at byte 37316 of the dynamic-block sample marks a section as
+    encrypted, which ezdwg does not decode (NotImplementedError, found by
+    fuzzing: it was an internal error); refused with the cause."""
+    data = bytearray((samples / "BLOCKXYPARAMETER.dwg").read_bytes())
+    assert data[37316] == 0x05
+    data[37316] = 0x04
+    p = tmp_path / "locked.dwg"
+    p.write_bytes(bytes(data))
+    assert "encrypted" in _refused(p) and "not support" in _refused(p)
+
+
 def test_without_the_extra_a_dwg_names_the_install(samples: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     monkeypatch.setitem(sys.modules, "ezdwg", None)  # import ezdwg raises ImportError
     msg = _refused(samples / "text_2004.dwg")
