@@ -418,23 +418,26 @@ def _old_version_finding(code: str) -> Finding:
 
 
 def _header(src: Any, doc: Any, code: str, out: DwgDocument) -> None:
-    """``$INSUNITS`` from the DWG header (none in R13/R14; some writers'
-    headers cannot be decoded): unset when unknown, so that the reader
-    assumes and says so (D101)."""
+    """``$INSUNITS`` from the DWG header, unset (0) when unknown so that the
+    reader assumes millimetres and says so (D101); D121 says why it is
+    unknown: a header that cannot be decoded (some writers' files), one
+    without ``$INSUNITS`` (R2000 and later; R13/R14 have none, said by
+    D120), or ``$INSUNITS`` = 0, where a DXF reading falls back on
+    ``$MEASUREMENT``, which is not decoded from DWG."""
     insunits: int | None = None
+    why: str | None = None
     try:
         value = src.header_variables().get("insunits")
         insunits = None if value is None else int(value)
     except _data_errors() as exc:
-        out.findings.append(
-            Finding(
-                Code.DWG_HEADER_UNREAD,
-                f"the DWG header could not be decoded ({' '.join(str(exc).split())[:120]}): the drawing's unit is "
-                "unknown; give it with --units or the spec key units",
-            )
-        )
-    if insunits is None and code not in ("AC1012", "AC1014") and not out.findings:
-        out.findings.append(Finding(Code.DWG_HEADER_UNREAD, "the DWG header holds no $INSUNITS: the unit is unknown"))
+        why = f"the DWG header could not be decoded ({' '.join(str(exc).split())[:120]})"
+    if why is None and insunits is None and code not in ("AC1012", "AC1014"):
+        why = "the DWG header holds no $INSUNITS"
+    elif why is None and insunits == 0:
+        why = "$INSUNITS is 0 (unitless) and $MEASUREMENT, which a DXF reading falls back on, is not read from DWG"
+    if why is not None:
+        message = f"{why}: the drawing's unit is unknown; give it with --units or the spec key units"
+        out.findings.append(Finding(Code.DWG_HEADER_UNREAD, message))
     doc.header["$INSUNITS"] = insunits if insunits is not None else 0
     if "$MEASUREMENT" in doc.header:
         del doc.header["$MEASUREMENT"]

@@ -55,18 +55,18 @@ def _copy(target: Any, e: Any) -> None:
         raise ValueError(f"the test writer does not carry {kind}")
 
 
-def write_dwg(dxf_path: Path, dwg_path: Path, *, wrap: bool = False) -> None:
+def write_dwg(dxf_path: Path, dwg_path: Path, *, wrap: bool = False, insunits: int | None = None) -> None:
     """Write ``dxf_path`` as DWG R2000 at ``dwg_path`` (ezdwg's writer).
     ``wrap``: model space goes into block ``INNER``, placed inside block
     ``OUTER`` rotated by 90° and mirrored in x (scale -1, 1), and ``OUTER``
     placed in model space mirrored and rotated by 90° again: the world
-    geometry is the drawing's own."""
+    geometry is the drawing's own. ``insunits`` overrides the header's ``$INSUNITS``."""
     import ezdwg
     import ezdxf
 
     src = ezdxf.readfile(str(dxf_path))
     out = ezdwg.new()
-    out.header["insunits"] = int(src.header.get("$INSUNITS", 0))
+    out.header["insunits"] = int(src.header.get("$INSUNITS", 0)) if insunits is None else insunits
     for layer in src.layers:
         if layer.dxf.name != "0":
             out.layers[layer.dxf.name] = {"color_index": abs(int(layer.dxf.color))}

@@ -271,6 +271,38 @@ def test_a_file_changed_at_the_same_path_is_read_anew(samples: Path, tmp_path: P
     assert _items(first) != _items(second)
 
 
+@pytest.mark.parametrize(("code", "unit", "mm"), [(4, "mm", 1.0), (1, "inch", 25.4), (6, "m", 1000.0)])
+def test_units_from_the_dwg_header(tmp_path: Path, code: int, unit: str, mm: float) -> None:
+    """$INSUNITS written into a DWG header (ezdwg's writer) is the unit read:
+    4 mm, 1 inch, 6 m (DXF Reference, HEADER section); a circle of radius 1
+    drawing unit is then ``mm`` millimetres."""
+    from read.dwg_writer import write_dwg
+
+    dxf = tmp_path / "one.dxf"
+    doc = ezdxf.new("R2000")
+    doc.layers.add("PIVOT")
+    doc.modelspace().add_circle((0, 0), 1.0, dxfattribs={"layer": "PIVOT"})
+    doc.saveas(dxf)
+    write_dwg(dxf, tmp_path / "one.dwg", insunits=code)
+    d = read_drawing(tmp_path / "one.dwg", Config(layers={Role.PIVOT: ("PIVOT",)}))
+    assert (d.units_source, d.mm_per_unit) == ("$INSUNITS", mm) and d.units.startswith(unit[:2])
+    assert [c.radius_mm for c in d.circles] == [mm]
+    assert not d.findings
+
+
+def test_unitless_dwg_says_the_unit_is_unknown(tmp_path: Path) -> None:
+    """$INSUNITS = 0: a DXF reading would fall back on $MEASUREMENT, which
+    is not read from DWG; D121 says so and D101 assumes millimetres."""
+    from read.dwg_writer import write_dwg
+
+    write_dwg(ROOT / "drawings" / "winch_two_shoe.dxf", tmp_path / "w.dwg", insunits=0)
+    d = read_drawing(tmp_path / "w.dwg")
+    codes = [f.code for f in d.findings]
+    assert Code.DWG_HEADER_UNREAD in codes and Code.UNITS_ASSUMED in codes
+    assert "$MEASUREMENT" in next(f.message for f in d.findings if f.code is Code.DWG_HEADER_UNREAD)
+    assert d.units_source == "default"
+
+
 # ---------------------------------------------------------------- R14 and R13
 
 
