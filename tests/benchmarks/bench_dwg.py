@@ -5,7 +5,7 @@
 For each DWG of the shared sample folder (default ``../shared/dwg-samples``
 above the clone) with a DXF twin, times in this process, best of five:
 
-* ``ezdwg`` decoding alone (``ezdwg.read`` and its entities),
+* ``ezdwg`` decoding alone (``ezdwg.read`` and the entities the adapter asks for),
 * the adapter: decoding plus the in-memory ezdxf document,
 * ``read_drawing`` of the DWG (adapter plus dxfcheck's block walk),
 * ``read_drawing`` of the DXF twin, full reader and default (``auto``),
@@ -54,9 +54,11 @@ def twins(folder: Path) -> list[tuple[Path, Path]]:
 def decode(path: Path) -> None:
     import ezdwg
 
+    from dxfcheck.read.dwg import QUERIED_KINDS
+
     ezdwg.clear_decode_caches()
     doc = ezdwg.read(str(path))
-    list(doc.entities().query())
+    list(doc.entities().query(QUERIED_KINDS))
 
 
 def main() -> None:
