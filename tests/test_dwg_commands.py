@@ -142,6 +142,18 @@ def test_compare_dwg_against_dxf(folder: Path) -> None:
     doc = json.loads(r.stdout)
     text = json.dumps(doc)
     assert "winch_two_shoe_w.dwg" in text
+    # the newer revision, a DWG, marked up: as DXF, and never under a .dwg name
+    r = run("compare", "winch_two_shoe.dxf", "winch_two_shoe_w.dwg", "--annotate", "rev.dwg", cwd=folder)
+    assert r.returncode == 2 and "name it .dxf" in r.stderr and not (folder / "rev.dwg").exists()
+    r = run("compare", "winch_two_shoe.dxf", "winch_two_shoe_w.dwg", "--annotate", "rev.dxf", cwd=folder)
+    assert r.returncode == 0, r.stderr
+    assert ezdxf_layers(folder / "rev.dxf") >= {"DXFCHECK_FORCES", "DXFCHECK_NOTES"}
+
+
+def ezdxf_layers(path: Path) -> set[str]:
+    import ezdxf
+
+    return {e.dxf.layer for e in ezdxf.readfile(str(path)).modelspace()}
 
 
 def test_batch_finds_dwg_and_caches_them(folder: Path, tmp_path: Path) -> None:
