@@ -1,5 +1,8 @@
 """Read a layered DXF drawing into plane geometry in [mm].
 
+A DWG drawing (named ``.dwg``) is first made into an in-memory DXF
+document by :mod:`dxfcheck.read.dwg` and then read the same way.
+
 This is the first stage of the pipeline.  It keeps only the entities on the
 layers that carry the brake's skeleton (see :class:`dxfcheck.core.config.Role`),
 including entities placed through block references, and converts them to
@@ -1191,8 +1194,10 @@ def _load_dwg(path: Path, config: Config, max_bytes: int | None) -> dwg.DwgDocum
     """A DWG file as an in-memory ezdxf document (:mod:`dxfcheck.read.dwg`),
     after the same checks of the file as for DXF."""
     _, head, _ = _file_ends(path, max_bytes)
-    with _ezdxf_messages():
-        return dwg.load_dwg(path, head, config.role_of_layer())
+    with _ezdxf_messages() as log:
+        dd = dwg.load_dwg(path, head, config.role_of_layer())
+    dd.findings.extend(log.collected())  # what ezdxf said while the document was built (D114)
+    return dd
 
 
 def _read_dwg(p: Path, config: Config, units: str | None, max_bytes: int | None) -> Drawing:
