@@ -458,6 +458,30 @@ def test_bit_flips_are_refused_or_read(samples: Path, tmp_path: Path) -> None:
     assert sum(outcomes.values()) == 12
 
 
+def test_blocks_that_fan_out_are_refused_in_bounded_time(tmp_path: Path) -> None:
+    """The DXF reader's bounds hold for a DWG: twelve levels of blocks with
+    ten references each (10^12 placements, written as DWG by ezdwg's
+    writer) are refused naming the blocks, before any is walked."""
+    import time
+
+    out = ezdwg.new()
+    out.layers["PIVOT"] = {"color_index": 1}
+    prev = None
+    for i in range(12):
+        block = out.blocks.new(f"B{i}")
+        if prev is None:
+            block.add_circle((0.0, 0.0, 0.0), 1.0, layer="PIVOT")
+        for k in range(10 if prev else 0):
+            block.add_blockref(prev, (3.0 * k, 0.0, 0.0), layer="0")
+        prev = f"B{i}"
+    out.modelspace().add_blockref(prev, (0.0, 0.0, 0.0), layer="0")
+    p = tmp_path / "fan.dwg"
+    out.save(str(p))
+    t = time.perf_counter()
+    assert "'B11' places" in _refused(p)
+    assert time.perf_counter() - t < 30
+
+
 def test_a_section_marked_encrypted_is_refused(samples: Path, tmp_path: Path) -> None:
     """One bit at byte 37316 of the dynamic-block sample marks a section as
     encrypted, which ezdwg does not decode (NotImplementedError, found by
