@@ -243,6 +243,30 @@ def _findings(d: Drawing, skip: set[Code]) -> Counter[tuple[str, str, tuple[str,
     )
 
 
+def test_2d_polyline_with_a_bulge(tmp_path: Path) -> None:
+    """A legacy 2D POLYLINE (vertices, a bulge, closed) written as DWG by
+    ezdwg's writer and as DXF by ezdxf: the same centreline path and the
+    same curved-link finding (D107) from both."""
+    pts = [(0.0, 0.0), (100.0, 0.0), (100.0, 40.0)]
+    out = ezdwg.new()
+    out.header["insunits"] = 4
+    out.layers["LINK"] = {"color_index": 1}
+    out.modelspace().add_polyline2d(pts, bulges=[0.0, 0.5, 0.0], closed=True, layer="LINK")
+    out.save(str(tmp_path / "poly.dwg"))
+    doc = ezdxf.new("R2000", units=4)
+    doc.layers.add("LINK")
+    poly = doc.modelspace().add_polyline2d(pts, close=True, dxfattribs={"layer": "LINK"})
+    poly.vertices[1].dxf.bulge = 0.5
+    doc.saveas(tmp_path / "poly.dxf")
+    cfg = Config(layers={Role.LINK: ("LINK",)})
+    a, b = read_drawing(tmp_path / "poly.dwg", cfg), read_drawing(tmp_path / "poly.dxf", cfg)
+    assert [p.points for p in a.paths] == [p.points for p in b.paths]
+    assert a.paths[0].points == ((0.0, 0.0), (100.0, 0.0), (100.0, 40.0), (0.0, 0.0))
+    assert [
+        f.code for f in a.findings if f.code is not Code.UNITS_ASSUMED and f.code is not Code.DWG_HEADER_UNREAD
+    ] == [Code.CURVED_LINK]
+
+
 def test_arc_ends_agree_under_mirroring(samples: Path) -> None:
     """Direction before number: an arc placed by a mirroring insert runs
     counter-clockwise from the same start angle in both readings (the
