@@ -267,6 +267,32 @@ def test_2d_polyline_with_a_bulge(tmp_path: Path) -> None:
     ] == [Code.CURVED_LINK]
 
 
+def test_aligned_text_and_mtext(tmp_path: Path) -> None:
+    """A TEXT aligned by its second point (halign 1, valign 2: the DXF
+    Reference places such a text at its alignment point) and an MTEXT with
+    a paragraph break, written as DWG and as DXF: the same label texts at
+    the same places."""
+    out = ezdwg.new()
+    out.header["insunits"] = 4
+    out.layers["LABEL"] = {"color_index": 1}
+    msp = out.modelspace()
+    msp.add_text("O1", (10.0, 10.0, 0.0), 5.0, halign=1, valign=2, align_point=(20.0, 30.0, 0.0), layer="LABEL")
+    msp.add_mtext("S2\\Pright shoe", (50.0, 60.0, 0.0), 5.0, layer="LABEL")
+    out.save(str(tmp_path / "t.dwg"))
+    doc = ezdxf.new("R2000", units=4)
+    doc.layers.add("LABEL")
+    dmsp = doc.modelspace()
+    dmsp.add_text(
+        "O1", dxfattribs={"insert": (10, 10), "halign": 1, "valign": 2, "align_point": (20, 30), "layer": "LABEL"}
+    )
+    dmsp.add_mtext("S2\\Pright shoe", dxfattribs={"insert": (50, 60), "char_height": 5.0, "layer": "LABEL"})
+    doc.saveas(tmp_path / "t.dxf")
+    cfg = Config(layers={Role.LABEL: ("LABEL",)})
+    a, b = read_drawing(tmp_path / "t.dwg", cfg), read_drawing(tmp_path / "t.dxf", cfg)
+    assert sorted((t.text, t.position) for t in a.texts) == sorted((t.text, t.position) for t in b.texts)
+    assert ("O1", (20.0, 30.0)) in [(t.text, t.position) for t in a.texts]
+
+
 def test_arc_ends_agree_under_mirroring(samples: Path) -> None:
     """Direction before number: an arc placed by a mirroring insert runs
     counter-clockwise from the same start angle in both readings (the
