@@ -406,14 +406,15 @@ def _build(src: Any, code: str, roles: frozenset[str]) -> DwgDocument:
 
 def _old_version_finding(code: str) -> Finding:
     what = (
-        "R13: layer names are not decoded (role layers may not be found), there is no $INSUNITS"
+        "its layer names are not decoded (role layers may not be found), its header has no $INSUNITS"
         if code == "AC1012"
-        else "R14: there is no $INSUNITS in its header (the unit is assumed)"
+        else "its header has no $INSUNITS (the unit is assumed)"
     )
     return Finding(
         Code.DWG_OLD_VERSION,
-        f"DWG {READ_VERSIONS[code]} ({code}) read with care: {what}, and entity kinds added after it are absent; "
-        "check the results against the drawing, or save it as DWG R2000 or later",
+        f"DWG {READ_VERSIONS[code]} ({code}) read with care: {what}, and the reader may not decode every block "
+        "reference of such files (each one lost is named, D122); check the results against the drawing, or save "
+        "it as DWG R2000 or later",
     )
 
 
