@@ -37,7 +37,6 @@ from __future__ import annotations
 
 import functools
 import math
-import time
 from collections.abc import Iterable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -226,8 +225,6 @@ class DwgDocument:
     roles_found : bool
         Whether any layer name of the DWG is one of the configured role
         layers.
-    seconds : float
-        Time ezdwg took to decode the file [s].
     """
 
     doc: Any
@@ -235,7 +232,6 @@ class DwgDocument:
     handles: dict[str, str] = field(default_factory=dict)
     findings: list[Finding] = field(default_factory=list)
     roles_found: bool = False
-    seconds: float = 0.0
 
 
 def _import_ezdwg(path: str) -> Any:
@@ -273,7 +269,6 @@ def load_dwg(path: Path, head: bytes, roles: Iterable[str]) -> DwgDocument:
     code = check_head(spath, head)
     ezdwg = _import_ezdwg(spath)
     wanted = frozenset(r.upper() for r in roles)
-    t0 = time.perf_counter()
     try:
         src = ezdwg.read(spath)
         out = _build(src, code, wanted)
@@ -294,7 +289,6 @@ def load_dwg(path: Path, head: bytes, roles: Iterable[str]) -> DwgDocument:
         # same path would be read from the old one's tables (and a batch
         # worker would keep every drawing it read)
         ezdwg.clear_decode_caches()
-    out.seconds = time.perf_counter() - t0
     out.roles_found = any(layer.dxf.name.upper() in wanted for layer in out.doc.layers)
     if code == "AC1012" and not out.roles_found:
         raise DrawingReadError(
