@@ -272,7 +272,7 @@ def _refusal(path: Path, roots: Sequence[str], follow: bool, explicit: bool) -> 
 
 
 def _walk(root: Path, roots: Sequence[str], follow: bool, skipped: list[Skipped]) -> Iterator[Path]:
-    """``.dxf`` files under ``root``, in a stable order; linked folders are
+    """``.dxf`` and ``.dwg`` files under ``root``, in a stable order; linked folders are
     entered only with ``follow`` (each real folder once)."""
     seen: set[str] = set()
 
@@ -297,7 +297,7 @@ def _walk(root: Path, roots: Sequence[str], follow: bool, skipped: list[Skipped]
                 )
         dirnames.sort()
         for name in sorted(filenames):
-            if name.lower().endswith(".dxf"):
+            if name.lower().endswith((".dxf", ".dwg")):
                 yield Path(dirpath) / name
 
 

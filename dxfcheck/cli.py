@@ -124,7 +124,7 @@ class _Parser(argparse.ArgumentParser):
 
 
 def _common(s: argparse.ArgumentParser) -> None:
-    s.add_argument("drawing", help="the DXF drawing (it is only read)")
+    s.add_argument("drawing", help="the DXF or DWG drawing (it is only read; DWG needs the extra dwg)")
     s.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
     s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS (mm, cm, m, inch, ft)")
     s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
@@ -158,7 +158,7 @@ def _shoe_options(s: argparse.ArgumentParser) -> None:
 def _parser() -> argparse.ArgumentParser:
     from dxfcheck.core.version import __version__
 
-    p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF.")
+    p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF (or DWG).")
     p.add_argument("--version", action="version", version=f"dxfcheck {__version__}")
     sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
 
@@ -499,9 +499,11 @@ def _annotate(args: argparse.Namespace) -> int:
     effort, mu = _effort_mu(args)
     cfg = resolve_config(args.drawing, args.config)
     out = args.output
+    p_in = Path(args.drawing)
     if out is None:
-        p = Path(args.drawing)
-        out = str(p.with_name(f"{p.stem}-forces{p.suffix or '.dxf'}"))
+        p = p_in
+        suffix = ".dxf" if p.suffix.lower() in ("", ".dwg") else p.suffix  # a DWG's copy is DXF
+        out = str(p.with_name(f"{p.stem}-forces{suffix}"))
     sol = analyse(
         args.drawing,
         mu=mu,
@@ -514,9 +516,10 @@ def _annotate(args: argparse.Namespace) -> int:
     )
     written = annotate(sol, out=out, svg=args.svg, png=args.png, direction=args.direction, config=cfg, force=args.force)
     notes = sys.stderr if _report_stream(args, args.svg) else sys.stdout  # the SVG itself may be on stdout
+    as_dxf = " (as DXF: the marked-up copy of a DWG drawing is DXF)" if p_in.suffix.lower() == ".dwg" else ""
     for w in written:
         if str(w) != "-":
-            notes.write(f"wrote {w}\n")
+            notes.write(f"wrote {w}{as_dxf if str(w).lower().endswith('.dxf') else ''}\n")
     return EXIT_OK
 
 
@@ -526,8 +529,8 @@ def _subject(args: argparse.Namespace) -> str:
 
 
 def _revisions(items: Sequence[str]) -> list[str]:
-    """The drawings to compare: files as named, folders' ``*.dxf`` in name
-    order.  dxfcheck's own outputs (the marker, whatever their name) are
+    """The drawings to compare: files as named, folders' ``*.dxf`` and
+    ``*.dwg`` in name order.  dxfcheck's own outputs (the marker, whatever their name) are
     skipped in a folder, with a note, and refused when named."""
     from pathlib import Path
 
@@ -537,7 +540,7 @@ def _revisions(items: Sequence[str]) -> list[str]:
     for item in items:
         p = Path(item)
         if p.is_dir():
-            for x in sorted(str(x) for x in p.glob("*.dxf")):
+            for x in sorted(str(x) for pattern in ("*.dxf", "*.dwg") for x in p.glob(pattern)):
                 if is_dxfcheck_output(x):
                     sys.stderr.write(f"dxfcheck: {x}: skipped: a marked-up copy dxfcheck wrote, not a revision\n")
                 else:

@@ -49,6 +49,9 @@ class Code(enum.Enum):
     AFTER_EOF = ("D112", Severity.WARNING, "after-eof")
     BLOCK_RECURSIVE = ("D113", Severity.ERROR, "block-recursive")
     READER_MESSAGE = ("D114", Severity.WARNING, "reader-message")
+    DWG_OLD_VERSION = ("D120", Severity.WARNING, "dwg-old-version")
+    DWG_HEADER_UNREAD = ("D121", Severity.WARNING, "dwg-header-unread")
+    DWG_NOT_CARRIED = ("D122", Severity.WARNING, "dwg-not-carried")
     # --- topology ------------------------------------------------------
     NO_DRUM = ("M201", Severity.ERROR, "no-drum")
     MANY_DRUMS = ("M202", Severity.ERROR, "many-drums")

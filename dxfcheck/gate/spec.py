@@ -4,7 +4,7 @@ Values come from five places, lowest to highest precedence:
 
 1. built-in defaults (:data:`DEFAULTS`);
 2. the project file ``dxfcheck.toml``: its ``[spec]`` table, then a
-   ``[spec."NAME.dxf"]`` table for the one drawing;
+   ``[spec."NAME.dxf"]`` table for the one drawing (``NAME.dwg`` for a DWG);
 3. the drawing's own header custom properties (R2004 and later) whose names
    start with ``dxfcheck.``, e.g. ``dxfcheck.required_torque = 450 N*m``;
 4. the drawing's own file ``NAME.toml`` beside it (the sidecar), its
@@ -587,8 +587,8 @@ def load_spec(
     Parameters
     ----------
     drawing : path-like
-        The drawing; its name selects ``[spec."NAME.dxf"]`` and its sidecar
-        ``NAME.toml``.
+        The drawing; its name selects ``[spec."NAME.dxf"]`` (a DWG's
+        ``[spec."NAME.dwg"]``) and its sidecar ``NAME.toml``.
     project : mapping, optional
         The project file's raw ``[spec]`` table.
     project_path : str, optional
@@ -616,7 +616,7 @@ def load_spec(
         b.values[key] = SpecValue(key, value, "", str(value), f"default ({note})")
     if project:
         src = f"{project_path or 'dxfcheck.toml'} {table_name(project_path, 'spec')}"
-        drawing_tables = [k for k, v in project.items() if k.lower().endswith(".dxf") and isinstance(v, dict)]
+        drawing_tables = [k for k, v in project.items() if k.lower().endswith((".dxf", ".dwg")) and isinstance(v, dict)]
         b.table(project, src, skip=drawing_tables)
         for k in drawing_tables:
             if k.lower() == p.name.lower():

@@ -50,6 +50,7 @@ def annotate(
     source = sol.mechanism.drawing.path
     if out is None and svg is None and png is None:
         raise ConfigError("nothing to write: give -o OUT.dxf, --svg OUT.svg or --png OUT.png")
+    _refuse_dwg_name(out)
     check_targets((Target(out, force), Target(svg, force, text=True), Target(png, force)), protect=(source,))
     markup = plan_markup(sol, direction, judgement)
     title = f"dxfcheck: {Path(source).name}, drum {markup.direction}"
@@ -80,12 +81,23 @@ def annotate(
     return written
 
 
+def _refuse_dwg_name(out: str | os.PathLike[str] | None) -> None:
+    """A marked-up copy is DXF, of a DWG drawing too (there is no DWG writer
+    dxfcheck trusts): an output named ``.dwg`` would be a DXF in disguise."""
+    if out is not None and str(out) != "-" and Path(out).suffix.lower() == ".dwg":
+        raise ConfigError(
+            "the marked-up copy is written as DXF (there is no DWG writer dxfcheck trusts); name it .dxf",
+            path=str(out),
+        )
+
+
 def mark_revision(comp: Comparison, out: str | os.PathLike[str], config: Config, *, force: bool = False) -> None:
     """Write the newer revision marked up (as ``annotate`` does), plus a ring
     and a note at every geometry change that has a place (a pin moved, a
     part's span or length, a load or spring end moved...) and every pin force
     that crossed the threshold.  Neither revision's file is written."""
 
+    _refuse_dwg_name(out)
     sol = comp.new.nominal
     mech = sol.mechanism
     doc = marked_document(sol, [plan_markup(sol)], config)

@@ -622,7 +622,7 @@ def marked_document(sol: Solution, markups: Sequence[Markup], config: Config | N
     The drawing file is only read."""
 
     mech = sol.mechanism
-    doc, _ = load_document(Path(mech.drawing.path))
+    doc, _ = load_document(Path(mech.drawing.path), config=config)
     # ezdxf stamps a fresh creation date on loading: keep the drawing's own
     for name, value in raw_header_values(Path(mech.drawing.path)).items():
         doc.header[name] = value

@@ -1,5 +1,8 @@
 """Read a layered DXF drawing into plane geometry in [mm].
 
+A DWG drawing (named ``.dwg``) is first made into an in-memory DXF
+document by :mod:`dxfcheck.read.dwg` and then read the same way.
+
 This is the first stage of the pipeline.  It keeps only the entities on the
 layers that carry the brake's skeleton (see :class:`dxfcheck.core.config.Role`),
 including entities placed through block references, and converts them to
@@ -26,7 +29,7 @@ import os
 import re
 import stat
 from collections.abc import Iterable, Iterator
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
 
@@ -36,7 +39,7 @@ from dxfcheck.core.errors import ConfigError, DrawingReadError, DxfcheckError
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Affine, Point
 from dxfcheck.core.units import INSUNITS_MM, UnitError, length_unit_factor
-from dxfcheck.read import fast
+from dxfcheck.read import dwg, fast
 from dxfcheck.read.fast import MAX_LOOSE_CIRCLES_PER_LAYER, FastReadUnsupported
 
 __all__ = [
@@ -864,6 +867,13 @@ def _units(doc: Any, override: str | None, path: str) -> tuple[str, float, str, 
     return "mm", 1.0, "default", findings
 
 
+#: What a file holding DWG bytes under another name is told.
+_DWG_NAMED_OTHERWISE = (
+    f"a DWG file not named .dwg; rename it to .dwg to read it as DWG (needs `{dwg.INSTALL_HINT}`) or save it as "
+    "DXF from the CAD program"
+)
+
+
 def _sniff(path: Path, head: bytes, tail: bytes) -> bytes:
     """Refuse what is plainly not a complete DXF file, with what it looks
     like; returns what follows the end-of-file marker."""
@@ -871,8 +881,10 @@ def _sniff(path: Path, head: bytes, tail: bytes) -> bytes:
     if not head.strip():
         raise DrawingReadError("is empty; it is not a DXF drawing", path=spath)
     looks = {
-        b"AC10": "a DWG file; save it as DXF from the CAD program",
-        b"AC1.": "a DWG file; save it as DXF from the CAD program",
+        b"AC10": _DWG_NAMED_OTHERWISE,
+        b"AC1.": _DWG_NAMED_OTHERWISE,
+        b"AC2.": _DWG_NAMED_OTHERWISE,
+        b"MC0.": _DWG_NAMED_OTHERWISE,
         b"%PDF": "a PDF document, not a drawing in DXF",
         b"PK\x03\x04": "a ZIP archive (DWFx, DOCX...), not DXF; unpack or re-export it",
         b"\x89PNG": "a PNG image, not DXF",
@@ -952,7 +964,20 @@ def precheck(path: Path, max_bytes: int | None = None) -> int:
 def _precheck(path: Path, max_bytes: int | None) -> tuple[int, list[Finding]]:
     """:func:`precheck`, with the finding on what follows the end-of-file
     marker.  A FIFO, a device or a socket is refused before it is opened
-    (a read of it may never end)."""
+    (a read of it may never end).  A file named ``.dwg`` is checked as DWG
+    (its version string)."""
+    size, head, tail = _file_ends(path, max_bytes)
+    if dwg.is_dwg_name(path):
+        dwg.check_head(str(path), head)
+        return size, []
+    after = _sniff(path, head, tail)
+    finding = _after_eof_finding(after)
+    return size, [] if finding is None else [finding]
+
+
+def _file_ends(path: Path, max_bytes: int | None) -> tuple[int, bytes, bytes]:
+    """Refuse a missing, unreadable, special or over-large file; returns
+    its size [bytes], its first 64 bytes and its last :data:`TAIL_BYTES`."""
     spath = str(path)
     try:
         st = os.stat(path)
@@ -985,13 +1010,11 @@ def _precheck(path: Path, max_bytes: int | None) -> tuple[int, list[Finding]]:
             tail = fh.read(TAIL_BYTES)
     except OSError as exc:
         raise DrawingReadError(f"cannot be read ({exc.strerror})", path=spath) from exc
-    after = _sniff(path, head, tail)
-    finding = _after_eof_finding(after)
-    return size, [] if finding is None else [finding]
+    return size, head, tail
 
 
 def load_document(
-    path: Path, *, max_bytes: int | None = None, checked_size: int | None = None
+    path: Path, *, max_bytes: int | None = None, checked_size: int | None = None, config: Config | None = None
 ) -> tuple[Any, list[Finding]]:
     """Open a DXF file with ezdxf, falling back to its recover mode for a
     damaged file; returns the document and what the recovery repaired (as
@@ -1005,6 +1028,10 @@ def load_document(
     checked_size : int, optional
         The size :func:`precheck` already found [bytes]; the checks are not
         run again.
+    config : Config, optional
+        The layer roles (for a DWG: an R13 file is refused when none of its
+        layers has a role).  A ``.dwg`` gives the in-memory document of
+        :mod:`dxfcheck.read.dwg`.
 
     Raises
     ------
@@ -1016,6 +1043,9 @@ def load_document(
     from ezdxf.filemanagement import readfile
 
     spath = str(path)
+    if dwg.is_dwg_name(path):
+        dd = _load_dwg(path, config or Config(), max_bytes)
+        return dd.doc, list(dd.findings)
     size = precheck(path, max_bytes) if checked_size is None else checked_size
     findings: list[Finding] = []
     try:
@@ -1170,10 +1200,55 @@ def read_drawing(
     """
     p = Path(path)
     config = config or Config()
+    if dwg.is_dwg_name(p):
+        return _read_dwg(p, config, units, max_bytes)
     doc, findings = _open(p, config, max_bytes, reader)
     unit = _units(doc, units, str(p))
     col = _collect(doc, config, unit[1], str(p))
     return _drawing(str(p), config, doc, unit, [*findings, *unit[3], *col.findings], col)
+
+
+def _load_dwg(path: Path, config: Config, max_bytes: int | None) -> dwg.DwgDocument:
+    """A DWG file as an in-memory ezdxf document (:mod:`dxfcheck.read.dwg`),
+    after the same checks of the file as for DXF."""
+    _, head, _ = _file_ends(path, max_bytes)
+    with _ezdxf_messages() as log:
+        dd = dwg.load_dwg(path, head, config.role_of_layer())
+    dd.findings.extend(log.collected())  # what ezdxf said while the document was built (D114)
+    return dd
+
+
+def _read_dwg(p: Path, config: Config, units: str | None, max_bytes: int | None) -> Drawing:
+    """:func:`read_drawing` for a DWG file: its in-memory document goes
+    through the same walk as a DXF document; the handles are the DWG's."""
+    dd = _load_dwg(p, config, max_bytes)
+    unit = _units(dd.doc, units, str(p))
+    col = _collect(dd.doc, config, unit[1], str(p))
+    _rehandle(col, dd.handles)
+    found = [*dd.findings, *unit[3], *col.findings]
+    return replace(_drawing(str(p), config, dd.doc, unit, found, col), dxfversion=dd.version)
+
+
+def _rehandle(col: _Collector, handles: dict[str, str]) -> None:
+    """Name every entity the walk collected by its DWG handle (``handles``:
+    the in-memory document's handle -> the DWG's)."""
+
+    def one(h: str) -> str:
+        return handles.get(h, h)
+
+    def ref(r: str) -> str:
+        head, _, via = r.partition("@")
+        return one(head) + ("@" + "/".join(one(v) for v in via.split("/")) if via else "")
+
+    def src(s: Source) -> Source:
+        return Source(one(s.handle), s.layer, tuple(one(v) for v in s.via))
+
+    col.circles = [replace(c, source=src(c.source)) for c in col.circles]
+    col.arcs = [replace(a, source=src(a.source)) for a in col.arcs]
+    col.paths = [replace(q, source=src(q.source)) for q in col.paths]
+    col.texts = [replace(t, source=src(t.source)) for t in col.texts]
+    col.loose = [replace(c, source=src(c.source)) for c in col.loose]
+    col.findings = [replace(f, handles=tuple(ref(h) for h in f.handles)) for f in col.findings]
 
 
 def _collect(doc: Any, config: Config, mm_per_unit: float, path: str) -> _Collector:
@@ -1234,6 +1309,8 @@ def raw_header_values(path: Path, names: tuple[str, ...] = CREATION_STAMPS) -> d
     """Numeric header variables read straight from an ASCII DXF file's
     HEADER section (binary files give an empty dict)."""
     out: dict[str, float] = {}
+    if dwg.is_dwg_name(path):  # a DWG's stamps are not in DXF form; the copy is a new DXF
+        return out
     try:
         with open(path, "rb") as fh:
             if fh.read(len(BINARY_SENTINEL)).startswith(BINARY_SENTINEL):
