@@ -168,7 +168,7 @@ def test_check_heat_duty_incomplete_stop_fails_the_gate():
     """A lowered load without stop_time or deceleration: the stop duty is
     incomplete and fails the gate (exit 1) naming the missing key."""
     r = run("check", DEMO, "--mu", "0.35", "--json", "--set", "load_mass=1t", "--set", "drum_speed=30rpm")
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     stop = next(x for x in doc["rules"] if x["rule"] == "stop.duty")
     assert stop["verdict"] == "fail" and "needs stop_time (or deceleration)" in stop["message"]
     assert r.returncode == 1 and doc["verdict"] == "fail"

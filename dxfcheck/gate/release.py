@@ -45,8 +45,11 @@ from dataclasses import replace
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError
-from dxfcheck.gate.rules import Judgement, RuleResult, Verdict, _ratio_rule, _skip, duties
+from dxfcheck.gate.rules import Judgement, duties
 from dxfcheck.gate.spec import Spec
+from dxfcheck.gate.verdicts import RuleResult, Verdict
+from dxfcheck.gate.verdicts import ratio_rule as _ratio_rule
+from dxfcheck.gate.verdicts import skip as _skip
 from dxfcheck.mechanism import Mechanism, Spring
 from dxfcheck.statics import solve
 from dxfcheck.statics.contact import Direction

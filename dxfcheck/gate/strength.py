@@ -34,8 +34,11 @@ from typing import Any
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code
 from dxfcheck.core.geometry import dist
-from dxfcheck.gate.rules import Judgement, RuleResult, _ratio_rule, _skip
+from dxfcheck.gate.rules import Judgement
 from dxfcheck.gate.spec import Spec
+from dxfcheck.gate.verdicts import RuleResult
+from dxfcheck.gate.verdicts import ratio_rule as _ratio_rule
+from dxfcheck.gate.verdicts import skip as _skip
 from dxfcheck.mechanism import Mechanism, Part
 from dxfcheck.statics import CaseSolution, Station
 
