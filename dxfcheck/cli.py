@@ -197,6 +197,17 @@ def _parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
     c.add_argument("--strict", action="store_true", help="warnings fail the gate too")
+    c.add_argument(
+        "--record", default=None, metavar="OUT.html", help="also write the calculation record (HTML, self-contained)"
+    )
+    c.add_argument(
+        "--signoff",
+        action="append",
+        default=[],
+        metavar="KEY=VALUE",
+        help="a sign-off field of the record: prepared_by, prepared_on, checked_by, checked_on, approved_by, "
+        "approved_on (repeatable; left blank otherwise)",
+    )
     _shoe_options(c)
     _annotate_shortcut(c)
 
@@ -441,7 +452,11 @@ def _check(args: argparse.Namespace) -> int:
     ):
         if value is not None:
             overrides.append((key, value))
-    check_targets([Target(args.annotate, args.force), Target(args.junit, True, text=True)], protect=(args.drawing,))
+    signoff = _signoff(args.signoff)
+    check_targets(
+        [Target(args.annotate, args.force), Target(args.junit, True, text=True), Target(args.record, args.force)],
+        protect=(args.drawing,),
+    )
     report_to = _report_stream(args, args.junit)
     cfg = resolve_config(args.drawing, args.config)
     j = check(
@@ -458,12 +473,32 @@ def _check(args: argparse.Namespace) -> int:
         annotate(j.nominal, out=args.annotate, judgement=j, config=cfg, force=args.force)
     if args.junit:
         write_atomic(args.junit, junit_xml(j, strict=args.strict), protect=(args.drawing,))
+    if args.record:
+        from dxfcheck.output.record import write_record
+
+        write_record(j, args.record, signoff=signoff, force=args.force)
     if args.json:
         write_json(judgement_to_dict(j))
     else:
         print_judgement(j, out=report_to, strict=args.strict)
     failed = j.verdict is Verdict.FAIL or (args.strict and j.verdict is Verdict.WARN)
     return EXIT_CHECK_FAILED if failed else EXIT_OK
+
+
+def _signoff(items: Sequence[str]) -> Any:
+    """The record's sign-off fields from ``--signoff KEY=VALUE``."""
+    import dataclasses
+
+    from dxfcheck.output.record import Signoff
+
+    keys = [f.name for f in dataclasses.fields(Signoff)]
+    given: dict[str, str] = {}
+    for item in items:
+        key, sep, value = item.partition("=")
+        if not sep or key.strip() not in keys:
+            raise ConfigError(f"--signoff {one_line(item)!r}: give KEY=VALUE with KEY one of {', '.join(keys)}")
+        given[key.strip()] = value.strip()
+    return Signoff(**given)
 
 
 def _annotate(args: argparse.Namespace) -> int:

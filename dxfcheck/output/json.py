@@ -310,6 +310,8 @@ def rule_to_dict(r: RuleResult) -> dict[str, Any]:
         "inputs": {k: (_num(v) if isinstance(v, float) else v) for k, v in r.inputs.items()},
         "source": r.source,
         "message": r.message,
+        "formula": r.formula,
+        "substituted": r.substituted,
     }
 
 
