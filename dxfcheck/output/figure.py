@@ -35,7 +35,7 @@ from collections.abc import Iterable
 from dataclasses import dataclass, field
 
 from dxfcheck.core.geometry import Point
-from dxfcheck.core.textsafe import xml_text
+from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.statics import CaseSolution
 
@@ -48,6 +48,13 @@ __all__ = [
     "plan_figure",
     "svg_element",
 ]
+
+
+def _safe(text: str) -> str:
+    """A drawing's text for HTML/SVG: control characters and bidirectional
+    overrides as visible escapes (the serializer escapes ``<&"``)."""
+    return xml_text(printable(text))
+
 
 #: Width the skeleton is fitted to [px].
 CANVAS_PX = 900.0
@@ -419,7 +426,7 @@ def _skeleton_svg(svg: ET.Element, fig: Figure) -> None:
 def _forces_svg(svg: ET.Element, fig: Figure) -> None:
     forces = _el(svg, "g", **{"class": "forces"}, stroke=FORCE_COLOUR, fill=FORCE_COLOUR)
     for arrow, tail, tip in fig.arrows:
-        g = _el(forces, "g", **{"class": "force", "data-ref": xml_text(arrow.ref)})
+        g = _el(forces, "g", **{"class": "force", "data-ref": _safe(arrow.ref)})
         _el(g, "line", x1=tail[0], y1=tail[1], x2=tip[0], y2=tip[1], stroke_width=2.2)
         _el(g, "polygon", points=_arrow_head(tail, tip), stroke="none")
 
@@ -432,7 +439,7 @@ def _labels_svg(svg: ET.Element, fig: Figure) -> None:
             n = _nearest(anchor, box)
             _el(g, "line", x1=anchor[0], y1=anchor[1], x2=n[0], y2=n[1], stroke="#666", stroke_width=0.8)
         _el(g, "rect", x=box[0], y=box[1], width=box[2], height=box[3], fill="white", fill_opacity=0.85)
-        _el(g, "text", x=box[0] + 3, y=box[1] + box[3] - 0.35 * FONT_PX).text = xml_text(text)
+        _el(g, "text", x=box[0] + 3, y=box[1] + box[3] - 0.35 * FONT_PX).text = _safe(text)
 
 
 def svg_element(fig: Figure) -> ET.Element:
@@ -445,10 +452,10 @@ def svg_element(fig: Figure) -> ET.Element:
     svg.set("role", "img")
     svg.set("font-family", "DejaVu Sans, Arial, sans-serif")
     svg.set("font-size", _f(FONT_PX))
-    ET.SubElement(svg, "title").text = xml_text(fig.title)
+    ET.SubElement(svg, "title").text = _safe(fig.title)
     _el(svg, "rect", x=vb[0], y=vb[1], width=vb[2], height=vb[3], fill="white")
     title = _el(svg, "text", x=vb[0] + pad, y=vb[1] + 1.6 * FONT_PX, font_weight="bold", **{"class": "title"})
-    title.text = xml_text(fig.title)
+    title.text = _safe(fig.title)
     _skeleton_svg(svg, fig)
     _forces_svg(svg, fig)
     _labels_svg(svg, fig)

@@ -31,7 +31,7 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from dxfcheck.core.files import write_atomic
-from dxfcheck.core.textsafe import xml_text
+from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.core.version import __version__
 from dxfcheck.gate.rules import Judgement, RuleResult
 from dxfcheck.mechanism.model import Mechanism
@@ -41,6 +41,13 @@ from dxfcheck.read.titleblock import TitleBlock, read_title_block
 from dxfcheck.statics import CaseSolution
 
 __all__ = ["SECTIONS", "Signoff", "file_sha256", "free_body", "ordered_rules", "record_html", "write_record"]
+
+
+def _safe(text: str) -> str:
+    """A drawing's text for HTML/SVG: control characters and bidirectional
+    overrides as visible escapes (the serializer escapes ``<&"``)."""
+    return xml_text(printable(text))
+
 
 #: The record's sections, by ``id``, in order.
 SECTIONS = (
@@ -118,7 +125,7 @@ def file_sha256(path: str | os.PathLike[str]) -> str:
 
 def _text(parent: ET.Element, tag: str, text: str, **attrs: str) -> ET.Element:
     el = ET.SubElement(parent, tag, attrs)
-    el.text = xml_text(text)
+    el.text = _safe(text)
     return el
 
 
