@@ -36,11 +36,21 @@ from dxfcheck.core.version import __version__
 from dxfcheck.gate.rules import Judgement, RuleResult
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.output.figure import plan_figure, svg_element
+from dxfcheck.output.record_pdf import pdf_bytes
 from dxfcheck.output.text import CAUTION
 from dxfcheck.read.titleblock import TitleBlock, read_title_block
 from dxfcheck.statics import CaseSolution
 
-__all__ = ["SECTIONS", "Signoff", "file_sha256", "free_body", "ordered_rules", "record_html", "write_record"]
+__all__ = [
+    "SECTIONS",
+    "Signoff",
+    "file_sha256",
+    "free_body",
+    "ordered_rules",
+    "record_html",
+    "record_tree",
+    "write_record",
+]
 
 
 def _safe(text: str) -> str:
@@ -176,9 +186,9 @@ def _identity(body: ET.Element, j: Judgement, tb: TitleBlock, sha: str, when: dt
         ("file", Path(d.path).name, ""),
         ("SHA-256 of the file's bytes", sha, ""),
     ]
-    for name in ("drawing number", "title", "revision"):
+    for k, name in enumerate(("drawing number", "title", "revision")):
         value, where = _field(tb, name)
-        rows.append((name, value, where))
+        rows.append((name, value, where if k == 0 or value != "not found" else "as above"))
     rows += [
         ("date of the check", when.strftime("%Y-%m-%d %H:%M:%S UTC"), ""),
         ("dxfcheck version", __version__, ""),
@@ -457,15 +467,16 @@ def _signoff(body: ET.Element, s: Signoff) -> None:
     _table(sec, ("", "name", "date", "signature"), rows, "signature")
 
 
-def record_html(
+def record_tree(
     j: Judgement,
     *,
     title_block: TitleBlock,
     sha256: str,
     checked_at: dt.datetime,
     signoff: Signoff = Signoff(),
-) -> str:
-    """The record as one HTML document (text)."""
+) -> ET.Element:
+    """The record as an ``<html>`` element tree (the HTML and the PDF are
+    both laid out from it)."""
     html = ET.Element("html", {"lang": "en"})
     head = ET.SubElement(html, "head")
     ET.SubElement(head, "meta", {"charset": "utf-8"})
@@ -485,6 +496,11 @@ def record_html(
     _signoff(body, signoff)
     sec = _section(body, "caution", "Caution")
     _text(sec, "p", CAUTION, **{"class": "caution"})
+    return html
+
+
+def record_html(html: ET.Element) -> str:
+    """The record tree as one HTML document (text)."""
     return "<!DOCTYPE html>\n" + ET.tostring(html, encoding="unicode", method="html") + "\n"
 
 
@@ -496,10 +512,19 @@ def write_record(
     force: bool = False,
     now: dt.datetime | None = None,
 ) -> Path:
-    """Write the record of ``j`` to ``out`` (HTML) atomically; the input
-    drawing is never written."""
+    """Write the record of ``j`` to ``out`` atomically: PDF when ``out``
+    ends in ``.pdf`` (:mod:`dxfcheck.output.record_pdf`, the ``pdf``
+    extra), else HTML.  The input drawing is never written.
+
+    Raises
+    ------
+    ConfigError
+        When a PDF is asked for and fpdf2 is not installed.
+    """
     source = j.mechanism.drawing.path
     tb = read_title_block(source, j.mechanism.drawing.custom_properties)
     when = now or dt.datetime.now(dt.UTC)
-    text = record_html(j, title_block=tb, sha256=file_sha256(source), checked_at=when, signoff=signoff)
-    return write_atomic(out, text, force=force, protect=(source,))
+    tree = record_tree(j, title_block=tb, sha256=file_sha256(source), checked_at=when, signoff=signoff)
+    if str(out).lower().endswith(".pdf"):
+        return write_atomic(out, pdf_bytes(tree), force=force, protect=(source,))
+    return write_atomic(out, record_html(tree), force=force, protect=(source,))

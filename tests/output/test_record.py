@@ -427,3 +427,139 @@ def test_record_refuses_to_overwrite(tmp_path, capsys):
     assert path.read_bytes() == before
     assert cli.main(["check", str(path), "--record", str(out), "--signoff", "nobody=1"]) == 2
     capsys.readouterr()
+
+
+# --- the PDF and the rendered HTML -------------------------------------------------------------
+
+
+def _figures(doc) -> list[str]:
+    """Texts the printed record must show: each braking torque (as the
+    record prints it, 4 significant figures), each rule's id, the caution."""
+    out = [f"{c['torque_Nm']:.4g} N·m" for c in doc["cases"] if c["torque_Nm"] is not None]
+    return out + [r["rule"] for r in doc["rules"]]
+
+
+def _squash(text: str) -> str:
+    """Extracted PDF text without line breaks and spaces (a table cell may
+    wrap anywhere; the browser's font sets "ff", "fi" as ligatures)."""
+    import unicodedata
+
+    return re.sub(r"\s+", "", unicodedata.normalize("NFKC", text))
+
+
+def test_pdf_record_holds_the_same_figures(tmp_path):
+    """`--record OUT.pdf`: the PDF's text (extracted with pypdf) holds every
+    section heading, the torques, every rule with its verdict and the caution."""
+    pypdf = pytest.importorskip("pypdf")
+    pytest.importorskip("fpdf")
+    drawing = ROOT / "drawings" / "winch_two_shoe.dxf"
+    out = tmp_path / "winch.pdf"
+    _, doc, _ = _run_check(drawing, out)
+    reader = pypdf.PdfReader(out)
+    text = _squash(" ".join(page.extract_text() for page in reader.pages))
+    for heading in ("Drawing", "Verdict", "Spec", "Method", "Drumcwat", "Drumccwat", "Rules", "Findings", "Sign-off"):
+        assert heading in text, heading
+    for figure in _figures(doc):
+        assert _squash(figure) in text, figure
+    for r in doc["rules"]:
+        assert _squash(f"{r['verdict'].upper()}{r['rule']}") in text, r["rule"]
+    assert _squash(CAUTION) in text
+    assert hashlib_of(drawing) in text
+
+
+def hashlib_of(path: Path) -> str:
+    import hashlib
+
+    return hashlib.sha256(path.read_bytes()).hexdigest()
+
+
+def _browser() -> str | None:
+    import shutil
+
+    return next((b for b in ("chromium", "chromium-headless-shell", "chromium-browser") if shutil.which(b)), None)
+
+
+class _Proxy:
+    """A proxy that only counts the connections made to it: the browser is
+    told to send every web request through it, so any request the record
+    makes shows up here."""
+
+    def __enter__(self):
+        import socket
+        import threading
+
+        self.count = 0
+        self.sock = socket.socket()
+        self.sock.bind(("127.0.0.1", 0))
+        self.sock.listen(8)
+        self.sock.settimeout(0.2)
+        self.done = False
+
+        def serve():
+            while not self.done:
+                try:
+                    conn, _ = self.sock.accept()
+                except OSError:
+                    continue
+                self.count += 1
+                conn.close()
+
+        self.thread = threading.Thread(target=serve, daemon=True)
+        self.thread.start()
+        return self
+
+    @property
+    def port(self) -> int:
+        return self.sock.getsockname()[1]
+
+    def __exit__(self, *exc):
+        self.done = True
+        self.thread.join(timeout=5)
+        self.sock.close()
+
+
+def _print(browser: str, port: int, page: Path, pdf: Path) -> subprocess.CompletedProcess:
+    return subprocess.run(
+        [
+            browser,
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            f"--proxy-server=http://127.0.0.1:{port}",
+            "--proxy-bypass-list=<-loopback>",
+            "--no-pdf-header-footer",
+            f"--print-to-pdf={pdf}",
+            page.as_uri(),
+        ],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+
+
+def test_record_in_a_real_browser(records, tmp_path):
+    """The HTML record printed by headless Chromium (Debian's package, as
+    .ci/run installs it): the rendered text holds every section, the torques,
+    each rule's verdict and the caution; the browser made no request while
+    loading it."""
+    browser = _browser()
+    if browser is None:
+        pytest.skip("no headless Chromium on this machine (.ci/run installs chromium-headless-shell)")
+    pypdf = pytest.importorskip("pypdf")
+    _, doc, _, path = records["winch_two_shoe"]
+    pdf = tmp_path / "printed.pdf"
+    control = tmp_path / "control.html"  # shows that a request would be seen
+    control.write_text('<html><body><img src="http://example.invalid/x.png">x</body></html>', encoding="utf-8")
+    for page, want in ((control, True), (path, False)):
+        with _Proxy() as proxy:
+            proc = _print(browser, proxy.port, page, pdf)
+        assert proc.returncode == 0 and pdf.is_file(), proc.stderr[-2000:]
+        assert (proxy.count > 0) is want, page
+    pages = pypdf.PdfReader(pdf).pages
+    text = _squash(" ".join(p.extract_text() for p in pages))
+    assert len(pages) >= len(SECTIONS) - 1  # a page per section from the spec on (print style sheet)
+    for figure in _figures(doc):
+        assert _squash(figure) in text, figure
+    for r in doc["rules"]:
+        assert _squash(f"{r['verdict'].upper()}{r['rule']}") in text, r["rule"]
+    assert _squash(CAUTION) in text
