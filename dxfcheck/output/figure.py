@@ -29,6 +29,7 @@ The output only draws result fields (``normal_force_N``, ``friction_at_mm``,
 
 from __future__ import annotations
 
+import itertools
 import math
 import xml.etree.ElementTree as ET
 from collections.abc import Iterable
@@ -44,6 +45,7 @@ __all__ = [
     "MIN_ARROW_FRACTION",
     "Arrow",
     "Figure",
+    "force_polygon",
     "force_text",
     "plan_figure",
     "svg_element",
@@ -463,4 +465,40 @@ def svg_element(fig: Figure) -> ET.Element:
         svg, "text", x=vb[0] + pad, y=vb[1] + vb[3] - 0.6 * FONT_PX, font_size=0.85 * FONT_PX, **{"class": "scale"}
     )
     note.text = fig.scale_note
+    return svg
+
+
+#: Size of a force polygon's drawing [px].
+POLYGON_PX = 170.0
+
+
+def force_polygon(forces: list[tuple[str, Point]]) -> ET.Element:
+    """The force polygon of one part: its forces ``(name, vector [N])``
+    drawn tip to tail in the order given (numbered as listed), from a ring
+    at the start.  Balanced forces close on the ring; the picture draws the
+    solver's vectors, it does not check them."""
+    pts = [(0.0, 0.0)]
+    for _, f in forces:
+        pts.append((pts[-1][0] + f[0], pts[-1][1] + f[1]))
+    span = max(max(p[0] for p in pts) - min(p[0] for p in pts), max(p[1] for p in pts) - min(p[1] for p in pts))
+    s = POLYGON_PX / span if span > 0 else 1.0
+    x0, y1 = min(p[0] for p in pts), max(p[1] for p in pts)
+    px = [((p[0] - x0) * s, (y1 - p[1]) * s) for p in pts]
+    pad = 14.0
+    svg = ET.Element("svg", {"xmlns": "http://www.w3.org/2000/svg"})
+    svg.set("viewBox", f"{_f(-pad)} {_f(-pad)} {_f(POLYGON_PX + 2 * pad)} {_f(POLYGON_PX + 2 * pad)}")
+    svg.set("class", "polygon")
+    svg.set("font-family", "DejaVu Sans, Arial, sans-serif")
+    svg.set("font-size", "10.00")
+    ET.SubElement(svg, "title").text = "force polygon"
+    _el(svg, "circle", cx=px[0][0], cy=px[0][1], r=4.0, fill="none", stroke="black", stroke_width=1.0)
+    g = _el(svg, "g", stroke=FORCE_COLOUR, fill=FORCE_COLOUR)
+    for k, (tail, tip) in enumerate(itertools.pairwise(px)):
+        if math.dist(tail, tip) < 1e-9:
+            continue
+        a = _el(g, "g", **{"class": "force", "data-ref": _safe(forces[k][0])})
+        _el(a, "line", x1=tail[0], y1=tail[1], x2=tip[0], y2=tip[1], stroke_width=1.6)
+        _el(a, "polygon", points=_arrow_head(tail, tip, 7.0), stroke="none")
+        mid = ((tail[0] + tip[0]) / 2, (tail[1] + tip[1]) / 2)
+        _el(svg, "text", x=mid[0] + 3, y=mid[1] - 3, fill="black").text = str(k + 1)
     return svg

@@ -23,7 +23,7 @@ in ``data-value``); nothing here computes physics.
 from __future__ import annotations
 
 import datetime as dt
-import hashlib
+import math
 import os
 import xml.etree.ElementTree as ET
 from collections.abc import Iterable, Sequence
@@ -35,7 +35,8 @@ from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.core.version import __version__
 from dxfcheck.gate.rules import Judgement, RuleResult
 from dxfcheck.mechanism.model import Mechanism
-from dxfcheck.output.figure import plan_figure, svg_element
+from dxfcheck.output.figure import force_polygon, plan_figure, svg_element
+from dxfcheck.output.json import file_sha256
 from dxfcheck.output.record_pdf import pdf_bytes
 from dxfcheck.output.text import CAUTION
 from dxfcheck.read.titleblock import TitleBlock, read_title_block
@@ -44,7 +45,6 @@ from dxfcheck.statics import CaseSolution
 __all__ = [
     "SECTIONS",
     "Signoff",
-    "file_sha256",
     "free_body",
     "ordered_rules",
     "record_html",
@@ -74,7 +74,6 @@ SECTIONS = (
 )
 #: Rule id prefixes read first: the duty.
 DUTY_FIRST = ("torque.", "hoist.", "effort.")
-_CHUNK = 1 << 20
 
 _CSS = """
 body { font-family: "DejaVu Sans", Arial, sans-serif; font-size: 10.5pt; color: #000; background: #fff;
@@ -88,6 +87,8 @@ th { background: #eee; } td.num { text-align: right; white-space: nowrap; font-v
 .verdict-fail { color: #b00000; font-weight: bold; } .verdict-skip { color: #555; }
 .big { font-size: 15pt; } .caution { border: 2px solid #000; padding: 0.5em; font-weight: bold; }
 svg.figure { width: 100%; height: auto; max-height: 24cm; border: 1px solid #ccc; }
+.part { display: flex; gap: 1em; align-items: flex-start; } .part table { flex: 1; }
+svg.polygon { width: 4.5cm; height: 4.5cm; flex: none; }
 .signature td { height: 2.2em; } code { font-size: 9.5pt; }
 @page { size: A4; margin: 15mm; }
 @media print {
@@ -95,7 +96,7 @@ svg.figure { width: 100%; height: auto; max-height: 24cm; border: 1px solid #ccc
   section { page-break-before: always; break-before: page; }
   section#identity, section#verdict { page-break-before: auto; break-before: auto; }
   svg.figure { max-height: 20cm; page-break-inside: avoid; break-inside: avoid; }
-  tr { page-break-inside: avoid; break-inside: avoid; }
+  tr, .part { page-break-inside: avoid; break-inside: avoid; }
 }
 """
 
@@ -124,15 +125,6 @@ class _Num:
 Cell = str | _Num
 
 
-def file_sha256(path: str | os.PathLike[str]) -> str:
-    """SHA-256 of the file's bytes, hex."""
-    h = hashlib.sha256()
-    with open(path, "rb") as f:
-        for chunk in iter(lambda: f.read(_CHUNK), b""):
-            h.update(chunk)
-    return h.hexdigest()
-
-
 def _text(parent: ET.Element, tag: str, text: str, **attrs: str) -> ET.Element:
     el = ET.SubElement(parent, tag, attrs)
     el.text = _safe(text)
@@ -152,13 +144,26 @@ def _table(parent: ET.Element, head: Sequence[str], rows: Iterable[Sequence[Cell
     return table
 
 
+#: Above this magnitude a ``.4g`` number is shown whole, not in e-notation.
+WHOLE_FROM = 1e4
+WHOLE_TO = 1e9
+
+
+def _shown(v: float, fmt: str) -> str:
+    if math.isinf(v):
+        return "∞" if v > 0 else "-∞"
+    if fmt == ".4g" and WHOLE_FROM <= abs(v) < WHOLE_TO:
+        return f"{v:.0f}"
+    return format(v, fmt)
+
+
 def _cell(tr: ET.Element, cell: Cell) -> None:
     if isinstance(cell, _Num):
         v = cell.value
         if v is None or v != v:
             _text(tr, "td", "–", **{"class": "num"})
             return
-        shown = "∞" if v in (float("inf"), float("-inf")) else format(v, cell.fmt)
+        shown = _shown(v, cell.fmt)
         text = f"{shown} {cell.unit}".strip()
         _text(tr, "td", text, **{"class": "num", "data-value": repr(float(v))})
     elif cell.startswith("verdict:"):
@@ -351,21 +356,31 @@ def _direction(body: ET.Element, j: Judgement, c: CaseSolution, tb: TitleBlock) 
 
 
 def _free_bodies(sec: ET.Element, mech: Mechanism, c: CaseSolution) -> None:
-    _text(sec, "h3", "Free-body tables (forces on each part)")
+    _text(sec, "h3", "Free-body tables (forces on each part) and force polygons")
+    _text(
+        sec,
+        "p",
+        "Each part's forces as solved, numbered; beside them the same forces drawn tip to tail from the ring "
+        "(a part in balance closes its polygon on the ring).",
+    )
     for part, forces in free_body(mech, c).items():
         _text(sec, "h4", part)
+        div = ET.SubElement(sec, "div", {"class": "part"})
         rows = [
             (
+                str(k + 1),
                 what,
                 _Num(at[0], "mm", ".5g"),
                 _Num(at[1], "mm", ".5g"),
                 _Num(f[0], "N"),
                 _Num(f[1], "N"),
-                _Num((f[0] ** 2 + f[1] ** 2) ** 0.5, "N"),
+                _Num(math.hypot(*f), "N"),
             )
-            for what, at, f in forces
+            for k, (what, at, f) in enumerate(forces)
         ]
-        _table(sec, ("force", "x", "y", "Fx", "Fy", "|F|"), rows, "free-body")
+        _table(div, ("#", "force", "x", "y", "Fx", "Fy", "|F|"), rows, "free-body")
+        if forces:
+            div.append(force_polygon([(what, f) for what, _, f in forces]))
 
 
 def _results(sec: ET.Element, c: CaseSolution) -> None:
@@ -524,7 +539,9 @@ def write_record(
     source = j.mechanism.drawing.path
     tb = read_title_block(source, j.mechanism.drawing.custom_properties)
     when = now or dt.datetime.now(dt.UTC)
-    tree = record_tree(j, title_block=tb, sha256=file_sha256(source), checked_at=when, signoff=signoff)
+    tree = record_tree(
+        j, title_block=tb, sha256=file_sha256(source) or "not readable", checked_at=when, signoff=signoff
+    )
     if str(out).lower().endswith(".pdf"):
         return write_atomic(out, pdf_bytes(tree), force=force, protect=(source,))
     return write_atomic(out, record_html(tree), force=force, protect=(source,))

@@ -35,6 +35,8 @@ FIRST_PAGE = ("identity", "verdict")
 LANDSCAPE = ("rules",)
 #: Font sizes [pt].
 SIZES = {"h1": 15.0, "h2": 12.5, "h3": 10.5, "h4": 9.5, "p": 9.0, "table": 7.5}
+#: Width of a force polygon [mm].
+POLYGON_MM = 40.0
 #: Widest share of a table's width one column gets, in characters [-].
 MAX_COLUMN_CHARS = 48
 MIN_COLUMN_CHARS = 8
@@ -115,9 +117,10 @@ class _Writer:
             svg.remove(t)
         svg.set("font-family", self.family)  # the PDF's own font, so that every symbol prints
         data = self.text(ET.tostring(svg, encoding="unicode"))
-        if self.pdf.get_y() > self.pdf.h / 2:
+        small = el.get("class") == "polygon"
+        if not small and self.pdf.get_y() > self.pdf.h / 2:
             self.pdf.add_page()
-        self.pdf.image(io.BytesIO(data.encode("utf-8")), w=self.pdf.epw)
+        self.pdf.image(io.BytesIO(data.encode("utf-8")), w=POLYGON_MM if small else self.pdf.epw)
         self.pdf.ln(2)
 
     def walk(self, el: ET.Element) -> None:
@@ -139,6 +142,8 @@ class _Writer:
                 self.table(child)
             elif tag == "svg":
                 self.picture(child)
+            elif tag == "div":
+                self.walk(child)
 
 
 def _column_chars(cells: list[str]) -> float:

@@ -56,6 +56,8 @@ class _Record(HTMLParser):
         self._value: float | None = None
         self._ref: str | None = None
         self._in_label = False
+        self._figure = False
+        self.polygons: list[dict] = []
 
     def handle_starttag(self, tag, attrs):
         a = dict(attrs)
@@ -68,10 +70,18 @@ class _Record(HTMLParser):
             self.tables[-1][1].append([])
         elif tag in ("td", "th"):
             self._cell, self._value = [], (float(a["data-value"]) if "data-value" in a else None)
-        elif tag == "svg":
+        elif tag == "svg" and a.get("class") == "figure":
             self.arrows.append([])
             self.labels.append([])
-        elif tag == "g" and a.get("class") == "force":
+            self._figure = True
+        elif tag == "svg":
+            self._figure = False
+            self.polygons.append({"ring": None, "lines": []})
+        elif tag == "circle" and not self._figure and self.polygons and self.polygons[-1]["ring"] is None:
+            self.polygons[-1]["ring"] = (float(a["cx"]), float(a["cy"]))
+        elif tag == "line" and not self._figure and self.polygons:
+            self.polygons[-1]["lines"].append(tuple(float(a[k]) for k in ("x1", "y1", "x2", "y2")))
+        elif tag == "g" and a.get("class") == "force" and self._figure:
             self._ref = a["data-ref"]
         elif tag == "line" and self._ref is not None:
             self.arrows[-1].append((self._ref, [tuple(float(a[k]) for k in ("x1", "y1", "x2", "y2"))]))
@@ -158,6 +168,8 @@ def test_every_section_is_there(records):
 
         source = next(p for p in [*DEMOS, path.parent / "weak_block.dxf"] if p.stem == name)
         assert identity["SHA-256 of the file's bytes"] == hashlib.sha256(source.read_bytes()).hexdigest()
+        assert identity["SHA-256 of the file's bytes"] == doc["drawing_sha256"]  # the JSON carries it too
+        assert doc["run_at"].endswith("+00:00")
         assert identity["dxfcheck version"] == doc["tool"]["version"]
         for key in ("drawing number", "title", "revision", "date of the check"):
             assert key in identity
@@ -214,7 +226,7 @@ def _free_bodies(rec: _Record, part_names: list[str]) -> list[dict[str, list]]:
         chunk = tables[k * n : (k + 1) * n]
         out.append(
             {
-                p: [(row[0][0], row[1][1], row[2][1], row[3][1], row[4][1]) for row in rows]
+                p: [(row[1][0], row[2][1], row[3][1], row[4][1], row[5][1]) for row in rows]
                 for p, rows in zip(part_names, chunk, strict=True)
             }
         )
@@ -247,6 +259,24 @@ def test_free_body_tables_balance_and_match_the_json(records):
                     if s["part"] == part:
                         normal = (f"drum on {s['name']}: normal", *s["normal_at_mm"], *s["normal_force_N"])
                         assert normal in rows
+
+
+def test_force_polygons_close_and_follow_the_forces(records):
+    """Each part's force polygon (drawn from the solved vectors, tip to
+    tail) ends on its starting ring, since the part is in balance, and its
+    sides point the way the free-body table's forces point."""
+    for name, (rec, doc, _, _) in records.items():
+        parts = [p["name"] for p in doc["mechanism"]["parts"]]
+        tables = [rows for fb in _free_bodies(rec, parts) for rows in fb.values() if rows]
+        assert len(rec.polygons) == len(tables), name
+        for poly, rows in zip(rec.polygons, tables, strict=True):
+            lines = poly["lines"]
+            nonzero = [r for r in rows if math.hypot(r[3], r[4]) > 0]
+            assert len(lines) == len(nonzero), (name, rows)
+            for (x1, y1, x2, y2), r in zip(lines, nonzero, strict=True):
+                assert _angle_deg((x2 - x1, -(y2 - y1)), (r[3], r[4])) < ARROW_ANGLE_DEG, (name, r)
+            end = (lines[-1][2], lines[-1][3])
+            assert math.dist(end, poly["ring"]) < 0.05, (name, end, poly["ring"])  # px, of a 170 px drawing
 
 
 def _arrow_vectors(c: dict) -> dict[str, tuple[float, float]]:
