@@ -3,8 +3,8 @@
 The record's numbers are read back from the HTML and compared with the JSON
 document of the same run; its pictures' arrows with the solver's vectors; its
 free-body tables against equilibrium (every part's forces sum to zero and
-their moments about any point too: statics of a rigid body, e.g. Meriam &
-Kraige, *Engineering Mechanics: Statics*, 7th ed., ch. 3, from memory); the
+their moments about any point too: equilibrium of a rigid body, Beer,
+Johnston et al., *Vector Mechanics for Engineers: Statics*, 11th ed., ch. 4, from memory); the
 friction on each shoe against Coulomb's law (the drum drags the lining the
 way its surface moves: Shigley's MED 10th ed., §16-2, from memory).  The
 structure tests (sections, escaping, no external resource, label boxes) check
