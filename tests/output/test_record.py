@@ -23,7 +23,7 @@ from pathlib import Path
 
 import ezdxf
 import pytest
-from common import CATALOGUE, ROOT, block_brake
+from common import CATALOGUE, ROOT, TITLES, block_brake
 
 from dxfcheck import cli
 from dxfcheck.output.figure import boxes_overlap, plan_figure, svg_element
@@ -173,6 +173,9 @@ def test_every_section_is_there(records):
         assert identity["dxfcheck version"] == doc["tool"]["version"]
         for key in ("drawing number", "title", "revision", "date of the check"):
             assert key in identity
+        if name in TITLES:  # the demos' title blocks (drawings/build.py)
+            number, title, revision = TITLES[name]
+            assert (identity["drawing number"], identity["title"], identity["revision"]) == (number, title, revision)
         verdict = [t for t in rec.text if t.strip().upper() in ("PASS", "WARN", "FAIL")]
         assert verdict and verdict[0].strip() == doc["verdict"].upper()
         assert (rc == 1) == (doc["verdict"] == "fail")
@@ -593,3 +596,20 @@ def test_record_in_a_real_browser(records, tmp_path):
     for r in doc["rules"]:
         assert _squash(f"{r['verdict'].upper()}{r['rule']}") in text, r["rule"]
     assert _squash(CAUTION) in text
+
+
+def test_pdf_without_dejavu_spells_symbols_in_ascii(tmp_path, monkeypatch):
+    """Where no DejaVu Sans is found the PDF is set in Helvetica, with μ, ·,
+    ° and Ø spelt in ASCII instead of failing on them."""
+    pypdf = pytest.importorskip("pypdf")
+    pytest.importorskip("fpdf")
+    from dxfcheck.output import record_pdf
+    from dxfcheck.output.record import write_record
+    from dxfcheck.pipeline import check
+
+    monkeypatch.setattr(record_pdf, "_font_path", lambda: None)
+    j = check(ROOT / "drawings" / "conveyor_block.dxf")
+    out = write_record(j, tmp_path / "ascii.pdf")
+    text = " ".join(p.extract_text() for p in pypdf.PdfReader(out).pages)
+    assert "Drum cw at mu = 0.35" in text and "μ" not in text
+    assert _squash(CAUTION) in _squash(text)
