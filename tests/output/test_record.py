@@ -140,12 +140,26 @@ def _failing(tmp_path: Path) -> Path:
     return path
 
 
+def _self_locking(tmp_path: Path) -> Path:
+    """A single-lever block brake, P·l = N(x ∓ μa): with x = 200 mm and
+    |a| = 250 mm it self-locks in one direction once μ ≥ x/|a| = 0.8
+    (Khurmi & Gupta, *Theory of Machines*, block brakes; from memory), so
+    at μ = 0.9 one direction does not brake."""
+    path = tmp_path / "locking_block.dxf"
+    block_brake(r=200, l=500, x=200, a=-250, effort="1 kN").save(path)
+    (tmp_path / "locking_block.toml").write_text(
+        '[spec]\nrequired_torque = "100 N*m"\nmu = 0.9\nmu_min = 0.9\nmu_max = 0.9\n', encoding="utf-8"
+    )
+    return path
+
+
 @pytest.fixture(scope="module")
 def records(tmp_path_factory):
-    """Every demo and a failing drawing: (record, JSON, exit code)."""
+    """Every demo, a failing drawing and one that self-locks in one
+    direction: (record, JSON, exit code, record path)."""
     tmp = tmp_path_factory.mktemp("records")
     out = {}
-    for drawing in [*DEMOS, _failing(tmp)]:
+    for drawing in [*DEMOS, _failing(tmp), _self_locking(tmp)]:
         path = tmp / f"{drawing.stem}.html"
         rc, doc, _ = _run_check(drawing, path)
         out[drawing.stem] = (_read(path), doc, rc, path)
@@ -166,7 +180,7 @@ def test_every_section_is_there(records):
         assert identity["file"] == f"{name}.dxf"
         import hashlib
 
-        source = next(p for p in [*DEMOS, path.parent / "weak_block.dxf"] if p.stem == name)
+        source = next(p for p in [*DEMOS, path.parent / f"{name}.dxf"] if p.stem == name)
         assert identity["SHA-256 of the file's bytes"] == hashlib.sha256(source.read_bytes()).hexdigest()
         assert identity["SHA-256 of the file's bytes"] == doc["drawing_sha256"]  # the JSON carries it too
         assert doc["run_at"].endswith("+00:00")
@@ -182,6 +196,9 @@ def test_every_section_is_there(records):
         signoff = [row[0][0] for row in rec.table("signature")]
         assert signoff == ["prepared", "checked", "approved"]
     assert records["weak_block"][1]["verdict"] == "fail"
+    locking = records["locking_block"][1]
+    assert [c["torque_Nm"] is None for c in locking["cases"]].count(True) == 1  # one direction does not brake
+    assert "Does not brake: S304" in " ".join(records["locking_block"][0].text)
 
 
 def test_numbers_equal_the_json(records):
@@ -331,6 +348,8 @@ def test_friction_on_each_shoe_follows_the_drum_surface(records):
         drum = doc["mechanism"]["drum"]
         for svg_arrows, d in zip(rec.arrows, ("cw", "ccw"), strict=True):
             c = _cases(doc)[d]
+            if c["torque_Nm"] is None:  # no brake (self-locks: the normal force would have to pull)
+                continue
             for s in c["shoes"]:
                 [(x1, y1, x2, y2)] = [lines[0] for ref, lines in svg_arrows if ref == f"shoe/{s['name']}/friction"]
                 rx, ry = s["friction_at_mm"][0] - drum["x_mm"], s["friction_at_mm"][1] - drum["y_mm"]
