@@ -263,6 +263,12 @@ def _parser() -> argparse.ArgumentParser:
     )
     b.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
     b.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    b.add_argument(
+        "--records",
+        default=None,
+        metavar="DIR",
+        help="write the calculation record of each drawing into DIR, with an index page (index.html)",
+    )
     b.add_argument("--no-cache", action="store_true", help="check every drawing again")
     b.add_argument("--cache-dir", default=None, help="cache folder (default ~/.cache/dxfcheck)")
     b.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
@@ -622,7 +628,20 @@ def _batch_options(args: argparse.Namespace) -> Any:
         units=args.units,
         tolerance_mm=_tolerance(args),
         max_bytes=_max_bytes(args),
+        records_dir=_records_dir(args.records),
     )
+
+
+def _records_dir(folder: str | None) -> str | None:
+    """The folder for ``batch --records`` (made if missing), absolute."""
+    import os
+
+    if folder is None:
+        return None
+    if os.path.exists(folder) and not os.path.isdir(folder):
+        raise ConfigError(f"--records {one_line(folder)}: not a folder")
+    os.makedirs(folder, exist_ok=True)
+    return os.path.abspath(folder)
 
 
 def _batch(args: argparse.Namespace) -> int:
@@ -663,6 +682,10 @@ def _batch(args: argparse.Namespace) -> int:
                 timeout_each_s=timeout_each,
             )
     result.skipped = found.skipped
+    if options.records_dir is not None:
+        from dxfcheck.output.record import write_index
+
+        write_index(result.results, options.records_dir)
     for note in result.notes:
         sys.stderr.write(f"dxfcheck: note: {note}\n")
     if result.interrupted:

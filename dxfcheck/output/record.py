@@ -23,12 +23,14 @@ in ``data-value``); nothing here computes physics.
 from __future__ import annotations
 
 import datetime as dt
+import hashlib
 import math
 import os
 import xml.etree.ElementTree as ET
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Protocol
 
 from dxfcheck.core.files import write_atomic
 from dxfcheck.core.textsafe import printable, xml_text
@@ -48,7 +50,9 @@ __all__ = [
     "free_body",
     "ordered_rules",
     "record_html",
+    "record_name",
     "record_tree",
+    "write_index",
     "write_record",
 ]
 
@@ -545,3 +549,65 @@ def write_record(
     if str(out).lower().endswith(".pdf"):
         return write_atomic(out, pdf_bytes(tree), force=force, protect=(source,))
     return write_atomic(out, record_html(tree), force=force, protect=(source,))
+
+
+# --- a folder of records (batch --records) ----------------------------------------
+
+#: Hex digits of the drawing path's hash in a record's file name.
+NAME_HASH_CHARS = 10
+
+
+def record_name(drawing: str | os.PathLike[str]) -> str:
+    """The record's file name for a drawing in a folder of records: its stem
+    and a hash of its absolute path (two drawings of one name in different
+    folders get two records)."""
+    p = Path(drawing)
+    digest = hashlib.sha256(os.path.abspath(p).encode("utf-8", "surrogateescape")).hexdigest()
+    return f"{p.stem}-{digest[:NAME_HASH_CHARS]}.html"
+
+
+class BatchRow(Protocol):
+    """What the index needs of one batch result (``batch.DrawingResult``)."""
+
+    @property
+    def drawing(self) -> str: ...
+    @property
+    def status(self) -> str: ...
+    @property
+    def torque_cw_Nm(self) -> float | None: ...
+    @property
+    def torque_ccw_Nm(self) -> float | None: ...
+    @property
+    def message(self) -> str: ...
+    @property
+    def cached(self) -> bool: ...
+
+
+def write_index(results: Sequence[BatchRow], folder: str | os.PathLike[str]) -> Path:
+    """Write ``index.html`` in ``folder``: every drawing of a batch with its
+    status, torques and a link to its record (where one is in the folder)."""
+    html = ET.Element("html", {"lang": "en"})
+    head = ET.SubElement(html, "head")
+    ET.SubElement(head, "meta", {"charset": "utf-8"})
+    _text(head, "title", "dxfcheck calculation records")
+    ET.SubElement(head, "style").text = _CSS
+    body = ET.SubElement(html, "body")
+    _text(body, "h1", "Calculation records")
+    _text(body, "p", CAUTION, **{"class": "caution"})
+    table = _table(body, ("drawing", "verdict", "torque cw", "torque ccw", "record", "note"), [], "index")
+    tbody = table.find("tbody")
+    assert tbody is not None
+    for r in results:
+        tr = ET.SubElement(tbody, "tr")
+        _cell(tr, r.drawing)
+        _cell(tr, f"verdict:{r.status}")
+        _cell(tr, _Num(r.torque_cw_Nm, "N·m"))
+        _cell(tr, _Num(r.torque_ccw_Nm, "N·m"))
+        name = record_name(r.drawing)
+        td = ET.SubElement(tr, "td")
+        if (Path(folder) / name).is_file():
+            _text(td, "a", name, href=name)
+        else:
+            td.text = "none (not checked in this run)" if r.cached else "none"
+        _cell(tr, r.message)
+    return write_atomic(Path(folder) / "index.html", record_html(html), force=True)

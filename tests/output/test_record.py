@@ -632,3 +632,32 @@ def test_pdf_without_dejavu_spells_symbols_in_ascii(tmp_path, monkeypatch):
     text = " ".join(p.extract_text() for p in pypdf.PdfReader(out).pages)
     assert "Drum cw at mu = 0.35" in text and "μ" not in text
     assert _squash(CAUTION) in _squash(text)
+
+
+def test_batch_writes_a_record_per_drawing_and_an_index(tmp_path):
+    """`batch --records DIR`: one record per drawing checked and an index page
+    linking each (local links only); a rerun from the cache keeps them."""
+    import shutil
+
+    demos = tmp_path / "demos"
+    demos.mkdir()
+    for p in [*DEMOS, ROOT / "drawings" / "dxfcheck.toml"]:
+        shutil.copy(p, demos / p.name)
+    out = tmp_path / "records"
+    cmd = [sys.executable, "-m", "dxfcheck", "batch", str(demos), "--records", str(out), "--jobs", "1", "--json"]
+    cmd += ["--cache-dir", str(tmp_path / "cache")]
+    for _ in range(2):  # checked, then from the cache
+        proc = subprocess.run(cmd, capture_output=True, text=True, timeout=300, cwd=ROOT)
+        assert proc.returncode == 1, proc.stderr  # the winch fails its gate
+        results = json.loads(proc.stdout)["results"]
+        index = _read(out / "index.html")
+        links = [v for tag, key, v in index.attrs if tag == "a" and key == "href"]
+        assert len(links) == len(DEMOS) == len(results)
+        rows = {row[0][0]: row for row in index.table("index")}
+        for r in results:
+            assert rows[r["drawing"]][1][0] == r["status"].upper()
+            assert rows[r["drawing"]][2][1] == r["torque_cw_Nm"]
+        for link in links:
+            assert "/" not in link and (out / link).is_file()
+            assert _read(out / link).sections == list(SECTIONS)
+    assert all(r["cached"] for r in results)
