@@ -92,10 +92,30 @@ def capstan_band() -> Sketch:
     return sk
 
 
+#: Each demo's title block: drawing number, title, revision (block attributes).
+TITLES = {
+    "winch_two_shoe": ("TQ-W2-BR-201", "Incline winch holding brake, two shoes", "C"),
+    "conveyor_block": ("TQ-C7-BR-105", "Saw feed conveyor block brake", "A"),
+    "capstan_band": ("TQ-K4-BR-310", "Rope capstan band brake, spring-set", "B"),
+}
+
+
+def save_with_title(sk: Sketch, path: Path, number: str, title: str, revision: str) -> None:
+    """Save a demo with a title block: a block of attribute definitions
+    inserted on layer TITLE (no skeleton entity), its attributes filled."""
+    doc = sk.to_doc()
+    block = doc.blocks.new("DXFCHECK_DEMO_TITLE")
+    for k, tag in enumerate(("DRAWING_NO", "TITLE", "REV")):
+        block.add_attdef(tag, (0, -12 * k), dxfattribs={"height": 8})
+    doc.layers.add("TITLE")
+    ref = doc.modelspace().add_blockref("DXFCHECK_DEMO_TITLE", (300, -450), dxfattribs={"layer": "TITLE"})
+    ref.add_auto_attribs({"DRAWING_NO": number, "TITLE": title, "REV": revision})
+    doc.saveas(path)
+
+
 def main() -> None:
-    winch_two_shoe().save(HERE / "winch_two_shoe.dxf")
-    conveyor_block().save(HERE / "conveyor_block.dxf")
-    capstan_band().save(HERE / "capstan_band.dxf")
+    for make in (winch_two_shoe, conveyor_block, capstan_band):
+        save_with_title(make(), HERE / f"{make.__name__}.dxf", *TITLES[make.__name__])
 
 
 if __name__ == "__main__":

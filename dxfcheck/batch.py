@@ -123,6 +123,9 @@ class CheckOptions:
         "Lies on" tolerance [mm].
     max_bytes : int or None
         Largest drawing read [bytes].
+    records_dir : str or None
+        Folder the calculation record of each drawing checked is written to
+        (:func:`dxfcheck.output.record.record_name`), or None.
     """
 
     config: str | None = None
@@ -130,6 +133,7 @@ class CheckOptions:
     units: str | None = None
     tolerance_mm: float | None = None
     max_bytes: int | None = None
+    records_dir: str | None = None
 
 
 @dataclass(frozen=True)
@@ -648,6 +652,10 @@ def check_one(path: str, options: CheckOptions = CheckOptions()) -> DrawingResul
             tolerance_mm=options.tolerance_mm,
             max_bytes=options.max_bytes,
         )
+        if options.records_dir is not None:
+            from dxfcheck.output.record import record_name, write_record
+
+            write_record(j, Path(options.records_dir) / record_name(path), force=True)
     except DxfcheckError as exc:
         lines = [str(exc)] + [f.line() for f in exc.findings[:3]]
         return DrawingResult(path, "error", message="; ".join(lines), seconds=time.perf_counter() - t0)

@@ -200,6 +200,17 @@ def _parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
     c.add_argument("--strict", action="store_true", help="warnings fail the gate too")
+    c.add_argument(
+        "--record", default=None, metavar="OUT.html", help="also write the calculation record (HTML, self-contained)"
+    )
+    c.add_argument(
+        "--signoff",
+        action="append",
+        default=[],
+        metavar="KEY=VALUE",
+        help="a sign-off field of the record: prepared_by, prepared_on, checked_by, checked_on, approved_by, "
+        "approved_on (repeatable; left blank otherwise)",
+    )
     _shoe_options(c)
     _annotate_shortcut(c)
 
@@ -259,6 +270,12 @@ def _parser() -> argparse.ArgumentParser:
     )
     b.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
     b.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    b.add_argument(
+        "--records",
+        default=None,
+        metavar="DIR",
+        help="write the calculation record of each drawing into DIR, with an index page (index.html)",
+    )
     b.add_argument("--no-cache", action="store_true", help="check every drawing again")
     b.add_argument("--cache-dir", default=None, help="cache folder (default ~/.cache/dxfcheck)")
     b.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
@@ -465,7 +482,11 @@ def _check(args: argparse.Namespace) -> int:
     ):
         if value is not None:
             overrides.append((key, value))
-    check_targets([Target(args.annotate, args.force), Target(args.junit, True, text=True)], protect=(args.drawing,))
+    signoff = _signoff(args.signoff)
+    check_targets(
+        [Target(args.annotate, args.force), Target(args.junit, True, text=True), Target(args.record, args.force)],
+        protect=(args.drawing,),
+    )
     report_to = _report_stream(args, args.junit)
     cfg = resolve_config(args.drawing, args.config)
     j = check(
@@ -482,12 +503,32 @@ def _check(args: argparse.Namespace) -> int:
         annotate(j.nominal, out=args.annotate, judgement=j, config=cfg, force=args.force)
     if args.junit:
         write_atomic(args.junit, junit_xml(j, strict=args.strict), protect=(args.drawing,))
+    if args.record:
+        from dxfcheck.output.record import write_record
+
+        write_record(j, args.record, signoff=signoff, force=args.force)
     if args.json:
         write_json(judgement_to_dict(j))
     else:
         print_judgement(j, out=report_to, strict=args.strict)
     failed = j.verdict is Verdict.FAIL or (args.strict and j.verdict is Verdict.WARN)
     return EXIT_CHECK_FAILED if failed else EXIT_OK
+
+
+def _signoff(items: Sequence[str]) -> Any:
+    """The record's sign-off fields from ``--signoff KEY=VALUE``."""
+    import dataclasses
+
+    from dxfcheck.output.record import Signoff
+
+    keys = [f.name for f in dataclasses.fields(Signoff)]
+    given: dict[str, str] = {}
+    for item in items:
+        key, sep, value = item.partition("=")
+        if not sep or key.strip() not in keys:
+            raise ConfigError(f"--signoff {one_line(item)!r}: give KEY=VALUE with KEY one of {', '.join(keys)}")
+        given[key.strip()] = value.strip()
+    return Signoff(**given)
 
 
 def _annotate(args: argparse.Namespace) -> int:
@@ -619,7 +660,20 @@ def _batch_options(args: argparse.Namespace) -> Any:
         units=args.units,
         tolerance_mm=_tolerance(args),
         max_bytes=_max_bytes(args),
+        records_dir=_records_dir(args.records),
     )
+
+
+def _records_dir(folder: str | None) -> str | None:
+    """The folder for ``batch --records`` (made if missing), absolute."""
+    import os
+
+    if folder is None:
+        return None
+    if os.path.exists(folder) and not os.path.isdir(folder):
+        raise ConfigError(f"--records {one_line(folder)}: not a folder")
+    os.makedirs(folder, exist_ok=True)
+    return os.path.abspath(folder)
 
 
 def _batch(args: argparse.Namespace) -> int:
@@ -660,6 +714,10 @@ def _batch(args: argparse.Namespace) -> int:
                 timeout_each_s=timeout_each,
             )
     result.skipped = found.skipped
+    if options.records_dir is not None:
+        from dxfcheck.output.record import write_index
+
+        write_index(result.results, options.records_dir)
     for note in result.notes:
         sys.stderr.write(f"dxfcheck: note: {note}\n")
     if result.interrupted:

@@ -14,13 +14,14 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT / "drawings"))
 
-from build import capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
+from build import TITLES, capstan_band, conveyor_block, winch_two_shoe  # noqa: E402
 
 from dxfcheck.output.sketch import Sketch  # noqa: E402
 
 __all__ = [
     "CATALOGUE",
     "ROOT",
+    "TITLES",
     "block_brake",
     "capstan_band",
     "conveyor_block",

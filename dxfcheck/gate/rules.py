@@ -128,6 +128,11 @@ def hoist_factor(control_braking: str | None, holding_brakes: float | None) -> t
     return 1.25, "125 %: control braking other than mechanical"
 
 
+def _g(x: float | None) -> str:
+    """A number as the formulas show it (4 significant figures)."""
+    return "?" if x is None else f"{x:.4g}"
+
+
 def _valid_cases(solutions: dict[float, Solution]) -> list[CaseSolution]:
     """Cases whose forces mean something: no self-locking, no lift-off."""
     out = []
@@ -296,6 +301,8 @@ def _units(mech: Mechanism, spec: Spec) -> list[RuleResult]:
             inputs,
             SRC_UNITS,
             msg,
+            f"D_drum within {DRUM_DIAMETER_MM[0]:g} … {DRUM_DIAMETER_MM[1]:g} mm, unit confirmed or plausible",
+            f"D_drum = {_g(drum_d)} mm read in {d.units} ({d.units_source})",
         )
     ]
 
@@ -332,6 +339,8 @@ def _hygiene(findings: list[Finding]) -> list[RuleResult]:
             {"codes": codes},
             "the drawing's findings and the solves' warnings (README, finding codes)",
             msg,
+            "warning findings = 0",
+            f"{len(warnings)} warning finding(s)",
         )
     ]
 
@@ -461,6 +470,9 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
                     dict(inputs, direction=str(d)),
                     at_most=False,
                     message=message,
+                    formula="T(μ_min) = Σ T_shoe + Σ (T1 − T2)·r ≥ T_req",
+                    substituted=f"T = {_g(c.torque_Nm)} N·m at μ_min = {mu_min:g}, {d}; T_req = {_g(need)} N·m "
+                    f"({governing.basis})",
                 )
             )
     hoist = spec.num("hoist_torque")
@@ -479,6 +491,9 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
                     SRC_HOIST,
                     {"hoist_torque_Nm": hoist, "factor": factor, "basis": why, "mu_min": mu_min, "direction": str(d)},
                     at_most=False,
+                    formula="T(μ_min) ≥ k·T_hoist",
+                    substituted=f"T = {_g(c.torque_Nm)} N·m at μ_min = {mu_min:g}; limit {factor:g} × {_g(hoist)} N·m "
+                    f"= {_g(factor * hoist)} N·m",
                 )
             )
     return out
@@ -502,6 +517,9 @@ def _effort_rule(c: CaseSolution, need: float, duty: str, mu_min: float) -> list
             {"effort": name, "required_torque_Nm": need, "duty": duty, "torque_Nm": c.torque_Nm, "mu_min": mu_min},
             at_most=True,
             message=f"{name} needs {needed:.4g} N for the duty at mu_min",
+            formula="F_needed = F·T_req/T(μ_min) ≤ F",
+            substituted=f"F_needed = {_g(available)} N × {_g(need)} N·m / {_g(c.torque_Nm)} N·m = {_g(needed)} N"
+            f"; limit {_g(available)} N",
         )
     ]
 
@@ -526,6 +544,8 @@ def _self_lock(spec: Spec, mech: Mechanism, mu_max: float, options: ContactOptio
                     inputs,
                     SRC_SELF_LOCK,
                     "does not self-lock for μ below 1",
+                    "μ_crit ≥ μ_max × margin",
+                    f"no μ_crit below 1; limit {mu_max:g} × {margin_req:g} = {limit:.4g}",
                 )
             )
             continue
@@ -540,6 +560,8 @@ def _self_lock(spec: Spec, mech: Mechanism, mu_max: float, options: ContactOptio
                 inputs,
                 at_most=False,
                 message=f"self-locks at μ = {mu_c:.4g}",
+                formula="μ_crit ≥ μ_max × margin",
+                substituted=f"μ_crit = {mu_c:.4g}; limit {mu_max:g} × {margin_req:g} = {limit:.4g}",
             )
         )
     return out
@@ -571,6 +593,9 @@ def _asymmetry(spec: Spec, nominal: Solution) -> list[RuleResult]:
                 "mu": nominal.cases[0].mu,
             },
             SRC_ASYM,
+            "",
+            "(T_max − T_min)/T_max ≤ limit",
+            f"({_g(max(t))} − {_g(min(t))}) N·m / {_g(hi)} N·m = {value:.4g}; limit {limit:g}",
         )
     ]
 
@@ -594,6 +619,8 @@ def _shoe_contact(mech: Mechanism, solutions: dict[float, Solution]) -> list[Rul
                 {"case": _where(worst)},
                 "normal force must be positive (a shoe cannot pull on the drum)",
                 "" if n > 0 else "the shoe lifts off or the brake self-locks in this case",
+                "N > 0 in every case",
+                f"least N = {_g(n)} N ({_where(worst)}); needs > 0",
             )
         )
     return out
@@ -629,30 +656,49 @@ def _lining(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[Rule
                 "case": _where(worst),
             }
             limit = spec.num("lining_pressure_max") or 0.0
-            out.append(_ratio_rule(rule, title, p, limit, "MPa", source, inputs, at_most=True))
-        rule = f"lining.pv.{s.name}"
-        title = f"pV, {s.name}"
-        miss = _missing(spec, ("lining_width", "drum_speed", "pv_max"))
-        if miss:
-            out.append(_skip(rule, title, f"needs {', '.join(miss)}", SRC_PV))
-            continue
-        assert p is not None
-        n_rpm = spec.num("drum_speed") or 0.0
-        v, v_basis = rubbing_speed(spec, drum.radius_mm)
-        out.append(
-            _ratio_rule(
-                rule,
-                title,
-                p * v,
-                spec.num("pv_max") or 0.0,
-                "MPa*m/s",
-                SRC_PV,
-                {"pressure_MPa": p, "rubbing_speed_m_s": v, "drum_speed_rpm": n_rpm, "case": _where(worst)},
-                at_most=True,
-                message=f"rubbing speed {v:.4g} m/s: {v_basis}",
+            out.append(
+                _ratio_rule(
+                    rule,
+                    title,
+                    p,
+                    limit,
+                    "MPa",
+                    source,
+                    inputs,
+                    at_most=True,
+                    formula="p = q_peak/b ≤ p_allow",
+                    substituted=f"p = {_g(sr.peak_line_load_N_per_mm)} N/mm / {_g(b)} mm = {_g(p)} MPa"
+                    f"; limit {_g(limit)} MPa ({_where(worst)})",
+                )
             )
-        )
+        out.append(_lining_pv(spec, s.name, 2 * drum.radius_mm, p, worst))
     return out
+
+
+def _lining_pv(spec: Spec, shoe: str, drum_d: float, p: float | None, worst: CaseSolution) -> RuleResult:
+    """pV of a shoe's lining (MPa·m/s) for the drum Ø ``drum_d`` [mm], at the
+    rubbing speed :func:`~dxfcheck.gate.duty.rubbing_speed` gives (the drum
+    speed πDn/60, or its mean over a stated stop). Source: :data:`SRC_PV`."""
+    rule, title = f"lining.pv.{shoe}", f"pV, {shoe}"
+    miss = _missing(spec, ("lining_width", "drum_speed", "pv_max"))
+    if miss or p is None:
+        return _skip(rule, title, f"needs {', '.join(miss)}", SRC_PV)
+    n_rpm = spec.num("drum_speed") or 0.0
+    v, v_basis = rubbing_speed(spec, drum_d / 2)
+    return _ratio_rule(
+        rule,
+        title,
+        p * v,
+        spec.num("pv_max") or 0.0,
+        "MPa*m/s",
+        SRC_PV,
+        {"pressure_MPa": p, "rubbing_speed_m_s": v, "drum_speed_rpm": n_rpm, "case": _where(worst)},
+        at_most=True,
+        message=f"rubbing speed {v:.4g} m/s: {v_basis}",
+        formula="pV = p·v ≤ pV_allow",
+        substituted=f"pV = {_g(p)} MPa × {_g(v)} m/s ({v_basis}; π × {_g(drum_d)} mm × {n_rpm:g} rpm / 60 = "
+        f"{_g(math.pi * drum_d * n_rpm / 60000.0)} m/s) = {_g(p * v)} MPa·m/s; limit {_g(spec.num('pv_max'))} MPa·m/s",
+    )
 
 
 def _band_result(c: CaseSolution, name: str) -> BandResult:
@@ -678,6 +724,8 @@ def _band_taut(band: Band, every: list[CaseSolution]) -> RuleResult:
         {"case": _where(worst)},
         "a band can only pull: slack-side tension must be positive",
         "" if slack > 0 else "the band goes slack or the brake self-locks in this case",
+        "T2 > 0 in every case",
+        f"least T2 = {_g(slack)} N ({_where(worst)}); needs > 0",
     )
 
 
@@ -700,6 +748,8 @@ def _band_pv(spec: Spec, band: Band, p: float, top: CaseSolution) -> list[RuleRe
             {"pressure_MPa": p, "rubbing_speed_m_s": v, "case": _where(top)},
             at_most=True,
             message=f"rubbing speed {v:.4g} m/s: {v_basis}",
+            formula="pV = p·v ≤ pV_allow",
+            substituted=f"pV = {_g(p)} MPa × {_g(v)} m/s = {_g(p * v)} MPa·m/s; limit {_g(spec.num('pv_max'))} MPa·m/s",
         )
     ]
 
@@ -730,6 +780,9 @@ def _band_pressure(spec: Spec, band: Band, cases: list[CaseSolution]) -> list[Ru
         SRC_BAND,
         {"tight_N": br.tight_N, "radius_mm": band.radius_mm, "width_mm": b, "case": _where(top)},
         at_most=True,
+        formula="p = T1/(b·r) ≤ p_allow",
+        substituted=f"p = {_g(br.tight_N)} N / ({_g(b)} mm × {_g(band.radius_mm)} mm) = {_g(p)} MPa"
+        f"; limit {_g(spec.num('lining_pressure_max'))} MPa ({_where(top)})",
     )
     return [pressure, *_band_pv(spec, band, p, top)]
 
@@ -771,6 +824,9 @@ def _pins(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleRe
                     SRC_SHEAR,
                     {"force_N": f, "diameter_mm": d, "shear_planes": planes, "case": _where(worst)},
                     at_most=True,
+                    formula="τ = F/(n·πd²/4) ≤ τ_allow",
+                    substituted=f"τ = {_g(f)} N / ({planes:g} × π × {_g(d)}² mm² / 4) = {_g(tau)} MPa"
+                    f"; limit {_g(allow)} MPa ({_where(worst)})",
                 )
             )
         rule, title = f"pin.bearing.{pin.name}", f"pin bearing, {pin.name}"
@@ -790,6 +846,9 @@ def _pins(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleRe
                 SRC_BEARING,
                 {"force_N": f, "diameter_mm": d, "pin_length_mm": length, "case": _where(worst)},
                 at_most=True,
+                formula="p = F/(d·L) ≤ p_allow",
+                substituted=f"p = {_g(f)} N / ({_g(d)} mm × {_g(length)} mm) = {_g(p)} MPa"
+                f"; limit {_g(spec.num('pin_bearing_allow', pin.name))} MPa ({_where(worst)})",
             )
         )
     return out
@@ -828,6 +887,8 @@ def _member_stress(spec: Spec, name: str, cases: list[CaseSolution], area: float
         SRC_STRESS,
         {"axial_N": f, "area_mm2": area, "case": _where(worst)},
         at_most=True,
+        formula="σ = |F|/A ≤ σ_allow",
+        substituted=f"σ = {_g(f)} N / {_g(area)} mm² = {_g(f / area)} MPa; limit {_g(allow)} MPa ({_where(worst)})",
     )
 
 
@@ -876,7 +937,12 @@ def _member_buckling(
         "solid_round": dia is None,
     }
     verdict = Verdict.PASS if margin >= 1 else Verdict.FAIL
-    return RuleResult(rule, title, verdict, fc, p_cr / sf, "N", margin, inputs, SRC_EULER)
+    formula = "F_c ≤ P_cr/S, P_cr = π²EI/(KL)², I = πd⁴/64"
+    substituted = (
+        f"P_cr = π² × {_g(e_mod)} MPa × π × {_g(d_eff)}⁴ mm⁴ / 64 / ({k:g} × {_g(length)} mm)² = {_g(p_cr)} N; "
+        f"F_c = {_g(fc)} N; limit {_g(p_cr)} N / {sf:g} = {_g(p_cr / sf)} N ({_where(worst_c)})"
+    )
+    return RuleResult(rule, title, verdict, fc, p_cr / sf, "N", margin, inputs, SRC_EULER, "", formula, substituted)
 
 
 def _members(spec: Spec, mech: Mechanism, cases: list[CaseSolution]) -> list[RuleResult]:

@@ -43,6 +43,12 @@ class RuleResult:
         The published method.
     message : str
         A sentence for the report (for skips: why).
+    formula : str
+        The rule's formula in symbols, e.g. ``τ = F/(n·πd²/4) ≤ τ_allow``
+        (empty for a skip).
+    substituted : str
+        The same with the values used put in, units included, as the rule
+        computed it (the record prints it; nothing recomputes it).
     """
 
     rule: str
@@ -55,6 +61,8 @@ class RuleResult:
     inputs: dict[str, Any] = field(default_factory=dict)
     source: str = ""
     message: str = ""
+    formula: str = ""
+    substituted: str = ""
 
 
 def ratio_rule(
@@ -68,11 +76,13 @@ def ratio_rule(
     *,
     at_most: bool,
     message: str = "",
+    formula: str = "",
+    substituted: str = "",
 ) -> RuleResult:
     capacity, demand = (limit, value) if at_most else (value, limit)
     margin = capacity / demand if demand > 0 else math.inf
     verdict = Verdict.PASS if margin >= 1.0 else Verdict.FAIL
-    return RuleResult(rule, title, verdict, value, limit, unit, margin, inputs, source, message)
+    return RuleResult(rule, title, verdict, value, limit, unit, margin, inputs, source, message, formula, substituted)
 
 
 def skip(rule: str, title: str, why: str, source: str = "") -> RuleResult:

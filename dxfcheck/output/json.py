@@ -9,7 +9,11 @@ results' fields, it never computes physics.
 
 from __future__ import annotations
 
+import datetime as dt
+import hashlib
 import json
+import os
+import stat
 import sys
 from collections.abc import Iterable
 from typing import IO, Any
@@ -45,8 +49,10 @@ __all__ = [
     "case_to_dict",
     "comparisons_to_dict",
     "error_document",
+    "file_sha256",
     "judgement_to_dict",
     "linings_to_dict",
+    "provenance",
     "rule_to_dict",
     "sensitivity_to_dict",
     "solution_to_dict",
@@ -68,6 +74,39 @@ SENSITIVITY_SCHEMA = "dxfcheck.statics.sampling/1"
 
 def _tool() -> dict[str, str]:
     return {"name": "dxfcheck", "version": __version__}
+
+
+#: Bytes read at a time while hashing a drawing.
+_HASH_CHUNK = 1 << 20
+#: Largest file hashed [bytes] (ten times the default size limit of a drawing).
+HASH_MAX_BYTES = 2_000_000_000
+
+
+def file_sha256(path: str | os.PathLike[str]) -> str | None:
+    """SHA-256 of the file's bytes (hex), or None when it is no regular file
+    (a FIFO or a device is never opened), is larger than
+    :data:`HASH_MAX_BYTES` or cannot be read."""
+    h = hashlib.sha256()
+    try:
+        st = os.stat(path)
+        if not stat.S_ISREG(st.st_mode) or st.st_size > HASH_MAX_BYTES:
+            return None
+        with open(path, "rb") as f:
+            for chunk in iter(lambda: f.read(_HASH_CHUNK), b""):
+                h.update(chunk)
+    except OSError:
+        return None
+    return h.hexdigest()
+
+
+def provenance(path: str | os.PathLike[str] | None) -> dict[str, Any]:
+    """What ties a stored document to its input: the drawing's SHA-256
+    (None when there is no readable file) and the time of the run (UTC,
+    ISO 8601)."""
+    return {
+        "drawing_sha256": None if path is None else file_sha256(path),
+        "run_at": dt.datetime.now(dt.UTC).isoformat(timespec="seconds"),
+    }
 
 
 def write_json(doc: dict[str, Any], out: IO[str] | None = None) -> None:
@@ -288,6 +327,7 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "schema": SOLVE_SCHEMA,
         "tool": _tool(),
         "drawing": d.path,
+        **provenance(d.path),
         "config": d.config_path,
         "sidecar": d.sidecar_path,
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
@@ -310,6 +350,7 @@ def error_document(exc: DxfcheckError, schema: str, drawing: str | None, *, inte
         "schema": schema,
         "tool": _tool(),
         "drawing": exc.path or drawing,
+        **provenance(exc.path or drawing),
         "error": {"kind": "internal" if internal else "unusable", "message": exc.message},
         "findings": [f.as_dict() for f in exc.findings],
         "caution": CAUTION,
@@ -341,6 +382,8 @@ def rule_to_dict(r: RuleResult) -> dict[str, Any]:
         "inputs": {k: (_num(v) if isinstance(v, float) else v) for k, v in r.inputs.items()},
         "source": r.source,
         "message": r.message,
+        "formula": r.formula,
+        "substituted": r.substituted,
     }
 
 
@@ -449,6 +492,8 @@ def comparisons_to_dict(comps: list[Any], names: list[str]) -> dict[str, Any]:
     return {
         "schema": COMPARE_SCHEMA,
         "drawings": names,
+        "drawings_sha256": [file_sha256(n) for n in names],
+        "run_at": provenance(None)["run_at"],
         "failed": any(c.failed for c in comps),
         "thresholds": _thresholds(th),
         "steps": [_step(c) for c in comps],
@@ -475,6 +520,7 @@ def sensitivity_to_dict(res: Any, drawing: str) -> dict[str, Any]:
     return {
         "schema": SENSITIVITY_SCHEMA,
         "drawing": drawing,
+        **provenance(drawing),
         "samples": res.samples,
         "seed": res.seed,
         "mu_range": list(res.mu_range),
