@@ -22,7 +22,15 @@ from schema_check import output_json, validate_document, validator
 
 from dxfcheck.batch import BATCH_SCHEMA
 from dxfcheck.core.geometry import Affine
-from dxfcheck.output.json import CHECK_SCHEMA, COMPARE_SCHEMA, SENSITIVITY_SCHEMA, SOLVE_SCHEMA
+from dxfcheck.gate.linings import LININGS
+from dxfcheck.output.json import (
+    CHECK_SCHEMA,
+    COMPARE_SCHEMA,
+    LININGS_SCHEMA,
+    SENSITIVITY_SCHEMA,
+    SOLVE_SCHEMA,
+    linings_to_dict,
+)
 from dxfcheck.output.schemas import DOCUMENTS, SCHEMA_NAMES, load_schema, schema_text
 
 DEMOS = ROOT / "drawings"
@@ -39,13 +47,14 @@ def test_every_schema_is_valid_draft_2020_12_and_names_its_document():
     """Each file passes the draft 2020-12 meta-schema; the document's
     versioned name in the schema is the one the code writes, so that a new
     document version needs a new schema."""
-    assert set(SCHEMA_NAMES) == {"solve", "check", "compare", "batch", "sensitivity", "error"}
+    assert set(SCHEMA_NAMES) == {"solve", "check", "compare", "batch", "sensitivity", "linings", "error"}
     written = {
         "solve": SOLVE_SCHEMA,
         "check": CHECK_SCHEMA,
         "compare": COMPARE_SCHEMA,
         "batch": BATCH_SCHEMA,
         "sensitivity": SENSITIVITY_SCHEMA,
+        "linings": LININGS_SCHEMA,
     }
     assert written == DOCUMENTS
     for name in SCHEMA_NAMES:
@@ -90,6 +99,9 @@ def test_compare_batch_and_sensitivity_meet_their_schemas(tmp_path):
     sampled = run("solve", WINCH, "--mu", "0.3..0.4", "--samples", "200", "--pin-tolerance", "0.2mm", "--json")
     assert sampled.returncode == 0, sampled.stderr
     assert output_json(sampled.stdout)["schema"] == SENSITIVITY_SCHEMA
+    linings = run("linings", "--json")
+    assert linings.returncode == 0, linings.stderr
+    assert len(output_json(linings.stdout)["linings"]) == len(LININGS)
 
 
 @pytest.mark.parametrize("command", ["solve", "check"])
@@ -104,8 +116,8 @@ def test_refusals_meet_the_error_schema(tmp_path, command):
 
 
 def _demo_docs():
-    solved = json.loads(run("solve", WINCH, "--json").stdout)
-    checked = json.loads(run("check", WINCH, "--json").stdout)
+    solved = output_json(run("solve", WINCH, "--json").stdout)
+    checked = output_json(run("check", WINCH, "--json").stdout)
     return solved, checked
 
 
@@ -121,6 +133,21 @@ MUTATIONS = {
     ),
     "point of three numbers": lambda d: d["cases"][0]["shoes"][0].__setitem__("force_N", [1.0, 2.0, 3.0]),
     "schema of another document": lambda d: d.__setitem__("schema", "dxfcheck.solve/1"),
+    "drawing hash not hex": lambda d: d.__setitem__("drawing_sha256", "ad71" * 15 + "03eZ"),
+    "run time without its zone": lambda d: d.__setitem__("run_at", "2026-12-02T06:45:54"),
+    "missing run time": lambda d: d.pop("run_at"),
+    "case without parts": lambda d: d["cases"][0].pop("parts"),
+    "drum load of three numbers": lambda d: d["cases"][0].__setitem__("drum_load_N", [1.0, 2.0, 3.0]),
+    "unknown station key": lambda d: d["cases"][0]["parts"][0]["stations"][0].__setitem__("force_N", 1.0),
+    "station segment as text": lambda d: d["cases"][0]["parts"][0]["stations"][0].__setitem__("segment", "0"),
+}
+
+#: Mutations of the gate's keys (the check document only).
+CHECK_MUTATIONS = {
+    "rule without formula": lambda d: d["rules"][0].pop("formula"),
+    "substituted values not text": lambda d: d["rules"][0].__setitem__("substituted", 2.0),
+    "unknown rule key": lambda d: d["rules"][0].__setitem__("formula_tex", ""),
+    "missing keys not named": lambda d: d["rules"][0]["inputs"].__setitem__("missing", ""),
 }
 
 
@@ -139,6 +166,35 @@ def test_a_mutated_document_fails(demo_docs, mutation):
         MUTATIONS[mutation](bad)
         with pytest.raises(jsonschema.ValidationError):
             validate_document(bad, name)
+
+
+@pytest.mark.parametrize("mutation", sorted(CHECK_MUTATIONS))
+def test_a_mutated_check_document_fails(demo_docs, mutation):
+    _, checked = demo_docs
+    assert checked["rules"] and checked["rules"][0]["formula"]
+    bad = copy.deepcopy(checked)
+    CHECK_MUTATIONS[mutation](bad)
+    with pytest.raises(jsonschema.ValidationError):
+        validate_document(bad, "check")
+
+
+LINING_MUTATIONS = {
+    "unknown row key": lambda d: d["linings"][0].__setitem__("colour", "grey"),
+    "row without its source": lambda d: d["linings"][0].pop("source"),
+    "practice value the library never sets": lambda d: d["linings"][0]["practice"].__setitem__("mu", "guess"),
+    "pressure range of one number": lambda d: d["linings"][0].__setitem__("working_pressure_MPa", [0.7]),
+    "missing caution": lambda d: d.pop("caution"),
+}
+
+
+@pytest.mark.parametrize("mutation", sorted(LINING_MUTATIONS))
+def test_a_mutated_linings_document_fails(mutation):
+    doc = json.loads(json.dumps(linings_to_dict(LININGS.values())))
+    validate_document(doc, "linings")
+    bad = copy.deepcopy(doc)
+    LINING_MUTATIONS[mutation](bad)
+    with pytest.raises(jsonschema.ValidationError):
+        validate_document(bad, "linings")
 
 
 def test_check_document_is_no_solve_document(demo_docs):

@@ -24,6 +24,7 @@ DOCUMENTS: dict[str, str] = {
     "compare": "dxfcheck.revision.compare/2",
     "batch": "dxfcheck.batch/2",
     "sensitivity": "dxfcheck.statics.sampling/1",
+    "linings": "dxfcheck.linings/1",
 }
 #: The names ``dxfcheck schema`` takes, in the order it lists them: the
 #: documents', then ``error`` (the refusal document of ``solve``, ``check``
