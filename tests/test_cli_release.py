@@ -11,13 +11,13 @@ lever's moment at its shoe pin 5940 × 520 N·mm.
 
 from __future__ import annotations
 
-import json
 import math
 import subprocess
 import sys
 
 import pytest
 from common import ROOT
+from schema_check import output_json
 
 DEMO = ROOT / "drawings" / "winch_two_shoe.dxf"
 STROKE_PER_LIFT = 3.3 * (840 + 740) / 320
@@ -42,7 +42,7 @@ def test_check_release_and_strength_keys():
     ]
     r = run("check", DEMO, "--json", *[a for s in sets for a in ("--set", s)])
     assert r.returncode in (0, 1), r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     rules = {x["rule"]: x for x in doc["rules"]}
     stroke = rules["release.stroke"]
     assert stroke["value"] == pytest.approx(0.8 * STROKE_PER_LIFT, rel=1e-9)

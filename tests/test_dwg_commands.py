@@ -33,6 +33,7 @@ import pytest
 pytest.importorskip("ezdwg")
 
 from read.dwg_writer import write_dwg  # tests/ is on the path (conftest.py)
+from schema_check import output_json
 
 ROOT = Path(__file__).resolve().parents[1]
 DEMOS = ("winch_two_shoe", "capstan_band", "conveyor_block")
@@ -75,10 +76,12 @@ def _spec_tables(text: str) -> str:
 
 
 def _answers(text: str, name: str) -> dict[str, Any]:
-    """The JSON document with the drawing's name (also in the spec's
-    sources, ``[spec."NAME"]``) left out."""
+    """The JSON document (validated against its schema) with the drawing's
+    name (also in the spec's sources, ``[spec."NAME"]``), its bytes' hash
+    and the time of the run left out."""
+    output_json(text)
     doc = json.loads(text.replace(name, "DRAWING"))
-    for key in ("drawing", "config"):
+    for key in ("drawing", "config", "drawing_sha256", "run_at"):
         doc.get("solution", doc).pop(key, None)
         doc.pop(key, None)
     return doc
@@ -107,7 +110,7 @@ def test_demo_written_as_dwg_answers_alike(
     assert code_a == code_b
     assert _answers(a, f"{name}.dxf") == _answers(b, f"{name}{suffix}.dwg")
     if command == "solve":  # the unit came from the DWG header, not an assumption
-        assert json.loads(b)["units"] == {"name": "mm", "mm_per_unit": 1.0, "source": "$INSUNITS"}
+        assert output_json(b)["units"] == {"name": "mm", "mm_per_unit": 1.0, "source": "$INSUNITS"}
 
 
 def test_annotate_writes_dxf_and_leaves_the_dwg(folder: Path) -> None:
@@ -139,7 +142,7 @@ def test_compare_dwg_against_dxf(folder: Path) -> None:
     """A DWG revision against a DXF one: the same brake, no change."""
     r = run("compare", "--json", "winch_two_shoe.dxf", "winch_two_shoe_w.dwg", cwd=folder)
     assert r.returncode == 0, r.stderr
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     text = json.dumps(doc)
     assert "winch_two_shoe_w.dwg" in text
     # the newer revision, a DWG, marked up: as DXF, and never under a .dwg name
@@ -166,17 +169,17 @@ def test_batch_finds_dwg_and_caches_them(folder: Path, tmp_path: Path) -> None:
     cache = tmp_path / "cache"
     first = run("batch", "--json", "--jobs", "1", "--cache-dir", str(cache), str(work), cwd=work)
     second = run("batch", "--json", "--jobs", "1", "--cache-dir", str(cache), str(work), cwd=work)
-    rows = {Path(r["drawing"]).name: r for r in json.loads(first.stdout)["results"]}
+    rows = {Path(r["drawing"]).name: r for r in output_json(first.stdout)["results"]}
     assert set(rows) == {"conveyor_block.dxf", "conveyor_block.dwg", "capstan_band_w.dwg"}
     assert rows["conveyor_block.dwg"]["status"] == rows["conveyor_block.dxf"]["status"]
-    again = {Path(r["drawing"]).name: r for r in json.loads(second.stdout)["results"]}
+    again = {Path(r["drawing"]).name: r for r in output_json(second.stdout)["results"]}
     assert all(r["cached"] for r in again.values())
     # the cache is keyed on the DWG's bytes: a changed DWG is checked again
     data = (work / "conveyor_block.dwg").read_bytes()
     write_dwg(ROOT / "drawings" / "capstan_band.dxf", work / "conveyor_block.dwg")
     assert (work / "conveyor_block.dwg").read_bytes() != data
     third = run("batch", "--json", "--jobs", "1", "--cache-dir", str(cache), str(work), cwd=work)
-    rows3 = {Path(r["drawing"]).name: r for r in json.loads(third.stdout)["results"]}
+    rows3 = {Path(r["drawing"]).name: r for r in output_json(third.stdout)["results"]}
     assert not rows3["conveyor_block.dwg"]["cached"] and rows3["conveyor_block.dxf"]["cached"]
 
 
@@ -198,6 +201,6 @@ def test_real_dwg_without_a_brake_is_the_usual_no_drum(no_brake: Path, command: 
 
 def test_real_dwg_without_a_brake_in_batch(no_brake: Path) -> None:
     r = run("batch", "--json", "--no-cache", "--jobs", "1", str(no_brake.parent), cwd=no_brake.parent)
-    rows = json.loads(r.stdout)["results"]
+    rows = output_json(r.stdout)["results"]
     assert [(Path(x["drawing"]).name, x["status"]) for x in rows] == [(no_brake.name, "error")]
     assert "M201" in json.dumps(rows)

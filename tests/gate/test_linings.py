@@ -11,7 +11,6 @@ limit (2 MPa·m/s, intermittent duty) are common practice, not from the table.
 
 from __future__ import annotations
 
-import json
 import subprocess
 import sys
 import tomllib
@@ -19,6 +18,7 @@ from pathlib import Path
 
 import pytest
 from common import block_brake
+from schema_check import output_json
 
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.gate.linings import LININGS, MU_SPREAD
@@ -119,7 +119,7 @@ def test_cli_lists_the_library():
         assert name in r.stdout
     assert "Table 8.10" in r.stdout and "common practice" in r.stdout and "qualified engineer" in r.stdout
     r = cli("linings", "--json")
-    doc = json.loads(r.stdout)
+    doc = output_json(r.stdout)
     assert doc["schema"] == "dxfcheck.linings/1"
     rows = {x["material"]: x for x in doc["linings"]}
     for material, (mu, t_max, t_op, _, p_max) in TABLE_8_10.items():

@@ -13,7 +13,6 @@ the project's own conventions (no published source).
 
 from __future__ import annotations
 
-import json
 import math
 import re
 import subprocess
@@ -24,6 +23,7 @@ from pathlib import Path
 import ezdxf
 import pytest
 from common import CATALOGUE, ROOT, TITLES, block_brake
+from schema_check import output_json
 
 from dxfcheck import cli
 from dxfcheck.output.figure import boxes_overlap, plan_figure, svg_element
@@ -127,7 +127,7 @@ def _run_check(drawing: Path, record: Path, *extra: str) -> tuple[int, dict, str
         cwd=ROOT,
     )
     assert proc.returncode in (0, 1), proc.stderr
-    return proc.returncode, json.loads(proc.stdout), proc.stderr
+    return proc.returncode, output_json(proc.stdout), proc.stderr
 
 
 def _failing(tmp_path: Path) -> Path:
@@ -649,7 +649,7 @@ def test_batch_writes_a_record_per_drawing_and_an_index(tmp_path):
     for _ in range(2):  # checked, then from the cache
         proc = subprocess.run(cmd, capture_output=True, text=True, timeout=300, cwd=ROOT)
         assert proc.returncode == 1, proc.stderr  # the winch fails its gate
-        results = json.loads(proc.stdout)["results"]
+        results = output_json(proc.stdout)["results"]
         index = _read(out / "index.html")
         links = [v for tag, key, v in index.attrs if tag == "a" and key == "href"]
         assert len(links) == len(DEMOS) == len(results)

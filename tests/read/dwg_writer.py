@@ -2,10 +2,10 @@
 (for the tests: the DWG side of a round trip through one library).
 
 Carries the kinds the demo drawings use (LINE, CIRCLE, ARC, LWPOLYLINE,
-TEXT, MTEXT, INSERT), the layers, the blocks with their base points, and
-``$INSUNITS``.  Optionally wraps model space in a block placed by a rotated,
-mirrored INSERT nested in a second one, to carry block references through
-the DWG too.
+TEXT, MTEXT, INSERT with its ATTRIBs, and the title block's ATTDEFs), the
+layers, the blocks with their base points, and ``$INSUNITS``.  Optionally
+wraps model space in a block placed by a rotated, mirrored INSERT nested in
+a second one, to carry block references through the DWG too.
 """
 
 from __future__ import annotations
@@ -43,14 +43,18 @@ def _copy(target: Any, e: Any) -> None:
         target.add_text(e.dxf.text, _xyz(e.dxf.insert), float(e.dxf.height), **attrs)
     elif kind == "MTEXT":
         target.add_mtext(e.text, _xyz(e.dxf.insert), float(e.dxf.char_height), **attrs)
+    elif kind == "ATTDEF":
+        target.add_attdef(e.dxf.tag, e.dxf.text, _xyz(e.dxf.insert), float(e.dxf.height), **attrs)
     elif kind == "INSERT":
-        target.add_blockref(
+        ref = target.add_blockref(
             e.dxf.name,
             _xyz(e.dxf.insert),
             scale=(float(e.dxf.xscale), float(e.dxf.yscale), float(e.dxf.zscale)),
             rotation=float(e.dxf.rotation),
             **attrs,
         )
+        for a in e.attribs:  # a title block's values
+            target.add_attrib(ref, a.dxf.tag, a.dxf.text, _xyz(a.dxf.insert), float(a.dxf.height), layer=a.dxf.layer)
     else:
         raise ValueError(f"the test writer does not carry {kind}")
 

@@ -10,13 +10,13 @@ drawn force, spread over that whole band.
 
 from __future__ import annotations
 
-import json
 import math
 from dataclasses import replace
 
 import numpy as np
 import pytest
 from common import capstan_band, double_block_spring_pair
+from schema_check import output_json
 
 import dxfcheck
 from dxfcheck import cli
@@ -88,5 +88,5 @@ def test_cli_spring_tolerance(tmp_path, capsys):
     capstan_band().save(path)
     rc = cli.main(["solve", str(path), "--mu", "0.3..0.4", "--samples", "500", "--spring-tolerance", "0.1", "--json"])
     assert rc == 0
-    doc = json.loads(capsys.readouterr().out)
+    doc = output_json(capsys.readouterr().out)
     assert doc["spring_tolerance"] == 0.1
