@@ -21,11 +21,15 @@ full reader (and that to ezdxf's recover mode).
 from __future__ import annotations
 
 import functools
+import io
+import re
 from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import Any
 
-__all__ = ["MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported", "load_fast"]
+from dxfcheck.core import deadline
+
+__all__ = ["CHUNK_BYTES", "MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported", "load_fast"]
 
 #: Circles kept per layer that has no role, in each container (model space,
 #: each block), counted on the entity's own layer: enough to recognise a pin
@@ -565,10 +569,249 @@ class _Loader:
 
 #: The first bytes of a binary DXF file.
 _BINARY_SENTINEL = b"AutoCAD Binary DXF"
+#: The byte-order mark some programs put before a UTF-8 file.
+_BOM = b"\xef\xbb\xbf"
+#: Bytes read from the file at a time [bytes]: the scan's memory is about
+#: twice this, whatever the size of the file.
+CHUNK_BYTES = 1 << 22
+#: Most bytes one structure (a polyline with its vertices) may span across
+#: chunks before the reader gives up and the full reader decides [bytes].
+MAX_CARRY_BYTES = 1 << 26
+#: A group-code-0 line: ``\n``, the code, the line end (the structure name
+#: follows on the next line, and never starts with a digit).
+_ZERO = re.compile(rb"\n[ \t]*0[ \t]*\r?\n(?=[ \t]*[A-Za-z_])")
+#: A group-code-0 tag the scan looks at: a structure marker (group 1), or an
+#: entity the skeleton may use (group 2) with the tags before its layer tag
+#: (group 3) and its layer (group 4) when it has one.  A group code 0 or 8
+#: never sits among the tags before the layer tag, so the match never runs
+#: into the next structure.
+_MARKER = re.compile(
+    rb"\n[ \t]*0[ \t]*\r?\n[ \t]*"
+    rb"(?:(SECTION|ENDSEC|BLOCK|ENDBLK|EOF)[ \t]*\r?(?=\n)"
+    rb"|(CIRCLE|ARC|LINE|LWPOLYLINE|POLYLINE|TEXT|MTEXT|INSERT)[ \t]*\r?(?=\n)"
+    rb"(?:\n((?:[ \t]*(?:[1-79]|[0-9]{2,4})[ \t]*\r?\n[^\n]*\n)*?)[ \t]*8[ \t]*\r?\n([^\r\n]*))?)"
+)
+#: A section's name tag right after its SECTION marker.
+_SECTION_NAME = re.compile(rb"\n[ \t]*2[ \t]*\r?\n[ \t]*([^\r\n]*?)[ \t]*\r?\n")
+#: The SEQEND that closes a polyline's vertices.
+_SEQEND = re.compile(rb"\n[ \t]*0[ \t]*\r?\n[ \t]*SEQEND[ \t]*\r?(?=\n)")
+#: A header variable with its first value: name (group 1), value (group 2).
+_HEADER_VAR = re.compile(
+    rb"\n[ \t]*9[ \t]*\r?\n[ \t]*(\$ACADVER|\$DWGCODEPAGE)[ \t]*\r?\n[ \t]*[0-9]+[ \t]*\r?\n([^\r\n]*)"
+)
+#: DXF code pages (``$DWGCODEPAGE``, ``ANSI_1252``...) by their last digits,
+#: and Python's codec for each (as ezdxf's ``toencoding`` maps them).
+_CODEPAGES = {
+    "874": "cp874",
+    "932": "cp932",
+    "936": "gbk",
+    "949": "cp949",
+    "950": "cp950",
+    "1250": "cp1250",
+    "1251": "cp1251",
+    "1252": "cp1252",
+    "1253": "cp1253",
+    "1254": "cp1254",
+    "1255": "cp1255",
+    "1256": "cp1256",
+    "1257": "cp1257",
+    "1258": "cp1258",
+}
+#: The first DXF version written in UTF-8 (R2007).
+_UTF8_FROM = "AC1021"
+_HEADER, _BLOCKS, _ENTITIES = b"HEADER", b"BLOCKS", b"ENTITIES"
+
+
+def _encoding(head: bytes) -> str:
+    """The text encoding of an ASCII DXF file from its HEADER section (the
+    start of ``head``): UTF-8 from R2007 on, else ``$DWGCODEPAGE``, else
+    cp1252."""
+    m = re.match(rb"\n[ \t]*0[ \t]*\r?\n[ \t]*SECTION[ \t]*\r?" + _SECTION_NAME.pattern, head)
+    if m is None or m.group(1) != _HEADER:
+        return "cp1252"
+    end = _ZERO.search(head, m.end())
+    found = {
+        k.decode(): v.decode("ascii", "replace").strip()
+        for k, v in _HEADER_VAR.findall(head, 0, end.start() if end else len(head))
+    }
+    if found.get("$ACADVER", "AC1009") >= _UTF8_FROM:
+        return "utf-8"
+    page = found.get("$DWGCODEPAGE", "")
+    return next((enc for digits, enc in _CODEPAGES.items() if page.endswith(digits)), "cp1252")
+
+
+class _Scan:
+    """The byte scan's state: the section and container it is in, the
+    layers met, and the structures kept (as the bytes of whole lines).
+
+    It keeps a structure whenever the line walk (:func:`_groups` and
+    :class:`_Loader`) might use it, and drops one only when the walk would
+    drop it without a trace: an entity kind the skeleton never holds, an
+    entity of paper space, a circle on a layer with no role past its quota,
+    another entity on such a layer whose kind is already listed for it.
+    The walk then reads only what was kept, with the same result as on the
+    whole file."""
+
+    def __init__(self, roles: dict[str, Any], encoding: str) -> None:
+        self.roles = roles
+        self.encoding = encoding
+        self.section = b""
+        self.container = _MODEL_SPACE
+        self.loose: dict[tuple[int, bytes], int] = {}
+        self.listed: set[tuple[int, bytes, bytes]] = set()
+        self.layers: dict[bytes, bool] = {}  # raw layer name -> has a role (or is layer 0, for blocks)
+        self.kept: list[bytes] = []
+        self.done = False
+
+    def role_layer(self, raw: bytes) -> bool:
+        """The layer has a role (as :meth:`_GroupWalk.layer_tag` decides)."""
+        known = self.layers.get(raw)
+        if known is None:
+            known = self.layers[raw] = raw.decode(self.encoding, "surrogateescape").strip().upper() in self.roles
+        return known
+
+    def chunk(self, buf: bytes, cut: int) -> int:
+        """Scan ``buf`` (starting with a line end) up to ``cut`` (the start of a
+        group-code-0 line); returns where the next chunk starts (``cut``, or earlier when a
+        kept structure runs past it)."""
+        for m in _MARKER.finditer(buf, 0, cut):
+            marker, kind = m.group(1), m.group(2)
+            if marker is not None:
+                end = self.marker(buf, m, marker)
+            elif self.section in (_BLOCKS, _ENTITIES):
+                end = self.entity(buf, m, kind)
+            else:
+                continue
+            if end is None:
+                return m.start()  # the structure runs on into the next chunk
+            if self.done:
+                return len(buf)
+        return cut
+
+    def keep(self, buf: bytes, start: int, end: int) -> None:
+        self.kept.append(buf[start + 1 : end + 1])  # whole lines: from the code-0 line to the next one
+
+    @staticmethod
+    def _end(buf: bytes, m: re.Match[bytes], polyline: bool) -> int | None:
+        """Where the structure of ``m`` ends: at the next group code 0 (a
+        POLYLINE: at the one after its SEQEND); None past the buffer.  A
+        structure is kept only once its end is found, and the scan's state
+        changes only then, so that a structure run on into the next chunk is
+        scanned again from its start."""
+        at = m.end()
+        if polyline:
+            seqend = _SEQEND.search(buf, at)
+            if seqend is None:
+                return None
+            at = seqend.end()
+        nxt = _ZERO.search(buf, at)
+        return None if nxt is None else nxt.start()
+
+    def marker(self, buf: bytes, m: re.Match[bytes], marker: bytes) -> int | None:
+        if marker == b"EOF":
+            self.kept.append(b"0\nEOF\n")
+            self.done = True
+            return m.end()
+        end = self._end(buf, m, False)
+        if end is None:
+            return None
+        if marker == b"SECTION":
+            name = _SECTION_NAME.match(buf, m.end())
+            self.section = name.group(1) if name is not None else b""
+        elif marker == b"ENDSEC":
+            self.section = b""
+        elif marker == b"BLOCK":
+            self.container += 1
+        self.keep(buf, m.start(), end)
+        return end
+
+    def entity(self, buf: bytes, m: re.Match[bytes], kind: bytes) -> int | None:
+        """An entity of a kind the skeleton may use: kept, or dropped as the
+        walk would drop it."""
+        raw = m.group(4)
+        polyline = kind == b"POLYLINE"
+        in_blocks = self.section == _BLOCKS
+        if raw is None or kind == b"INSERT" or self.role_layer(raw) or (in_blocks and raw.strip() == b"0"):
+            if raw is not None and not in_blocks and not polyline and kind != b"INSERT" and self._paper(m.group(3)):
+                return m.end()  # paper space, dropped at its layer tag
+            return self._kept(buf, m, polyline)
+        if not in_blocks and not polyline and self._paper(m.group(3)):
+            return m.end()
+        where = self.container if in_blocks else _MODEL_SPACE
+        if kind == b"CIRCLE":
+            n = self.loose.get((where, raw), 0)
+            if n >= MAX_LOOSE_CIRCLES_PER_LAYER:
+                return m.end()
+            end = self._kept(buf, m, False)
+            if end is not None:
+                self.loose[(where, raw)] = n + 1
+            return end
+        key = (where, raw, kind)
+        if key in self.listed:
+            return m.end()
+        end = self._kept(buf, m, polyline)
+        if end is not None and not (polyline and not in_blocks and self._paper(buf[m.start() : end])):
+            self.listed.add(key)  # as the loader lists it (a polyline of paper space is not listed)
+        return end
+
+    def _kept(self, buf: bytes, m: re.Match[bytes], polyline: bool) -> int | None:
+        end = self._end(buf, m, polyline)
+        if end is not None:
+            self.keep(buf, m.start(), end)
+        return end
+
+    @staticmethod
+    def _paper(tags: bytes | None) -> bool:
+        """A paper-space flag (group code 67 = 1) among these tags."""
+        if not tags or b"67" not in tags:
+            return False
+        lines = tags.split(b"\n")
+        return any(c.strip() == b"67" and v.strip() == b"1" for c, v in zip(lines[::2], lines[1::2], strict=False))
+
+
+def _scan(path: Path, roles: dict[str, Any]) -> tuple[bytes, str]:
+    """The structures of an ASCII DXF file that the line walk may use (whole
+    lines, in file order) and the file's encoding, read in chunks of
+    :data:`CHUNK_BYTES` without splitting the rest into lines."""
+    with open(path, "rb") as fh:
+        head = fh.read(CHUNK_BYTES)
+        if head.startswith(_BINARY_SENTINEL):
+            raise FastReadUnsupported("binary DXF")
+        if head.startswith(_BOM) or (b"\r" in head and b"\n" not in head):
+            raise FastReadUnsupported("a byte-order mark or old Mac line ends")
+        scan = _Scan(roles, _encoding(b"\n" + head))
+        buf = b"\n" + head
+        at_end = len(head) < CHUNK_BYTES
+        while True:
+            deadline.check("reading the drawing")
+            cut = _last_zero(buf) if not at_end else len(buf)
+            rest = scan.chunk(buf if not at_end else buf + b"\n  0\nEOF\n", cut)
+            if scan.done or at_end:
+                break
+            more = fh.read(CHUNK_BYTES)
+            at_end = len(more) < CHUNK_BYTES
+            if len(buf) - rest > MAX_CARRY_BYTES:
+                raise FastReadUnsupported("a structure longer than the reader follows")
+            buf = buf[rest:] + more  # from the line end before a group-code-0 line
+    return b"".join(scan.kept), scan.encoding
+
+
+def _last_zero(buf: bytes) -> int:
+    """Where the last group-code-0 line of ``buf`` starts (0 if none: the
+    whole buffer runs on into the next chunk)."""
+    window = max(0, len(buf) - (1 << 16))
+    while True:
+        starts = [m.start() for m in _ZERO.finditer(buf, window)]
+        if starts or window == 0:
+            return starts[-1] if starts else 0
+        window = max(0, window - (1 << 20))
 
 
 def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
     """Read the header, blocks and entities that matter for the skeleton.
+
+    A byte scan (:class:`_Scan`) keeps the structures the skeleton may use;
+    the line walk builds them.
 
     Parameters
     ----------
@@ -583,14 +826,9 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
     FastReadUnsupported
         For binary DXF or a structure this reader does not follow.
     """
-    from ezdxf.filemanagement import dxf_file_info
-
-    with open(path, "rb") as fh:
-        if fh.read(len(_BINARY_SENTINEL) + 4).startswith(_BINARY_SENTINEL):
-            raise FastReadUnsupported("binary DXF")
-    info = dxf_file_info(str(path))
+    kept, encoding = _scan(path, roles)
     loader = _Loader(roles)
-    with open(path, encoding=info.encoding or "cp1252", errors="surrogateescape") as fh:
-        for name, section, body in _groups(iter(fh), roles):
-            loader.take(name, section, body)
+    text = io.TextIOWrapper(io.BytesIO(kept), encoding=encoding, errors="surrogateescape")
+    for name, section, body in _groups(iter(text), roles):
+        loader.take(name, section, body)
     return loader.doc

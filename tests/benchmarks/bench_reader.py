@@ -55,7 +55,10 @@ def _run(body: str, *args: str) -> tuple[float, float, float]:
 def make_big(path: Path, clutter: int) -> None:
     from build import winch_two_shoe
 
-    doc = winch_two_shoe().to_doc()
+    from dxfcheck.output.sketch import BlockWrap
+
+    # the skeleton inside a block placed once, as vendor drawings hold it
+    doc = winch_two_shoe().to_doc(wraps=(BlockWrap((150.0, -40.0), 15.0),))
     msp = doc.modelspace()
     for name in ("OUTLINE", "HATCH-AREA", "DIMS", "TITLE"):
         doc.layers.add(name)
