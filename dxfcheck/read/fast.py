@@ -46,6 +46,12 @@ _POLY_FACE = 64
 _KEEP = {"CIRCLE", "ARC", "LINE", "LWPOLYLINE", "POLYLINE", "TEXT", "MTEXT", "INSERT"}
 
 
+#: A text with no formatting code: no MTEXT command or group (``\\``,
+#: ``{``, ``}``), no special character (``%%``), no caret notation (``^``),
+#: no control character.  It is its own plain text.
+_PLAIN = re.compile(r"[^\\{}%^\x00-\x1f\x7f]*")
+
+
 class FastReadUnsupported(Exception):
     """The file is not one the fast reader handles; use the full reader."""
 
@@ -84,9 +90,13 @@ class FastEntity:
 
     # TEXT / MTEXT
     def plain_text(self) -> str:
+        """The text without its formatting codes: ezdxf's ``plain_text`` or
+        ``plain_mtext``, loaded only for a text that has codes."""
+        raw = str(self.dxf.get("text", ""))
+        if _PLAIN.fullmatch(raw):
+            return raw
         from ezdxf.tools.text import plain_mtext, plain_text
 
-        raw = str(self.dxf.get("text", ""))
         if self._type == "MTEXT":
             return str(plain_mtext(raw, split=False))
         return str(plain_text(raw))
@@ -456,9 +466,35 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
         if code == _LAYER and w.name in _KEEP and w.name not in ("INSERT", "POLYLINE") and not w.layer_tag(value):
             continue
         if w.wanted():
-            w.body.append((int(code), value))
+            w.body.append((_checked(int(code), value), value))
     if w.pending():
         yield w.group()
+
+
+#: Group code ranges of integer values and of floating-point values (DXF
+#: Reference, "Group code value types"; from memory).
+_INTEGER_CODES = ((60, 99), (170, 179), (270, 299), (370, 389), (400, 409), (420, 429), (440, 459), (1060, 1071))
+_FLOAT_CODES = ((10, 59), (110, 149), (210, 239), (460, 469), (1010, 1059))
+
+
+@functools.cache
+def _value_type(code: int) -> type | None:
+    """int or float for a group code of numbers, None for the others."""
+    if any(lo <= code <= hi for lo, hi in _INTEGER_CODES):
+        return int
+    if any(lo <= code <= hi for lo, hi in _FLOAT_CODES):
+        return float
+    return None
+
+
+def _checked(code: int, value: str) -> int:
+    """The group code, once its value is checked to be a number where the
+    code wants one: else ValueError, and the full reader decides (ezdxf
+    repairs such a value and says so, a finding D114)."""
+    kind = _value_type(code)
+    if kind is not None:
+        kind(value)
+    return code
 
 
 def _xyz(body: list[tuple[int, str]]) -> tuple[float, float, float]:
