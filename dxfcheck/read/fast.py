@@ -29,7 +29,14 @@ from typing import Any
 
 from dxfcheck.core import deadline
 
-__all__ = ["CHUNK_BYTES", "MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported", "load_fast"]
+__all__ = [
+    "CHUNK_BYTES",
+    "MAX_LOOSE_CIRCLES_PER_LAYER",
+    "NUMPY_SCAN_MIN_BYTES",
+    "FastDocument",
+    "FastReadUnsupported",
+    "load_fast",
+]
 
 #: Circles kept per layer that has no role, in each container (model space,
 #: each block), counted on the entity's own layer: enough to recognise a pin
@@ -609,7 +616,7 @@ _BINARY_SENTINEL = b"AutoCAD Binary DXF"
 _BOM = b"\xef\xbb\xbf"
 #: Bytes read from the file at a time [bytes]: the scan's memory is about
 #: twice this, whatever the size of the file.
-CHUNK_BYTES = 1 << 22
+CHUNK_BYTES = 1 << 20
 #: Most bytes one structure (a polyline with its vertices) may span across
 #: chunks before the reader gives up and the full reader decides [bytes].
 MAX_CARRY_BYTES = 1 << 26
@@ -818,10 +825,13 @@ def _scan(path: Path, roles: dict[str, Any]) -> tuple[bytes, str]:
         scan = _Scan(roles, _encoding(b"\n" + head))
         buf = b"\n" + head
         at_end = len(head) < CHUNK_BYTES
+        lines = None if at_end and len(head) < NUMPY_SCAN_MIN_BYTES else _LineScan(scan)
         while True:
             deadline.check("reading the drawing")
-            cut = _last_zero(buf) if not at_end else len(buf)
-            rest = scan.chunk(buf if not at_end else buf + b"\n  0\nEOF\n", cut)
+            data = buf if not at_end else buf + (_END[1:] if buf.endswith(b"\n") else _END)
+            rest = None if lines is None else lines.chunk(data, at_end)
+            if rest is None:  # a small file, or a chunk in a format the array scan does not follow
+                rest = scan.chunk(data, _last_zero(buf) if not at_end else len(buf))
             if scan.done or at_end:
                 break
             more = fh.read(CHUNK_BYTES)
@@ -830,6 +840,286 @@ def _scan(path: Path, roles: dict[str, Any]) -> tuple[bytes, str]:
                 raise FastReadUnsupported("a structure longer than the reader follows")
             buf = buf[rest:] + more  # from the line end before a group-code-0 line
     return b"".join(scan.kept), scan.encoding
+
+
+#: Files this large [bytes] and larger are scanned as arrays of lines
+#: (:class:`_LineScan`, numpy); smaller ones by the regular expressions alone.
+NUMPY_SCAN_MIN_BYTES = 1 << 20
+#: What ends the last chunk: a line end and an EOF marker, so that the last
+#: structure ends (the file's own EOF marker comes first).
+_END = b"\n  0\nEOF\n"
+#: The longest group code line (spaces and digits) and structure name the
+#: array scan reads [characters]; longer ones go to the regular expressions.
+_CODE_WIDTH = 6
+_NAME_WIDTH = 12
+#: The longest layer name the array scan compares [bytes].
+_LAYER_WIDTH = 255
+#: Structure names by number in the array scan (0: any other).
+_NAMES = (b"SECTION", b"ENDSEC", b"BLOCK", b"ENDBLK", b"EOF", b"SEQEND", *sorted(k.encode() for k in _KEEP))
+_KIND = {name: k + 1 for k, name in enumerate(_NAMES)}
+
+
+class _LineScan:
+    """The byte scan of a chunk as arrays (numpy): the line ends, the group
+    codes of the even lines, the structures at group code 0 with their
+    names, layers and paper-space flags, and the decisions of
+    :class:`_Scan` taken for all of them at once.  A chunk in a format it
+    does not read (a group code that is not a right-aligned number of up to
+    six characters, a structure name with spaces) goes to the regular
+    expressions of :class:`_Scan` instead."""
+
+    def __init__(self, scan: _Scan) -> None:
+        import numpy as np  # a dependency of the statics; loaded here for big files only
+
+        self.np = np
+        self.scan = scan
+
+    def chunk(self, buf: bytes, at_end: bool) -> int | None:
+        """Scan ``buf`` (a line end, then whole structures, but for its end);
+        returns where the next chunk starts, or None for the regular
+        expressions."""
+        np = self.np
+        a = np.frombuffer(buf, np.uint8)
+        nl = np.flatnonzero(a == 10)
+        if len(nl) < 3:
+            return None
+        ends = nl[1:] - (a[nl[1:] - 1] == 13)  # each line's end, without a carriage return
+        starts = nl[:-1] + 1
+        pairs = len(starts) // 2
+        code = self._codes(a, starts[0 : 2 * pairs : 2], ends[0 : 2 * pairs : 2])
+        if code is None:
+            return None
+        vs, ve = starts[1 : 2 * pairs : 2], ends[1 : 2 * pairs : 2]
+        zero = np.flatnonzero(code == 0)
+        kinds = self._kinds(a, vs[zero], ve[zero])
+        if kinds is None or len(zero) < 2:
+            return None
+        last = len(zero) if at_end else len(zero) - 1  # the last structure may run on
+        seqends = np.flatnonzero(kinds == _KIND[b"SEQEND"])
+        closed = seqends[seqends < last]
+        open_poly = np.flatnonzero(kinds[:last] == _KIND[b"POLYLINE"])
+        if len(open_poly) and (not len(closed) or open_poly[-1] > closed[-1]):
+            last = int(open_poly[-1])  # a polyline whose vertices run on: the next chunk reads it
+        bounds = np.append(zero, pairs)
+        state = (self.scan.section, self.scan.container, self.scan.done)
+        keep = self._decide(a, buf, code, vs, ve, zero, bounds, kinds, last)
+        if keep is None:
+            self.scan.section, self.scan.container, self.scan.done = state
+            return None
+        self._emit(buf, nl, bounds, kinds, seqends, keep)
+        return int(nl[2 * bounds[last]]) if last < len(zero) else len(buf)
+
+    def _codes(self, a: Any, s: Any, e: Any) -> Any:
+        """The group codes the scan asks about (0, 2, 8, 67; -1 for any
+        other) of the code lines [s, e), or None if one is not a number
+        (digits after optional spaces, no leading zero) of up to
+        :data:`_CODE_WIDTH` characters."""
+        np = self.np
+        n = e - s
+        if not len(n) or bool(((n < 1) | (n > _CODE_WIDTH)).any()):
+            return None
+        chars = [a[e - 1 - k] for k in range(int(n.max()))]  # from the right; masked where k >= n
+        run = (chars[0] >= 48) & (chars[0] <= 57)  # the characters so far are all digits
+        ok = run.copy()
+        for k in range(1, len(chars)):
+            inside = n > k
+            digit = (chars[k] >= 48) & (chars[k] <= 57)
+            space = (chars[k] == 32) | (chars[k] == 9)
+            ok &= ~inside | space | (digit & run)
+            ok &= ~(inside & digit & run & (chars[k] == 48) & ((n == k + 1) | ~self._digit(chars, k + 1, n)))
+            run &= digit & inside
+        if not bool(ok.all()):
+            return None
+        one = (n == 1) | ~self._digit(chars, 1, n)  # a code of one digit
+        code = np.full(len(s), -1, np.int16)
+        for value in (0, 2, 8):
+            code[one & (chars[0] == 48 + value)] = value
+        if len(chars) > 1:
+            code[(chars[0] == 55) & (chars[1] == 54) & ((n == 2) | ~self._digit(chars, 2, n))] = 67
+        return code
+
+    @staticmethod
+    def _digit(chars: list[Any], k: int, n: Any) -> Any:
+        """Whether the k-th character from the right is a digit (False past
+        the line's start)."""
+        if k >= len(chars):
+            return n < 0  # all False
+        return (n > k) & (chars[k] >= 48) & (chars[k] <= 57)
+
+    def _fixed(self, a: Any, s: Any, e: Any, width: int) -> Any:
+        """The lines [s, e) as fixed-width byte strings (numpy ``S`` type)."""
+        np = self.np
+        cols = np.arange(width)
+        idx = np.minimum(s[:, None] + cols, len(a) - 1)
+        block = np.where(cols < (e - s)[:, None], a[idx], 0).astype(np.uint8)
+        return np.ascontiguousarray(block).view(f"S{width}").ravel()
+
+    def _kinds(self, a: Any, s: Any, e: Any) -> Any:
+        """Each structure's name as its number in :data:`_NAMES` (0 for any
+        other); None if a name starts or ends with a space."""
+        np = self.np
+        n = e - s
+        if bool((n > 0).any()):
+            first, lastc = a[np.minimum(s, len(a) - 1)], a[np.maximum(e - 1, 0)]
+            if bool((((first == 32) | (first == 9) | (lastc == 32) | (lastc == 9)) & (n > 0)).any()):
+                return None
+        names = self._fixed(a, s, e, _NAME_WIDTH)
+        kinds = np.zeros(len(s), np.int8)
+        for name, k in _KIND.items():
+            kinds[names == name] = k
+        kinds[n > _NAME_WIDTH] = 0
+        return kinds
+
+    def _decide(
+        self, a: Any, buf: bytes, code: Any, vs: Any, ve: Any, zero: Any, bounds: Any, kinds: Any, last: int
+    ) -> Any:
+        """Which of the first ``last`` structures are kept (a boolean array),
+        the scan's state carried on as :meth:`_Scan.marker` and
+        :meth:`_Scan.entity` would; None when the regular expressions must
+        read the chunk."""
+        np, scan = self.np, self.scan
+        n = last
+        keep = np.zeros(n, bool)
+        sections, containers = self._markers(buf, code, vs, ve, zero, kinds, n, keep)
+        kind = kinds[:n]
+        entity = (kind > _KIND[b"SEQEND"]) & ((sections == 1) | (sections == 2))  # 1 BLOCKS, 2 ENTITIES
+        eights = np.flatnonzero(code == 8)
+        j = np.searchsorted(eights, zero[:n])
+        j_ok = np.minimum(j, max(len(eights) - 1, 0))
+        has8 = (j < len(eights)) & (eights[j_ok] < bounds[1 : n + 1]) if len(eights) else np.zeros(n, bool)
+        at8 = np.where(has8, eights[j_ok] if len(eights) else 0, 0)
+        paper_at = self._paper(a, code, vs, ve)
+        q = np.searchsorted(paper_at, zero[:n])
+        q_ok = np.minimum(q, max(len(paper_at) - 1, 0))
+        flag = paper_at[q_ok] if len(paper_at) else np.zeros(n, np.int64)
+        found = q < len(paper_at)
+        paper_any = found & (flag < bounds[1 : n + 1]) & (sections == 2)
+        paper_before8 = found & (flag < at8) & has8 & (sections == 2)
+        insert, poly, circle = kind == _KIND[b"INSERT"], kind == _KIND[b"POLYLINE"], kind == _KIND[b"CIRCLE"]
+        drop = entity & ((poly & paper_any) | (~poly & ~insert & paper_before8))
+        always = entity & ~drop & (insert | ~has8)
+        keep |= always
+        rest = np.flatnonzero(entity & ~drop & ~always)
+        if len(rest) == 0:
+            return keep
+        lp = at8[rest]
+        width = int((ve[lp] - vs[lp]).max(initial=0))
+        if width > _LAYER_WIDTH:
+            return None
+        layers = self._fixed(a, vs[lp], ve[lp], max(width, 1))
+        _, inv = np.unique(layers, return_inverse=True)
+        raw = [bytes(buf[int(vs[p]) : int(ve[p])]) for p in lp[np.unique(inv, return_index=True)[1]]]
+        in_blocks = sections[rest] == 1
+        role = np.array([scan.role_layer(r) for r in raw], bool)[inv]
+        zero_layer = np.array([r.strip() == b"0" for r in raw], bool)[inv]
+        mine = role | (in_blocks & zero_layer)
+        keep[rest[mine]] = True
+        others = ~mine
+        where = np.where(in_blocks, containers[rest], _MODEL_SPACE)
+        self._loose(keep, rest[others & circle[rest]], where[others & circle[rest]], inv[others & circle[rest]], raw)
+        listed = others & ~circle[rest]
+        self._listed(keep, rest[listed], where[listed], inv[listed], kind[rest[listed]], raw)
+        return keep
+
+    def _markers(
+        self, buf: bytes, code: Any, vs: Any, ve: Any, zero: Any, kinds: Any, n: int, keep: Any
+    ) -> tuple[Any, Any]:
+        """Sections (0 other, 1 BLOCKS, 2 ENTITIES, 3 HEADER) and containers
+        of the first ``n`` structures; the markers are kept and the scan's
+        section, container and end carried on."""
+        np, scan = self.np, self.scan
+        sections = np.empty(n, np.int8)
+        containers = np.empty(n, np.int64)
+        names = {b"BLOCKS": 1, b"ENTITIES": 2, b"HEADER": 3}
+        marks = np.flatnonzero((kinds[:n] >= 1) & (kinds[:n] <= _KIND[b"EOF"]))
+        sec = {b"BLOCKS": 1, b"ENTITIES": 2, b"HEADER": 3}.get(scan.section, 0)
+        at = 0
+        for i in (int(x) for x in marks):
+            sections[at:i], containers[at:i] = sec, scan.container
+            kind = _NAMES[int(kinds[i]) - 1]
+            keep[i] = True
+            if kind == b"EOF":
+                scan.done = True
+                keep[i + 1 :] = False
+                sections[i:], containers[i:] = 0, scan.container
+                return sections, containers
+            if kind == b"SECTION":
+                p = int(zero[i]) + 1
+                name = bytes(buf[int(vs[p]) : int(ve[p])]).strip() if p < len(code) and code[p] == 2 else b""
+                scan.section, sec = name, names.get(name, 0)
+            elif kind == b"ENDSEC":
+                scan.section, sec = b"", 0
+            elif kind == b"BLOCK":
+                scan.container += 1
+            sections[i], containers[i] = sec, scan.container
+            at = i + 1
+        sections[at:n], containers[at:n] = sec, scan.container
+        return sections, containers
+
+    def _paper(self, a: Any, code: Any, vs: Any, ve: Any) -> Any:
+        """The pairs that set paper space: group code 67, value 1."""
+        np = self.np
+        p = np.flatnonzero(code == 67)
+        if not len(p):
+            return p
+        s, e = vs[p], ve[p]
+        one = (e > s) & (a[np.maximum(e - 1, 0)] == 49)
+        for k in range(1, _CODE_WIDTH + 1):
+            inside = e - 1 - k >= s
+            c = a[np.where(inside, e - 1 - k, 0)]
+            one &= ~inside | (c == 32) | (c == 9)
+        one &= (e - s) <= _CODE_WIDTH + 1
+        return p[one]
+
+    def _loose(self, keep: Any, idx: Any, where: Any, layer: Any, raw: list[bytes]) -> None:
+        """The circles on layers with no role: the first of each container
+        and layer, within the quota left."""
+        np, scan = self.np, self.scan
+        if not len(idx):
+            return
+        order = np.lexsort((idx, layer, where))
+        w, lay = where[order], layer[order]
+        new = np.ones(len(order), bool)
+        new[1:] = (w[1:] != w[:-1]) | (lay[1:] != lay[:-1])
+        group = np.cumsum(new) - 1
+        first = np.flatnonzero(new)
+        rank = np.arange(len(order)) - first[group]
+        sizes = np.bincount(group)
+        room = np.empty(len(first), np.int64)
+        for g, f in enumerate(first):
+            key = (int(w[f]), raw[int(lay[f])])
+            count = scan.loose.get(key, 0)
+            room[g] = taken = min(max(MAX_LOOSE_CIRCLES_PER_LAYER - count, 0), int(sizes[g]))
+            scan.loose[key] = count + taken
+        keep[idx[order[rank < room[group]]]] = True
+
+    def _listed(self, keep: Any, idx: Any, where: Any, layer: Any, kind: Any, raw: list[bytes]) -> None:
+        """Other entities on layers with no role: the first of each
+        container, layer and kind not listed yet."""
+        np, scan = self.np, self.scan
+        if not len(idx):
+            return
+        key = ((where.astype(np.int64) + 1) * (int(layer.max()) + 1) + layer) * (len(_NAMES) + 1) + kind
+        _, first = np.unique(key, return_index=True)
+        for f in sorted(int(x) for x in first):
+            k = (int(where[f]), raw[int(layer[f])], _NAMES[int(kind[f]) - 1])
+            if k not in scan.listed:
+                scan.listed.add(k)
+                keep[idx[f]] = True
+
+    def _emit(self, buf: bytes, nl: Any, bounds: Any, kinds: Any, seqends: Any, keep: Any) -> None:
+        """Keep the chosen structures' lines, a polyline with its vertices
+        up to the structure after its SEQEND."""
+        poly = _KIND[b"POLYLINE"]
+        for i in (int(x) for x in self.np.flatnonzero(keep)):
+            end = i + 1
+            if kinds[i] == poly:
+                k = int(self.np.searchsorted(seqends, i))
+                end = int(seqends[k]) + 1 if k < len(seqends) else len(bounds) - 1
+            if _NAMES[int(kinds[i]) - 1] == b"EOF":
+                self.scan.kept.append(b"0\nEOF\n")
+                continue
+            self.scan.kept.append(buf[int(nl[2 * bounds[i]]) + 1 : int(nl[2 * bounds[end]]) + 1])
 
 
 def _last_zero(buf: bytes) -> int:
