@@ -1,18 +1,33 @@
-"""A reader that reads only what the skeleton needs, for big drawings.
+"""A reader that reads only what the skeleton needs, for every ASCII drawing.
 
 Vendor assembly drawings hold hundreds of thousands of entities of clutter
 (hatches, dimensions, title blocks) around a few dozen skeleton entities.
 Building every one of them as an ezdxf object costs most of the time and
-memory of reading such a file.  This reader streams the raw tags of an ASCII
-DXF file (ezdxf's low-level tag loader), groups them at group code 0, keeps
-the header variables it needs, and builds light stand-ins only for the
-entities on the mapped layers, for INSERTs and for what the blocks they place
-hold; the rest is skipped as tags, but for the circles on other layers (up to
-a number per layer) and one token per other layer and entity kind, which
-name a layer near miss (:mod:`dxfcheck.mechanism.layers`).  The stand-ins offer the small part of the
-ezdxf entity interface that :mod:`dxfcheck.read.drawing` uses, so both readers go
-through the same geometry code and give the same results (a test compares
-them on every test drawing).
+memory of reading such a file, and loading ezdxf at all costs more than
+solving a small drawing.  This reader works in two steps:
+
+1. A byte scan (:func:`_scan`) reads the file in chunks of
+   :data:`CHUNK_BYTES` and keeps, as whole lines, only the structures the
+   skeleton may use: the header, the section and block bounds, INSERTs, the
+   entities on the mapped layers (and on layer 0 inside blocks), the first
+   circles of each other layer (up to :data:`MAX_LOOSE_CIRCLES_PER_LAYER`
+   per layer and container) and the first entity of each kind on each other
+   layer, which name a layer near miss (:mod:`dxfcheck.mechanism.layers`).
+   Paper space and everything else is skipped as bytes.  Files of
+   :data:`NUMPY_SCAN_MIN_BYTES` and more are scanned as arrays of lines
+   (:class:`_LineScan`, numpy); small files, and chunks in a format the
+   arrays do not read, by compiled regular expressions (:class:`_Scan`).
+2. The line walk (:func:`_groups`, :class:`_Loader`) splits what was kept
+   into tags, keeps the header variables it needs and builds light
+   stand-ins.  The scan drops a structure only where the walk would drop it
+   without a trace, so the walk's result is the one it gives on the whole
+   file.
+
+The stand-ins offer the small part of the ezdxf entity interface that
+:mod:`dxfcheck.read.drawing` uses, so both readers go through the same
+geometry code and give the same results (a test compares them on every test
+drawing, through every way of the scan).  ezdxf itself is loaded only for a
+text with formatting codes.
 
 Binary DXF, or anything this reader does not understand, falls back to the
 full reader (and that to ezdxf's recover mode).
