@@ -104,7 +104,8 @@ def test_fast_reader_on_hand_made_entities(tmp_path, monkeypatch, scan):
     non-uniform scales, a mirrored extrusion, a band polyline with bulges,
     2D POLYLINEs (on a role layer, on clutter layers, in paper space),
     header custom properties, clutter on other layers, entities of paper
-    space, INSERTs with attributes; and the same file with CR LF line ends."""
+    space, INSERTs with attributes; and the same file with CR LF line ends
+    and with integers right-aligned in six characters."""
     import dxfcheck.read.fast as fastread
 
     chunk, arrays_from = SCANS[scan]
@@ -144,6 +145,10 @@ def test_fast_reader_on_hand_made_entities(tmp_path, monkeypatch, scan):
     crlf = tmp_path / "hand-crlf.dxf"
     crlf.write_bytes(path.read_bytes().replace(b"\n", b"\r\n"))
     _same(crlf)
+    wide = tmp_path / "hand-wide.dxf"  # integers right-aligned in six characters, as some programs write them
+    wide.write_bytes(path.read_bytes().replace(b" 67\n1\n", b" 67\n     1\n").replace(b" 70\n0\n", b" 70\n     0\n"))
+    assert b"     1\n" in wide.read_bytes()
+    _same(wide)
     full = dxfcheck.read_drawing(path, reader="full")
     assert full.custom_properties == (("dxfcheck.required_torque", "450 N*m"),)
     assert any(t.text == "left lever now" for t in full.texts)
