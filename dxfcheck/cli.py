@@ -420,7 +420,6 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 
 def _solve(args: argparse.Namespace) -> int:
     from dxfcheck.output.json import solution_to_dict, write_json
-    from dxfcheck.output.terminal import print_solution
     from dxfcheck.pipeline import DEFAULT_MU, analyse, resolve_config
 
     mu_value, mu_range = _mu_arg(args.mu)
@@ -455,6 +454,8 @@ def _solve(args: argparse.Namespace) -> int:
     if args.json:
         write_json(solution_to_dict(sol))
     else:
+        from dxfcheck.output.terminal import print_solution  # the tables only when printed
+
         notes = () if args.mu is not None else (f"μ = {DEFAULT_MU} assumed (no --mu given)",)
         print_solution(sol, notes=notes)
     # solved, but in some direction the drawing is no brake (a shoe pulls, a band pushes, it self-locks)
@@ -871,9 +872,15 @@ def _progress(args: argparse.Namespace) -> Any:
     return progress_bar()
 
 
-def _main(argv: Sequence[str] | None) -> int:
-    from dxfcheck.output.terminal import print_error
+def _print_error(exc: DxfcheckError) -> None:
+    """One error line (:func:`dxfcheck.output.terminal.print_error`, loaded
+    only when there is an error to print)."""
+    from dxfcheck.output.terminal import print_error as print_line
 
+    print_line(exc)
+
+
+def _main(argv: Sequence[str] | None) -> int:
     args = _parser().parse_args(argv)
     _route_library_logs()
     commands = {
@@ -893,7 +900,7 @@ def _main(argv: Sequence[str] | None) -> int:
             return commands[args.command](args)
     except TimeLimitExceeded as exc:  # never caught as a reading problem: it is no Exception
         limit_error = _time_limit_error(args, exc)
-        print_error(limit_error)
+        _print_error(limit_error)
         _json_error(args, limit_error)
         return EXIT_UNUSABLE
     except VerificationError as exc:
@@ -905,7 +912,7 @@ def _main(argv: Sequence[str] | None) -> int:
         _json_error(args, exc, internal=True)
         return EXIT_INTERNAL
     except DxfcheckError as exc:
-        print_error(exc)
+        _print_error(exc)
         _json_error(args, exc)
         return EXIT_UNUSABLE
     except KeyboardInterrupt:

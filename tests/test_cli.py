@@ -172,3 +172,28 @@ def test_check_heat_duty_incomplete_stop_fails_the_gate():
     stop = next(x for x in doc["rules"] if x["rule"] == "stop.duty")
     assert stop["verdict"] == "fail" and "needs stop_time (or deceleration)" in stop["message"]
     assert r.returncode == 1 and doc["verdict"] == "fail"
+
+
+#: Loads the whole command as ``python -m dxfcheck`` does, then prints the
+#: third-party packages that were imported.
+_LOADED = (
+    "import runpy, sys\n"
+    "sys.argv = ['dxfcheck', 'solve', '--json', sys.argv[1]]\n"
+    "try:\n"
+    "    runpy.run_module('dxfcheck', run_name='__main__', alter_sys=True)\n"
+    "except SystemExit:\n"
+    "    pass\n"
+    "sys.stderr.write(' '.join(sorted(m for m in ('ezdxf', 'rich', 'matplotlib', 'shapely') if m in sys.modules)))\n"
+)
+
+
+@pytest.mark.parametrize("demo", sorted(p.name for p in (ROOT / "drawings").glob("*.dxf")))
+def test_solve_json_loads_neither_ezdxf_nor_rich(demo):
+    """A small ASCII drawing is read by the fast reader and printed as JSON:
+    neither the DXF library nor the terminal tables are loaded (the
+    project's own speed goal; no published source)."""
+    r = subprocess.run(
+        [sys.executable, "-c", _LOADED, str(ROOT / "drawings" / demo)], capture_output=True, text=True, timeout=120
+    )
+    assert output_json(r.stdout)["drawing"].endswith(demo)
+    assert r.stderr.strip() == ""

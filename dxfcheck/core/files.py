@@ -27,7 +27,6 @@ from __future__ import annotations
 import contextlib
 import os
 import re
-import secrets
 import signal
 import stat
 import sys
@@ -290,7 +289,7 @@ def _new_temp(dest: Path, claimed: set[str]) -> str:
     folder = dest.parent if str(dest.parent) else Path(".")
     flags = os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_NOFOLLOW", 0)
     for _ in range(100):
-        tmp = str(folder / f".{dest.name}.{secrets.token_hex(4)}.tmp")
+        tmp = str(folder / f".{dest.name}.{os.urandom(4).hex()}.tmp")
         claimed.add(tmp)
         _LIVE.add(tmp)
         try:

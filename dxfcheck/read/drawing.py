@@ -21,13 +21,13 @@ Both fallbacks are reported as finding ``D101``.
 from __future__ import annotations
 
 import contextlib
-import functools
 import itertools
 import logging
 import math
 import os
 import re
 import stat
+import sys
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field, replace
 from pathlib import Path
@@ -78,8 +78,9 @@ MAX_COORDINATE = 1e12
 #: Largest input file read [bytes] unless raised (``--max-size``).
 MAX_INPUT_BYTES = 200_000_000
 #: Files this large [bytes] and larger go through the fast reader
-#: (:mod:`dxfcheck.read.fast`) unless asked otherwise.
-FAST_READER_MIN_BYTES = 2_000_000
+#: (:mod:`dxfcheck.read.fast`) unless asked otherwise: every ASCII file (the
+#: fast reader follows small drawings as well, and spares loading ezdxf).
+FAST_READER_MIN_BYTES = 0
 #: Most entities on the skeleton layers: more means the layer map names a
 #: clutter layer (a brake skeleton has dozens).
 MAX_SKELETON_ENTITIES = 2000
@@ -492,13 +493,25 @@ def _fan_out_message(placed: dict[str, int]) -> str:
     )
 
 
-@functools.cache
+#: What damaged entity data raises in our own reading.
+_DATA_ERRORS: tuple[type[BaseException], ...] = (
+    ValueError,
+    TypeError,
+    AttributeError,
+    LookupError,
+    ArithmeticError,
+    UnicodeError,
+)
+
+
 def _damaged() -> tuple[type[BaseException], ...]:
     """What damaged entity data raises in ezdxf or in our own reading: the
-    errors a finding stands for (never a time limit, memory or recursion)."""
-    from ezdxf.lldxf.const import DXFError
-
-    return (DXFError, ValueError, TypeError, AttributeError, LookupError, ArithmeticError, UnicodeError)
+    errors a finding stands for (never a time limit, memory or recursion).
+    ezdxf's ``DXFError`` only once ezdxf is loaded (the fast reader does not
+    load it, and nothing else can raise it)."""
+    const = sys.modules.get("ezdxf.lldxf.const")
+    error = getattr(const, "DXFError", None)
+    return _DATA_ERRORS if error is None else (error, *_DATA_ERRORS)
 
 
 def _finite(*values: float) -> bool:
@@ -796,8 +809,6 @@ def _take_path(col: _Collector, e: Any, dxftype: str, role: Role, m: Affine, src
 def _take_band_polyline(col: _Collector, e: Any, m: Affine, src: Source) -> None:
     """A band drawn as one polyline: its arc segments (bulges) become band
     arcs, its straight segments band pieces."""
-    from ezdxf.math import bulge_to_arc
-
     ocs = _ocs_affine(e.dxf.get("extrusion", (0.0, 0.0, 1.0)))
     if ocs is None:
         col.finding(Code.OUT_OF_PLANE, "LWPOLYLINE is not in the XY plane; ignored", src)
@@ -816,6 +827,8 @@ def _take_band_polyline(col: _Collector, e: Any, m: Affine, src: Source) -> None
             col.keep()
             col.paths.append(PathGeom(Role.BAND, (p0, p1), src))
             continue
+        from ezdxf.math import bulge_to_arc  # loaded for a drawing that has a bulge
+
         center, a0, a1, radius = bulge_to_arc((x0, y0), (x1, y1), b)
         c = mm.apply((float(center[0]), float(center[1])))
         s_pt = mm.apply((float(center[0]) + radius * math.cos(a0), float(center[1]) + radius * math.sin(a0)))
@@ -1137,7 +1150,7 @@ def _ezdxf_messages() -> Iterator[_ReaderLog]:
 
 
 def _open(path: Path, config: Config, max_bytes: int | None, reader: str) -> tuple[Any, list[Finding]]:
-    """The full reader, or the fast one for big ASCII files (``reader``:
+    """The full reader, or the fast one for ASCII files (``reader``:
     ``auto``, ``fast`` or ``full``); the fast one falls back to the full one
     on what it does not follow.  ezdxf's log messages become findings."""
     if reader not in ("auto", "fast", "full"):
@@ -1185,8 +1198,8 @@ def read_drawing(
     max_bytes : int, optional
         Refuse larger files [bytes].
     reader : str
-        ``auto`` (the fast reader for files of 2 MB and more), ``fast`` or
-        ``full``.
+        ``auto`` (the fast reader for ASCII files, falling back to the full
+        reader on what it does not follow), ``fast`` or ``full``.
 
     Returns
     -------

@@ -1,18 +1,33 @@
-"""A reader that reads only what the skeleton needs, for big drawings.
+"""A reader that reads only what the skeleton needs, for every ASCII drawing.
 
 Vendor assembly drawings hold hundreds of thousands of entities of clutter
 (hatches, dimensions, title blocks) around a few dozen skeleton entities.
 Building every one of them as an ezdxf object costs most of the time and
-memory of reading such a file.  This reader streams the raw tags of an ASCII
-DXF file (ezdxf's low-level tag loader), groups them at group code 0, keeps
-the header variables it needs, and builds light stand-ins only for the
-entities on the mapped layers, for INSERTs and for what the blocks they place
-hold; the rest is skipped as tags, but for the circles on other layers (up to
-a number per layer) and one token per other layer and entity kind, which
-name a layer near miss (:mod:`dxfcheck.mechanism.layers`).  The stand-ins offer the small part of the
-ezdxf entity interface that :mod:`dxfcheck.read.drawing` uses, so both readers go
-through the same geometry code and give the same results (a test compares
-them on every test drawing).
+memory of reading such a file, and loading ezdxf at all costs more than
+solving a small drawing.  This reader works in two steps:
+
+1. A byte scan (:func:`_scan`) reads the file in chunks of
+   :data:`CHUNK_BYTES` and keeps, as whole lines, only the structures the
+   skeleton may use: the header, the section and block bounds, INSERTs, the
+   entities on the mapped layers (and on layer 0 inside blocks), the first
+   circles of each other layer (up to :data:`MAX_LOOSE_CIRCLES_PER_LAYER`
+   per layer and container) and the first entity of each kind on each other
+   layer, which name a layer near miss (:mod:`dxfcheck.mechanism.layers`).
+   Paper space and everything else is skipped as bytes.  Files of
+   :data:`NUMPY_SCAN_MIN_BYTES` and more are scanned as arrays of lines
+   (:class:`_LineScan`, numpy); small files, and chunks in a format the
+   arrays do not read, by compiled regular expressions (:class:`_Scan`).
+2. The line walk (:func:`_groups`, :class:`_Loader`) splits what was kept
+   into tags, keeps the header variables it needs and builds light
+   stand-ins.  The scan drops a structure only where the walk would drop it
+   without a trace, so the walk's result is the one it gives on the whole
+   file.
+
+The stand-ins offer the small part of the ezdxf entity interface that
+:mod:`dxfcheck.read.drawing` uses, so both readers go through the same
+geometry code and give the same results (a test compares them on every test
+drawing, through every way of the scan).  ezdxf itself is loaded only for a
+text with formatting codes.
 
 Binary DXF, or anything this reader does not understand, falls back to the
 full reader (and that to ezdxf's recover mode).
@@ -23,22 +38,26 @@ from __future__ import annotations
 import functools
 import io
 import os
+import re
 from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import Any
 
-from dxfcheck.core import progress
+from dxfcheck.core import deadline, progress
 
-__all__ = ["MAX_LOOSE_CIRCLES_PER_LAYER", "FastDocument", "FastReadUnsupported", "load_fast"]
+__all__ = [
+    "CHUNK_BYTES",
+    "MAX_LOOSE_CIRCLES_PER_LAYER",
+    "NUMPY_SCAN_MIN_BYTES",
+    "FastDocument",
+    "FastReadUnsupported",
+    "load_fast",
+]
 
 #: Circles kept per layer that has no role, in each container (model space,
 #: each block), counted on the entity's own layer: enough to recognise a pin
 #: or drum layer, bounded on a vendor sheet with thousands of holes.
 MAX_LOOSE_CIRCLES_PER_LAYER = 200
-#: Entities (groups) read between two progress updates: a few a second on a
-#: big file, no measurable cost.
-PROGRESS_EVERY_GROUPS = 4096
-
 #: Polyline flag bits (group code 70; DXF Reference, POLYLINE and
 #: LWPOLYLINE; from memory): closed, 3D polyline, polygon mesh, polyface mesh.
 _CLOSED = 1
@@ -47,6 +66,12 @@ _POLY_MESH = 16
 _POLY_FACE = 64
 
 _KEEP = {"CIRCLE", "ARC", "LINE", "LWPOLYLINE", "POLYLINE", "TEXT", "MTEXT", "INSERT"}
+
+
+#: A text with no formatting code: no MTEXT command or group (``\\``,
+#: ``{``, ``}``), no special character (``%%``), no caret notation (``^``),
+#: no control character.  It is its own plain text.
+_PLAIN = re.compile(r"[^\\{}%^\x00-\x1f\x7f]*")
 
 
 class FastReadUnsupported(Exception):
@@ -87,9 +112,13 @@ class FastEntity:
 
     # TEXT / MTEXT
     def plain_text(self) -> str:
+        """The text without its formatting codes: ezdxf's ``plain_text`` or
+        ``plain_mtext``, loaded only for a text that has codes."""
+        raw = str(self.dxf.get("text", ""))
+        if _PLAIN.fullmatch(raw):
+            return raw
         from ezdxf.tools.text import plain_mtext, plain_text
 
-        raw = str(self.dxf.get("text", ""))
         if self._type == "MTEXT":
             return str(plain_mtext(raw, split=False))
         return str(plain_text(raw))
@@ -459,9 +488,35 @@ def _groups(lines: Iterator[str], roles: dict[str, Any]) -> Iterator[tuple[str, 
         if code == _LAYER and w.name in _KEEP and w.name not in ("INSERT", "POLYLINE") and not w.layer_tag(value):
             continue
         if w.wanted():
-            w.body.append((int(code), value))
+            w.body.append((_checked(int(code), value), value))
     if w.pending():
         yield w.group()
+
+
+#: Group code ranges of integer values and of floating-point values (DXF
+#: Reference, "Group code value types"; from memory).
+_INTEGER_CODES = ((60, 99), (170, 179), (270, 299), (370, 389), (400, 409), (420, 429), (440, 459), (1060, 1071))
+_FLOAT_CODES = ((10, 59), (110, 149), (210, 239), (460, 469), (1010, 1059))
+
+
+@functools.cache
+def _value_type(code: int) -> type | None:
+    """int or float for a group code of numbers, None for the others."""
+    if any(lo <= code <= hi for lo, hi in _INTEGER_CODES):
+        return int
+    if any(lo <= code <= hi for lo, hi in _FLOAT_CODES):
+        return float
+    return None
+
+
+def _checked(code: int, value: str) -> int:
+    """The group code, once its value is checked to be a number where the
+    code wants one: else ValueError, and the full reader decides (ezdxf
+    repairs such a value and says so, a finding D114)."""
+    kind = _value_type(code)
+    if kind is not None:
+        kind(value)
+    return code
 
 
 def _xyz(body: list[tuple[int, str]]) -> tuple[float, float, float]:
@@ -572,10 +627,533 @@ class _Loader:
 
 #: The first bytes of a binary DXF file.
 _BINARY_SENTINEL = b"AutoCAD Binary DXF"
+#: The byte-order mark some programs put before a UTF-8 file.
+_BOM = b"\xef\xbb\xbf"
+#: Bytes read from the file at a time [bytes]: the scan's memory is about
+#: twice this, whatever the size of the file.
+CHUNK_BYTES = 1 << 20
+#: Most bytes one structure (a polyline with its vertices) may span across
+#: chunks before the reader gives up and the full reader decides [bytes].
+MAX_CARRY_BYTES = 1 << 26
+#: A group-code-0 line: ``\n``, the code, the line end (the structure name
+#: follows on the next line, and never starts with a digit).
+_ZERO = re.compile(rb"\n[ \t]*0[ \t]*\r?\n(?=[ \t]*[A-Za-z_])")
+#: A group-code-0 tag the scan looks at: a structure marker (group 1), or an
+#: entity the skeleton may use (group 2) with the tags before its layer tag
+#: (group 3) and its layer (group 4) when it has one.  A group code 0 or 8
+#: never sits among the tags before the layer tag, so the match never runs
+#: into the next structure.
+_MARKER = re.compile(
+    rb"\n[ \t]*0[ \t]*\r?\n[ \t]*"
+    rb"(?:(SECTION|ENDSEC|BLOCK|ENDBLK|EOF)[ \t]*\r?(?=\n)"
+    rb"|(CIRCLE|ARC|LINE|LWPOLYLINE|POLYLINE|TEXT|MTEXT|INSERT)[ \t]*\r?(?=\n)"
+    rb"(?:\n((?:[ \t]*(?:[1-79]|[0-9]{2,4})[ \t]*\r?\n[^\n]*\n)*?)[ \t]*8[ \t]*\r?\n([^\r\n]*))?)"
+)
+#: A section's name tag right after its SECTION marker.
+_SECTION_NAME = re.compile(rb"\n[ \t]*2[ \t]*\r?\n[ \t]*([^\r\n]*?)[ \t]*\r?\n")
+#: The SEQEND that closes a polyline's vertices.
+_SEQEND = re.compile(rb"\n[ \t]*0[ \t]*\r?\n[ \t]*SEQEND[ \t]*\r?(?=\n)")
+#: A header variable with its first value: name (group 1), value (group 2).
+_HEADER_VAR = re.compile(
+    rb"\n[ \t]*9[ \t]*\r?\n[ \t]*(\$ACADVER|\$DWGCODEPAGE)[ \t]*\r?\n[ \t]*[0-9]+[ \t]*\r?\n([^\r\n]*)"
+)
+#: DXF code pages (``$DWGCODEPAGE``, ``ANSI_1252``...) by their last digits,
+#: and Python's codec for each (as ezdxf's ``toencoding`` maps them).
+_CODEPAGES = {
+    "874": "cp874",
+    "932": "cp932",
+    "936": "gbk",
+    "949": "cp949",
+    "950": "cp950",
+    "1250": "cp1250",
+    "1251": "cp1251",
+    "1252": "cp1252",
+    "1253": "cp1253",
+    "1254": "cp1254",
+    "1255": "cp1255",
+    "1256": "cp1256",
+    "1257": "cp1257",
+    "1258": "cp1258",
+}
+#: The first DXF version written in UTF-8 (R2007).
+_UTF8_FROM = "AC1021"
+_HEADER, _BLOCKS, _ENTITIES = b"HEADER", b"BLOCKS", b"ENTITIES"
+
+
+def _encoding(head: bytes) -> str:
+    """The text encoding of an ASCII DXF file from its HEADER section (the
+    start of ``head``): UTF-8 from R2007 on, else ``$DWGCODEPAGE``, else
+    cp1252."""
+    m = re.match(rb"\n[ \t]*0[ \t]*\r?\n[ \t]*SECTION[ \t]*\r?" + _SECTION_NAME.pattern, head)
+    if m is None or m.group(1) != _HEADER:
+        return "cp1252"
+    end = _ZERO.search(head, m.end())
+    found = {
+        k.decode(): v.decode("ascii", "replace").strip()
+        for k, v in _HEADER_VAR.findall(head, 0, end.start() if end else len(head))
+    }
+    if found.get("$ACADVER", "AC1009") >= _UTF8_FROM:
+        return "utf-8"
+    page = found.get("$DWGCODEPAGE", "")
+    return next((enc for digits, enc in _CODEPAGES.items() if page.endswith(digits)), "cp1252")
+
+
+class _Scan:
+    """The byte scan's state: the section and container it is in, the
+    layers met, and the structures kept (as the bytes of whole lines).
+
+    It keeps a structure whenever the line walk (:func:`_groups` and
+    :class:`_Loader`) might use it, and drops one only when the walk would
+    drop it without a trace: an entity kind the skeleton never holds, an
+    entity of paper space, a circle on a layer with no role past its quota,
+    another entity on such a layer whose kind is already listed for it.
+    The walk then reads only what was kept, with the same result as on the
+    whole file."""
+
+    def __init__(self, roles: dict[str, Any], encoding: str) -> None:
+        self.roles = roles
+        self.encoding = encoding
+        self.section = b""
+        self.container = _MODEL_SPACE
+        self.loose: dict[tuple[int, bytes], int] = {}
+        self.listed: set[tuple[int, bytes, bytes]] = set()
+        self.layers: dict[bytes, bool] = {}  # raw layer name -> has a role (or is layer 0, for blocks)
+        self.kept: list[bytes] = []
+        self.done = False
+
+    def role_layer(self, raw: bytes) -> bool:
+        """The layer has a role (as :meth:`_GroupWalk.layer_tag` decides)."""
+        known = self.layers.get(raw)
+        if known is None:
+            known = self.layers[raw] = raw.decode(self.encoding, "surrogateescape").strip().upper() in self.roles
+        return known
+
+    def chunk(self, buf: bytes, cut: int) -> int:
+        """Scan ``buf`` (starting with a line end) up to ``cut`` (the start of a
+        group-code-0 line); returns where the next chunk starts (``cut``, or earlier when a
+        kept structure runs past it)."""
+        for m in _MARKER.finditer(buf, 0, cut):
+            marker, kind = m.group(1), m.group(2)
+            if marker is not None:
+                end = self.marker(buf, m, marker)
+            elif self.section in (_BLOCKS, _ENTITIES):
+                end = self.entity(buf, m, kind)
+            else:
+                continue
+            if end is None:
+                return m.start()  # the structure runs on into the next chunk
+            if self.done:
+                return len(buf)
+        return cut
+
+    def keep(self, buf: bytes, start: int, end: int) -> None:
+        self.kept.append(buf[start + 1 : end + 1])  # whole lines: from the code-0 line to the next one
+
+    @staticmethod
+    def _end(buf: bytes, m: re.Match[bytes], polyline: bool) -> int | None:
+        """Where the structure of ``m`` ends: at the next group code 0 (a
+        POLYLINE: at the one after its SEQEND); None past the buffer.  A
+        structure is kept only once its end is found, and the scan's state
+        changes only then, so that a structure run on into the next chunk is
+        scanned again from its start."""
+        at = m.end()
+        if polyline:
+            seqend = _SEQEND.search(buf, at)
+            if seqend is None:
+                return None
+            at = seqend.end()
+        nxt = _ZERO.search(buf, at)
+        return None if nxt is None else nxt.start()
+
+    def marker(self, buf: bytes, m: re.Match[bytes], marker: bytes) -> int | None:
+        if marker == b"EOF":
+            self.kept.append(b"0\nEOF\n")
+            self.done = True
+            return m.end()
+        end = self._end(buf, m, False)
+        if end is None:
+            return None
+        if marker == b"SECTION":
+            name = _SECTION_NAME.match(buf, m.end())
+            self.section = name.group(1) if name is not None else b""
+        elif marker == b"ENDSEC":
+            self.section = b""
+        elif marker == b"BLOCK":
+            self.container += 1
+        self.keep(buf, m.start(), end)
+        return end
+
+    def entity(self, buf: bytes, m: re.Match[bytes], kind: bytes) -> int | None:
+        """An entity of a kind the skeleton may use: kept, or dropped as the
+        walk would drop it."""
+        raw = m.group(4)
+        polyline = kind == b"POLYLINE"
+        in_blocks = self.section == _BLOCKS
+        if raw is None or kind == b"INSERT" or self.role_layer(raw) or (in_blocks and raw.strip() == b"0"):
+            if raw is not None and not in_blocks and not polyline and kind != b"INSERT" and self._paper(m.group(3)):
+                return m.end()  # paper space, dropped at its layer tag
+            return self._kept(buf, m, polyline)
+        if not in_blocks and not polyline and self._paper(m.group(3)):
+            return m.end()
+        where = self.container if in_blocks else _MODEL_SPACE
+        if kind == b"CIRCLE":
+            n = self.loose.get((where, raw), 0)
+            if n >= MAX_LOOSE_CIRCLES_PER_LAYER:
+                return m.end()
+            end = self._kept(buf, m, False)
+            if end is not None:
+                self.loose[(where, raw)] = n + 1
+            return end
+        key = (where, raw, kind)
+        if key in self.listed:
+            return m.end()
+        end = self._kept(buf, m, polyline)
+        if end is not None and not (polyline and not in_blocks and self._paper(buf[m.start() : end])):
+            self.listed.add(key)  # as the loader lists it (a polyline of paper space is not listed)
+        return end
+
+    def _kept(self, buf: bytes, m: re.Match[bytes], polyline: bool) -> int | None:
+        end = self._end(buf, m, polyline)
+        if end is not None:
+            self.keep(buf, m.start(), end)
+        return end
+
+    @staticmethod
+    def _paper(tags: bytes | None) -> bool:
+        """A paper-space flag (group code 67 = 1) among these tags."""
+        if not tags or b"67" not in tags:
+            return False
+        lines = tags.split(b"\n")
+        return any(c.strip() == b"67" and v.strip() == b"1" for c, v in zip(lines[::2], lines[1::2], strict=False))
+
+
+def _scan(path: Path, roles: dict[str, Any]) -> tuple[bytes, str]:
+    """The structures of an ASCII DXF file that the line walk may use (whole
+    lines, in file order) and the file's encoding, read in chunks of
+    :data:`CHUNK_BYTES` without splitting the rest into lines."""
+    with open(path, "rb") as fh, progress.task(f"reading {path.name}", os.fstat(fh.fileno()).st_size) as bar:
+        head = fh.read(CHUNK_BYTES)
+        if head.startswith(_BINARY_SENTINEL):
+            raise FastReadUnsupported("binary DXF")
+        if head.startswith(_BOM) or (b"\r" in head and b"\n" not in head):
+            raise FastReadUnsupported("a byte-order mark or old Mac line ends")
+        scan = _Scan(roles, _encoding(b"\n" + head))
+        buf = b"\n" + head
+        at_end = len(head) < CHUNK_BYTES
+        lines = None if at_end and len(head) < NUMPY_SCAN_MIN_BYTES else _LineScan(scan)
+        while True:
+            deadline.check("reading the drawing")
+            bar.set(fh.tell())  # the bytes read so far
+            data = buf if not at_end else buf + (_END[1:] if buf.endswith(b"\n") else _END)
+            rest = None if lines is None else lines.chunk(data, at_end)
+            if rest is None:  # a small file, or a chunk in a format the array scan does not follow
+                rest = scan.chunk(data, _last_zero(buf) if not at_end else len(buf))
+            if scan.done or at_end:
+                break
+            more = fh.read(CHUNK_BYTES)
+            at_end = len(more) < CHUNK_BYTES
+            if len(buf) - rest > MAX_CARRY_BYTES:
+                raise FastReadUnsupported("a structure longer than the reader follows")
+            buf = buf[rest:] + more  # from the line end before a group-code-0 line
+    return b"".join(scan.kept), scan.encoding
+
+
+#: Files this large [bytes] and larger are scanned as arrays of lines
+#: (:class:`_LineScan`, numpy); smaller ones by the regular expressions alone.
+NUMPY_SCAN_MIN_BYTES = 1 << 20
+#: What ends the last chunk: a line end and an EOF marker, so that the last
+#: structure ends (the file's own EOF marker comes first).
+_END = b"\n  0\nEOF\n"
+#: The longest group code line (spaces and digits) and structure name the
+#: array scan reads [characters]; longer ones go to the regular expressions.
+_CODE_WIDTH = 6
+_NAME_WIDTH = 12
+#: The longest layer name the array scan compares [bytes].
+_LAYER_WIDTH = 255
+#: Structure names by number in the array scan (0: any other).
+_NAMES = (b"SECTION", b"ENDSEC", b"BLOCK", b"ENDBLK", b"EOF", b"SEQEND", *sorted(k.encode() for k in _KEEP))
+_KIND = {name: k + 1 for k, name in enumerate(_NAMES)}
+
+
+class _LineScan:
+    """The byte scan of a chunk as arrays (numpy): the line ends, the group
+    codes of the even lines, the structures at group code 0 with their
+    names, layers and paper-space flags, and the decisions of
+    :class:`_Scan` taken for all of them at once.  A chunk in a format it
+    does not read (a group code that is not a right-aligned number of up to
+    six characters, a structure name with spaces) goes to the regular
+    expressions of :class:`_Scan` instead."""
+
+    def __init__(self, scan: _Scan) -> None:
+        import numpy as np  # a dependency of the statics; loaded here for big files only
+
+        self.np = np
+        self.scan = scan
+
+    def chunk(self, buf: bytes, at_end: bool) -> int | None:
+        """Scan ``buf`` (a line end, then whole structures, but for its end);
+        returns where the next chunk starts, or None for the regular
+        expressions."""
+        np = self.np
+        a = np.frombuffer(buf, np.uint8)
+        nl = np.flatnonzero(a == 10)
+        if len(nl) < 3:
+            return None
+        ends = nl[1:] - (a[nl[1:] - 1] == 13)  # each line's end, without a carriage return
+        starts = nl[:-1] + 1
+        pairs = len(starts) // 2
+        code = self._codes(a, starts[0 : 2 * pairs : 2], ends[0 : 2 * pairs : 2])
+        if code is None:
+            return None
+        vs, ve = starts[1 : 2 * pairs : 2], ends[1 : 2 * pairs : 2]
+        zero = np.flatnonzero(code == 0)
+        kinds = self._kinds(a, vs[zero], ve[zero])
+        if kinds is None or len(zero) < 2:
+            return None
+        last = len(zero) if at_end else len(zero) - 1  # the last structure may run on
+        seqends = np.flatnonzero(kinds == _KIND[b"SEQEND"])
+        closed = seqends[seqends < last]
+        open_poly = np.flatnonzero(kinds[:last] == _KIND[b"POLYLINE"])
+        if len(open_poly) and (not len(closed) or open_poly[-1] > closed[-1]):
+            last = int(open_poly[-1])  # a polyline whose vertices run on: the next chunk reads it
+        bounds = np.append(zero, pairs)
+        state = (self.scan.section, self.scan.container, self.scan.done)
+        keep = self._decide(a, buf, code, vs, ve, zero, bounds, kinds, last)
+        if keep is None:
+            self.scan.section, self.scan.container, self.scan.done = state
+            return None
+        self._emit(buf, nl, bounds, kinds, seqends, keep)
+        return int(nl[2 * bounds[last]]) if last < len(zero) else len(buf)
+
+    def _codes(self, a: Any, s: Any, e: Any) -> Any:
+        """The group codes the scan asks about (0, 2, 8, 67; -1 for any
+        other) of the code lines [s, e), or None if one is not a number
+        (digits after optional spaces, no leading zero) of up to
+        :data:`_CODE_WIDTH` characters."""
+        np = self.np
+        n = e - s
+        if not len(n) or bool(((n < 1) | (n > _CODE_WIDTH)).any()):
+            return None
+        chars = [a[e - 1 - k] for k in range(int(n.max()))]  # from the right; masked where k >= n
+        run = (chars[0] >= 48) & (chars[0] <= 57)  # the characters so far are all digits
+        ok = run.copy()
+        for k in range(1, len(chars)):
+            inside = n > k
+            digit = (chars[k] >= 48) & (chars[k] <= 57)
+            space = (chars[k] == 32) | (chars[k] == 9)
+            ok &= ~inside | space | (digit & run)
+            ok &= ~(inside & digit & run & (chars[k] == 48) & ((n == k + 1) | ~self._digit(chars, k + 1, n)))
+            run &= digit & inside
+        if not bool(ok.all()):
+            return None
+        one = (n == 1) | ~self._digit(chars, 1, n)  # a code of one digit
+        code = np.full(len(s), -1, np.int16)
+        for value in (0, 2, 8):
+            code[one & (chars[0] == 48 + value)] = value
+        if len(chars) > 1:
+            code[(chars[0] == 55) & (chars[1] == 54) & ((n == 2) | ~self._digit(chars, 2, n))] = 67
+        return code
+
+    @staticmethod
+    def _digit(chars: list[Any], k: int, n: Any) -> Any:
+        """Whether the k-th character from the right is a digit (False past
+        the line's start)."""
+        if k >= len(chars):
+            return n < 0  # all False
+        return (n > k) & (chars[k] >= 48) & (chars[k] <= 57)
+
+    def _fixed(self, a: Any, s: Any, e: Any, width: int) -> Any:
+        """The lines [s, e) as fixed-width byte strings (numpy ``S`` type)."""
+        np = self.np
+        cols = np.arange(width)
+        idx = np.minimum(s[:, None] + cols, len(a) - 1)
+        block = np.where(cols < (e - s)[:, None], a[idx], 0).astype(np.uint8)
+        return np.ascontiguousarray(block).view(f"S{width}").ravel()
+
+    def _kinds(self, a: Any, s: Any, e: Any) -> Any:
+        """Each structure's name as its number in :data:`_NAMES` (0 for any
+        other); None if a name starts or ends with a space."""
+        np = self.np
+        n = e - s
+        if bool((n > 0).any()):
+            first, lastc = a[np.minimum(s, len(a) - 1)], a[np.maximum(e - 1, 0)]
+            if bool((((first == 32) | (first == 9) | (lastc == 32) | (lastc == 9)) & (n > 0)).any()):
+                return None
+        names = self._fixed(a, s, e, _NAME_WIDTH)
+        kinds = np.zeros(len(s), np.int8)
+        for name, k in _KIND.items():
+            kinds[names == name] = k
+        kinds[n > _NAME_WIDTH] = 0
+        return kinds
+
+    def _decide(
+        self, a: Any, buf: bytes, code: Any, vs: Any, ve: Any, zero: Any, bounds: Any, kinds: Any, last: int
+    ) -> Any:
+        """Which of the first ``last`` structures are kept (a boolean array),
+        the scan's state carried on as :meth:`_Scan.marker` and
+        :meth:`_Scan.entity` would; None when the regular expressions must
+        read the chunk."""
+        np, scan = self.np, self.scan
+        n = last
+        keep = np.zeros(n, bool)
+        sections, containers = self._markers(buf, code, vs, ve, zero, kinds, n, keep)
+        kind = kinds[:n]
+        entity = (kind > _KIND[b"SEQEND"]) & ((sections == 1) | (sections == 2))  # 1 BLOCKS, 2 ENTITIES
+        eights = np.flatnonzero(code == 8)
+        j = np.searchsorted(eights, zero[:n])
+        j_ok = np.minimum(j, max(len(eights) - 1, 0))
+        has8 = (j < len(eights)) & (eights[j_ok] < bounds[1 : n + 1]) if len(eights) else np.zeros(n, bool)
+        at8 = np.where(has8, eights[j_ok] if len(eights) else 0, 0)
+        paper_at = self._paper(a, code, vs, ve)
+        q = np.searchsorted(paper_at, zero[:n])
+        q_ok = np.minimum(q, max(len(paper_at) - 1, 0))
+        flag = paper_at[q_ok] if len(paper_at) else np.zeros(n, np.int64)
+        found = q < len(paper_at)
+        paper_any = found & (flag < bounds[1 : n + 1]) & (sections == 2)
+        paper_before8 = found & (flag < at8) & has8 & (sections == 2)
+        insert, poly, circle = kind == _KIND[b"INSERT"], kind == _KIND[b"POLYLINE"], kind == _KIND[b"CIRCLE"]
+        drop = entity & ((poly & paper_any) | (~poly & ~insert & paper_before8))
+        always = entity & ~drop & (insert | ~has8)
+        keep |= always
+        rest = np.flatnonzero(entity & ~drop & ~always)
+        if len(rest) == 0:
+            return keep
+        lp = at8[rest]
+        width = int((ve[lp] - vs[lp]).max(initial=0))
+        if width > _LAYER_WIDTH:
+            return None
+        layers = self._fixed(a, vs[lp], ve[lp], max(width, 1))
+        _, inv = np.unique(layers, return_inverse=True)
+        raw = [bytes(buf[int(vs[p]) : int(ve[p])]) for p in lp[np.unique(inv, return_index=True)[1]]]
+        in_blocks = sections[rest] == 1
+        role = np.array([scan.role_layer(r) for r in raw], bool)[inv]
+        zero_layer = np.array([r.strip() == b"0" for r in raw], bool)[inv]
+        mine = role | (in_blocks & zero_layer)
+        keep[rest[mine]] = True
+        others = ~mine
+        where = np.where(in_blocks, containers[rest], _MODEL_SPACE)
+        self._loose(keep, rest[others & circle[rest]], where[others & circle[rest]], inv[others & circle[rest]], raw)
+        listed = others & ~circle[rest]
+        self._listed(keep, rest[listed], where[listed], inv[listed], kind[rest[listed]], raw)
+        return keep
+
+    def _markers(
+        self, buf: bytes, code: Any, vs: Any, ve: Any, zero: Any, kinds: Any, n: int, keep: Any
+    ) -> tuple[Any, Any]:
+        """Sections (0 other, 1 BLOCKS, 2 ENTITIES, 3 HEADER) and containers
+        of the first ``n`` structures; the markers are kept and the scan's
+        section, container and end carried on."""
+        np, scan = self.np, self.scan
+        sections = np.empty(n, np.int8)
+        containers = np.empty(n, np.int64)
+        names = {b"BLOCKS": 1, b"ENTITIES": 2, b"HEADER": 3}
+        marks = np.flatnonzero((kinds[:n] >= 1) & (kinds[:n] <= _KIND[b"EOF"]))
+        sec = {b"BLOCKS": 1, b"ENTITIES": 2, b"HEADER": 3}.get(scan.section, 0)
+        at = 0
+        for i in (int(x) for x in marks):
+            sections[at:i], containers[at:i] = sec, scan.container
+            kind = _NAMES[int(kinds[i]) - 1]
+            keep[i] = True
+            if kind == b"EOF":
+                scan.done = True
+                keep[i + 1 :] = False
+                sections[i:], containers[i:] = 0, scan.container
+                return sections, containers
+            if kind == b"SECTION":
+                p = int(zero[i]) + 1
+                name = bytes(buf[int(vs[p]) : int(ve[p])]).strip() if p < len(code) and code[p] == 2 else b""
+                scan.section, sec = name, names.get(name, 0)
+            elif kind == b"ENDSEC":
+                scan.section, sec = b"", 0
+            elif kind == b"BLOCK":
+                scan.container += 1
+            sections[i], containers[i] = sec, scan.container
+            at = i + 1
+        sections[at:n], containers[at:n] = sec, scan.container
+        return sections, containers
+
+    def _paper(self, a: Any, code: Any, vs: Any, ve: Any) -> Any:
+        """The pairs that set paper space: group code 67, value 1."""
+        np = self.np
+        p = np.flatnonzero(code == 67)
+        if not len(p):
+            return p
+        s, e = vs[p], ve[p]
+        one = (e > s) & (a[np.maximum(e - 1, 0)] == 49)
+        for k in range(1, _CODE_WIDTH + 1):
+            inside = e - 1 - k >= s
+            c = a[np.where(inside, e - 1 - k, 0)]
+            one &= ~inside | (c == 32) | (c == 9)
+        one &= (e - s) <= _CODE_WIDTH + 1
+        return p[one]
+
+    def _loose(self, keep: Any, idx: Any, where: Any, layer: Any, raw: list[bytes]) -> None:
+        """The circles on layers with no role: the first of each container
+        and layer, within the quota left."""
+        np, scan = self.np, self.scan
+        if not len(idx):
+            return
+        order = np.lexsort((idx, layer, where))
+        w, lay = where[order], layer[order]
+        new = np.ones(len(order), bool)
+        new[1:] = (w[1:] != w[:-1]) | (lay[1:] != lay[:-1])
+        group = np.cumsum(new) - 1
+        first = np.flatnonzero(new)
+        rank = np.arange(len(order)) - first[group]
+        sizes = np.bincount(group)
+        room = np.empty(len(first), np.int64)
+        for g, f in enumerate(first):
+            key = (int(w[f]), raw[int(lay[f])])
+            count = scan.loose.get(key, 0)
+            room[g] = taken = min(max(MAX_LOOSE_CIRCLES_PER_LAYER - count, 0), int(sizes[g]))
+            scan.loose[key] = count + taken
+        keep[idx[order[rank < room[group]]]] = True
+
+    def _listed(self, keep: Any, idx: Any, where: Any, layer: Any, kind: Any, raw: list[bytes]) -> None:
+        """Other entities on layers with no role: the first of each
+        container, layer and kind not listed yet."""
+        np, scan = self.np, self.scan
+        if not len(idx):
+            return
+        key = ((where.astype(np.int64) + 1) * (int(layer.max()) + 1) + layer) * (len(_NAMES) + 1) + kind
+        _, first = np.unique(key, return_index=True)
+        for f in sorted(int(x) for x in first):
+            k = (int(where[f]), raw[int(layer[f])], _NAMES[int(kind[f]) - 1])
+            if k not in scan.listed:
+                scan.listed.add(k)
+                keep[idx[f]] = True
+
+    def _emit(self, buf: bytes, nl: Any, bounds: Any, kinds: Any, seqends: Any, keep: Any) -> None:
+        """Keep the chosen structures' lines, a polyline with its vertices
+        up to the structure after its SEQEND."""
+        poly = _KIND[b"POLYLINE"]
+        for i in (int(x) for x in self.np.flatnonzero(keep)):
+            end = i + 1
+            if kinds[i] == poly:
+                k = int(self.np.searchsorted(seqends, i))
+                end = int(seqends[k]) + 1 if k < len(seqends) else len(bounds) - 1
+            if _NAMES[int(kinds[i]) - 1] == b"EOF":
+                self.scan.kept.append(b"0\nEOF\n")
+                continue
+            self.scan.kept.append(buf[int(nl[2 * bounds[i]]) + 1 : int(nl[2 * bounds[end]]) + 1])
+
+
+def _last_zero(buf: bytes) -> int:
+    """Where the last group-code-0 line of ``buf`` starts (0 if none: the
+    whole buffer runs on into the next chunk)."""
+    window = max(0, len(buf) - (1 << 16))
+    while True:
+        starts = [m.start() for m in _ZERO.finditer(buf, window)]
+        if starts or window == 0:
+            return starts[-1] if starts else 0
+        window = max(0, window - (1 << 20))
 
 
 def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
     """Read the header, blocks and entities that matter for the skeleton.
+
+    A byte scan (:class:`_Scan`) keeps the structures the skeleton may use;
+    the line walk builds them.
 
     Parameters
     ----------
@@ -590,22 +1168,9 @@ def load_fast(path: Path, roles: dict[str, Any]) -> FastDocument:
     FastReadUnsupported
         For binary DXF or a structure this reader does not follow.
     """
-    from ezdxf.filemanagement import dxf_file_info
-
-    with open(path, "rb") as fh:
-        if fh.read(len(_BINARY_SENTINEL) + 4).startswith(_BINARY_SENTINEL):
-            raise FastReadUnsupported("binary DXF")
-    info = dxf_file_info(str(path))
+    kept, encoding = _scan(path, roles)
     loader = _Loader(roles)
-    size = os.path.getsize(path)
-    with (
-        open(path, "rb") as raw,
-        io.TextIOWrapper(raw, encoding=info.encoding or "cp1252", errors="surrogateescape") as fh,
-        progress.task(f"reading {path.name}", size) as bar,
-    ):
-        for n, (name, section, body) in enumerate(_groups(iter(fh), roles)):
-            loader.take(name, section, body)
-            if n % PROGRESS_EVERY_GROUPS == 0:
-                bar.set(raw.tell())  # the bytes the text layer has taken so far
-        bar.set(size)
+    text = io.TextIOWrapper(io.BytesIO(kept), encoding=encoding, errors="surrogateescape")
+    for name, section, body in _groups(iter(text), roles):
+        loader.take(name, section, body)
     return loader.doc

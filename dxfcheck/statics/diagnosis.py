@@ -11,15 +11,18 @@ from __future__ import annotations
 
 import math
 from collections.abc import Iterable, Sequence
+from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.core.findings import Code, Finding, Severity
 from dxfcheck.core.geometry import Point
 from dxfcheck.mechanism.model import Mechanism, Mounting
 from dxfcheck.statics.equations import Balance, ColumnKind, RowKind, RowOwner, System
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = ["CONDITION_WARN", "MODE_SHARE", "diagnose"]
 

@@ -12,10 +12,9 @@ import enum
 import math
 from dataclasses import dataclass
 from functools import cached_property
-from typing import NamedTuple
+from typing import TYPE_CHECKING, NamedTuple
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.core.findings import Code, Finding
@@ -23,6 +22,9 @@ from dxfcheck.core.geometry import Point
 from dxfcheck.mechanism.model import FRAME, Band, Mechanism, Mounting, Part
 from dxfcheck.statics.contact import ContactModel, ContactOptions, ContactWrench, ShoeModelChoice, short_shoe_model
 from dxfcheck.statics.contact.long_shoe import LongHingedShoe, LongPivotedShoe
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = [
     "DEFAULT_OPTIONS",

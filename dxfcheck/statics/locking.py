@@ -6,15 +6,19 @@ from __future__ import annotations
 
 import functools
 import math
+from collections.abc import Callable
+from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.statics.contact import ContactModel, ContactOptions
 from dxfcheck.statics.diagnosis import MODE_SHARE
 from dxfcheck.statics.equations import DEFAULT_OPTIONS, ColumnKind, System, assemble, contact_models
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = ["critical_mu"]
 
@@ -30,15 +34,55 @@ MU_TOL = 1e-12
 PRESS_RTOL = 1e-6
 
 
-def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> float:
-    """The sign of the kept equations' determinant at ``mu``; NaN when they
-    are not square."""
+#: Friction coefficients [-] at which the kept equations are assembled to
+#: check that they are affine in μ (away from the scan's grid points).
+AFFINE_PROBES = (0.37, 0.81)
+#: Relative tolerance of that check, against the largest entry.
+AFFINE_RTOL = 1e-12
+
+
+def _kept(
+    mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction
+) -> tuple[list[int], NDArray[np.float64]]:
+    """The kept rows and their matrix at ``mu``."""
     sys_ = assemble(mech, models, mu, direction)
-    a = sys_.a[sys_.kept]
+    kept = sys_.kept
+    return kept, sys_.a[kept]
+
+
+def _sign(a: NDArray[np.float64]) -> float:
+    """The sign of a square matrix's determinant; NaN when it is not square."""
     if a.shape[0] != a.shape[1]:
         return math.nan
     sign, _ = np.linalg.slogdet(a)
     return float(sign)
+
+
+def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> float:
+    """The sign of the kept equations' determinant at ``mu``; NaN when they
+    are not square."""
+    return _sign(_kept(mech, models, mu, direction)[1])
+
+
+def _det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: Direction) -> Callable[[float], float]:
+    """The determinant's sign as a function of μ.  With every lining in full
+    contact, each contact force is a normal part plus μ times a friction
+    part, so the kept equations are usually affine in μ, A(μ) = A0 + μ·A1:
+    checked at :data:`AFFINE_PROBES`, the sign then comes from A0 and A1
+    without assembling the equations again (one assembly instead of one per
+    step of the scan and the bisection); otherwise each μ is assembled."""
+    slow = functools.partial(_square_det_sign, mech, models, direction=direction)
+    rows, a0 = _kept(mech, models, 0.0, direction)
+    rows_1, at_1 = _kept(mech, models, 1.0, direction)
+    if rows_1 != rows:
+        return slow
+    a1 = at_1 - a0
+    scale = max(float(np.abs(a0).max(initial=0.0)), float(np.abs(a1).max(initial=0.0)), 1.0)
+    for mu in AFFINE_PROBES:
+        rows_mu, probe = _kept(mech, models, mu, direction)
+        if rows_mu != rows or float(np.abs(probe - (a0 + mu * a1)).max(initial=0.0)) > AFFINE_RTOL * scale:
+            return slow
+    return lambda mu: _sign(a0 + mu * a1)
 
 
 @functools.lru_cache(maxsize=64)
@@ -59,8 +103,9 @@ def critical_mu(
     it is computed once per mechanism, direction and shoe model (cached).
     """
     models, _ = contact_models(mech, options)
+    det_sign = _det_sign(mech, models, direction)
     grid = [mu_max * k / MU_SCAN_STEPS for k in range(MU_SCAN_STEPS + 1)]
-    signs = [_square_det_sign(mech, models, mu, direction) for mu in grid]
+    signs = [det_sign(mu) for mu in grid]
     if any(math.isnan(s) for s in signs):
         return None
     for k in range(MU_SCAN_STEPS):
@@ -71,7 +116,7 @@ def critical_mu(
             continue
         while hi - lo > MU_TOL:
             mid = 0.5 * (lo + hi)
-            sm = _square_det_sign(mech, models, mid, direction)
+            sm = det_sign(mid)
             if sm * slo > 0:
                 lo = mid
             else:

@@ -30,10 +30,9 @@ from collections.abc import Sequence
 from concurrent.futures import ThreadPoolExecutor
 from concurrent.futures import TimeoutError as FuturesTimeout
 from dataclasses import dataclass, field, replace
-from typing import NamedTuple
+from typing import TYPE_CHECKING, NamedTuple
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core import deadline, progress
 from dxfcheck.core.errors import ConfigError
@@ -52,6 +51,9 @@ from dxfcheck.statics.equations import (
     assemble,
     contact_models,
 )
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = ["CHUNK", "MAX_SAMPLES", "DirectionStats", "SensitivityResult", "sample_design", "torque_curve"]
 

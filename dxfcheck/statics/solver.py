@@ -35,9 +35,9 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import replace
+from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core.errors import SolveError
 from dxfcheck.core.findings import Code, Finding, Severity, has_errors
@@ -84,6 +84,9 @@ from dxfcheck.statics.results import (
 )
 from dxfcheck.statics.strength import drum_load, part_diagrams
 from dxfcheck.statics.verify import verify_case
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = ["solve", "solve_case", "solve_for_torque"]
 

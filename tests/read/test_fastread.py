@@ -6,6 +6,8 @@ from __future__ import annotations
 import ezdxf
 import pytest
 from common import (
+    CATALOGUE,
+    ROOT,
     block_brake,
     conveyor_block,
     differential_band,
@@ -60,6 +62,36 @@ def _same(path):
     assert fast == full
 
 
+#: The byte scan's ways through a file: the regular expressions alone (a
+#: small file), the arrays of lines (a big one), and either in chunks far
+#: smaller than a structure, so that structures and polylines run across
+#: chunks: (chunk size [bytes], smallest file for the arrays [bytes]).
+SCANS = {"regex": (1 << 20, 1 << 40), "arrays": (1 << 20, 0), "regex-tiny": (300, 1 << 40), "arrays-tiny": (700, 0)}
+#: Every test drawing: the catalogue (as drawn, in R12, in nested blocks) and
+#: the demos.
+DRAWINGS = sorted(
+    [(f"catalogue:{name}", variant) for name in CATALOGUE for variant in ("plain", "r12", "blocks")]
+    + [(f"demo:{p.name}", "file") for p in (ROOT / "drawings").glob("*.dxf")]
+)
+
+
+@pytest.mark.parametrize("scan", sorted(SCANS))
+@pytest.mark.parametrize(("drawing", "variant"), DRAWINGS)
+def test_fast_reader_matches_full_reader_on_every_test_drawing(tmp_path, monkeypatch, drawing, variant, scan):
+    import dxfcheck.read.fast as fastread
+
+    kind, name = drawing.split(":", 1)
+    if kind == "demo":
+        path = ROOT / "drawings" / name
+    else:
+        path = tmp_path / "d.dxf"
+        CATALOGUE[name][0]().save(path, **VARIANTS[variant])
+    chunk, arrays_from = SCANS[scan]
+    monkeypatch.setattr(fastread, "CHUNK_BYTES", chunk)
+    monkeypatch.setattr(fastread, "NUMPY_SCAN_MIN_BYTES", arrays_from)
+    _same(path)
+
+
 @pytest.mark.parametrize("variant", sorted(VARIANTS))
 @pytest.mark.parametrize("name", sorted(SKETCHES))
 def test_fast_reader_matches_full_reader(tmp_path, name, variant):
@@ -68,11 +100,19 @@ def test_fast_reader_matches_full_reader(tmp_path, name, variant):
     _same(path)
 
 
-def test_fast_reader_on_hand_made_entities(tmp_path):
+@pytest.mark.parametrize("scan", sorted(SCANS))
+def test_fast_reader_on_hand_made_entities(tmp_path, monkeypatch, scan):
     """Entities the sketches do not write: MTEXT, MINSERT grids, nested
     non-uniform scales, a mirrored extrusion, a band polyline with bulges,
-    2D POLYLINEs, header custom properties, clutter on other layers, and
-    INSERTs with attributes."""
+    2D POLYLINEs (on a role layer, on clutter layers, in paper space),
+    header custom properties, clutter on other layers, entities of paper
+    space, INSERTs with attributes; and the same file with CR LF line ends
+    and with integers right-aligned in six characters."""
+    import dxfcheck.read.fast as fastread
+
+    chunk, arrays_from = SCANS[scan]
+    monkeypatch.setattr(fastread, "CHUNK_BYTES", chunk)
+    monkeypatch.setattr(fastread, "NUMPY_SCAN_MIN_BYTES", arrays_from)
     doc = ezdxf.new("R2010", units=4)
     for layer in ("PIN", "LINK", "LABEL", "BAND", "CLUTTER"):
         doc.layers.add(layer)
@@ -94,9 +134,23 @@ def test_fast_reader_on_hand_made_entities(tmp_path):
     msp.add_polyline2d([(0, 0), (10, 10), (20, 0)], close=True, dxfattribs={"layer": "LINK"})
     for k in range(200):
         msp.add_line((k, 0), (k, 1), dxfattribs={"layer": "CLUTTER"})
+        msp.add_circle((k, 5), 0.5, dxfattribs={"layer": "CLUTTER" if k % 3 else "HOLES"})
+    for k in range(5):
+        msp.add_polyline2d([(k, 0), (k, 10), (k + 5, 0)], dxfattribs={"layer": "CLUTTER"})
+    psp = doc.paperspace()
+    psp.add_circle((1, 1), 5, dxfattribs={"layer": "PIN"})
+    psp.add_polyline2d([(0, 0), (3, 3)], dxfattribs={"layer": "LINK"})
+    psp.add_line((0, 0), (3, 3), dxfattribs={"layer": "PAPER-ONLY"})
     path = tmp_path / "hand.dxf"
     doc.saveas(path)
     _same(path)
+    crlf = tmp_path / "hand-crlf.dxf"
+    crlf.write_bytes(path.read_bytes().replace(b"\n", b"\r\n"))
+    _same(crlf)
+    wide = tmp_path / "hand-wide.dxf"  # integers right-aligned in six characters, as some programs write them
+    wide.write_bytes(path.read_bytes().replace(b" 67\n1\n", b" 67\n     1\n").replace(b" 70\n0\n", b" 70\n     0\n"))
+    assert b"     1\n" in wide.read_bytes()
+    _same(wide)
     full = dxfcheck.read_drawing(path, reader="full")
     assert full.custom_properties == (("dxfcheck.required_torque", "450 N*m"),)
     assert any(t.text == "left lever now" for t in full.texts)
