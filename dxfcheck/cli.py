@@ -18,11 +18,15 @@ import json
 import logging
 import sys
 from collections.abc import Sequence
-from typing import Any
+from dataclasses import replace
+from typing import TYPE_CHECKING, Any
 
 from dxfcheck.core.deadline import TimeLimitExceeded
 from dxfcheck.core.errors import ConfigError, DxfcheckError, LimitError, VerificationError
 from dxfcheck.core.textsafe import one_line
+
+if TYPE_CHECKING:
+    from dxfcheck.core.config import Config
 
 __all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_NOT_BRAKING", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
@@ -130,6 +134,12 @@ def _common(s: argparse.ArgumentParser) -> None:
     s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
     s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     s.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
+    s.add_argument(
+        "--skeleton-from",
+        choices=("auto", "layers", "geometry"),
+        default=None,
+        help="the skeleton from the role layers, inferred from the geometry, or auto (layers when they hold one)",
+    )
     s.add_argument(
         "--timeout",
         type=_seconds,
@@ -268,6 +278,16 @@ def _parser() -> argparse.ArgumentParser:
     return p
 
 
+def _config(args: argparse.Namespace) -> Config:
+    """The drawing's configuration with ``--skeleton-from`` applied."""
+    from dxfcheck.pipeline import resolve_config
+
+    cfg = resolve_config(args.drawing, args.config)
+    if getattr(args, "skeleton_from", None):
+        cfg = replace(cfg, infer=replace(cfg.infer, skeleton_from=args.skeleton_from))
+    return cfg
+
+
 def _annotate_shortcut(s: argparse.ArgumentParser) -> None:
     s.add_argument("--annotate", default=None, metavar="OUT.dxf", help="also write the marked-up copy")
     s.add_argument("--force", action="store_true", help="replace an existing --annotate output")
@@ -357,7 +377,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
         pin_tolerance_mm=tol,
         seed=args.seed,
         directions=directions,
-        config=args.config,
+        config=_config(args),
         units=args.units,
         tolerance_mm=_tolerance(args),
         effort_N=effort,
@@ -380,7 +400,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 def _solve(args: argparse.Namespace) -> int:
     from dxfcheck.output.json import solution_to_dict, write_json
     from dxfcheck.output.terminal import print_solution
-    from dxfcheck.pipeline import DEFAULT_MU, analyse, resolve_config
+    from dxfcheck.pipeline import DEFAULT_MU, analyse
 
     mu_value, mu_range = _mu_arg(args.mu)
     if args.samples is not None:
@@ -394,7 +414,7 @@ def _solve(args: argparse.Namespace) -> int:
     effort, mu = _effort_mu(args)
     torque = _quantity(args.torque, "--torque", "torque") if args.torque else None
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
-    cfg = resolve_config(args.drawing, args.config)
+    cfg = _config(args)
     sol = analyse(
         args.drawing,
         mu=mu,
@@ -427,7 +447,7 @@ def _check(args: argparse.Namespace) -> int:
     from dxfcheck.output.json import judgement_to_dict, write_json
     from dxfcheck.output.junit import junit_xml
     from dxfcheck.output.terminal import print_judgement
-    from dxfcheck.pipeline import check, resolve_config
+    from dxfcheck.pipeline import check
 
     overrides = [parse_assignment(s) for s in args.set]
     for key, value in (
@@ -443,7 +463,7 @@ def _check(args: argparse.Namespace) -> int:
             overrides.append((key, value))
     check_targets([Target(args.annotate, args.force), Target(args.junit, True, text=True)], protect=(args.drawing,))
     report_to = _report_stream(args, args.junit)
-    cfg = resolve_config(args.drawing, args.config)
+    cfg = _config(args)
     j = check(
         args.drawing,
         config=cfg,
@@ -470,10 +490,10 @@ def _annotate(args: argparse.Namespace) -> int:
     from pathlib import Path
 
     from dxfcheck.output.annotate import annotate
-    from dxfcheck.pipeline import analyse, resolve_config
+    from dxfcheck.pipeline import analyse
 
     effort, mu = _effort_mu(args)
-    cfg = resolve_config(args.drawing, args.config)
+    cfg = _config(args)
     out = args.output
     if out is None:
         p = Path(args.drawing)

@@ -261,6 +261,7 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "sidecar": d.sidecar_path,
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
         "layers": layers_json(d),
+        "skeleton": d.skeleton_source,
         "tolerance_mm": mech.tolerance_mm,
         "family": mech.family,
         "mechanism": _mechanism(mech),

@@ -1,0 +1,199 @@
+"""Draft a brake as a designer would, from its skeleton (a :class:`Sketch`),
+with no skeleton role layers: the test and demo drawings of
+:mod:`dxfcheck.infer`.
+
+Styles (see the README's "Drafted drawings" section):
+
+* ``centrelines`` (style 3): each centreline piece a centre line (layer
+  ``CL``, linetype CENTER by layer; every other piece on ``AXES`` with its
+  own DASHDOT linetype); each pin a hole circle with a boss circle around it
+  and a centre mark; each pivot also a hatched ground mark touching its
+  boss; the drum its braking circle with hub and shaft circles and a centre
+  mark; each shoe its lining face (an arc on the drum) with the backing
+  plate's arc and the two ends.
+
+Loads, springs, bands and labels stay on their role layers (a drawing
+rarely shows them otherwise).  ``clutter`` adds what a real sheet carries:
+a border and title text, a linear dimension, hidden lines through the
+mechanism and a bolt hole in the title block.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from dataclasses import dataclass
+from typing import Any
+
+from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.output.sketch import Sketch, _write_arc, _write_path, _write_text
+
+__all__ = ["BACKING_FACTOR", "BOSS_FACTOR", "STYLES", "draft", "save_drafted"]
+
+#: Boss circle around a hole: this many times the hole's radius.
+BOSS_FACTOR = 1.8
+#: Backing plate arc: this many times the drum radius.
+BACKING_FACTOR = 1.06
+#: The drafting styles :func:`draft` knows.
+STYLES = ("centrelines",)
+#: Linetypes made: name -> ([total length, dash, gap, ...], description).
+_LINETYPES = {
+    "CENTER": ([50.0, 32.0, -6.0, 6.0, -6.0], "Center ____ _ ____ _"),
+    "DASHDOT": ([25.0, 12.5, -6.0, 0.0, -6.0], "Dash dot __ . __ ."),
+    "HIDDEN": ([9.0, 6.0, -3.0], "Hidden __ __ __"),
+}
+_KEPT = ("load", "label", "band", "spring")
+_LAYERS = {"CL": "CENTER", "AXES": "CONTINUOUS", "PARTS": "CONTINUOUS", "HATCH": "CONTINUOUS", "HIDDEN": "HIDDEN"}
+
+
+@dataclass
+class _Sheet:
+    doc: Any
+    msp: Any
+    sk: Sketch
+    n_links: int = 0
+
+    def layer(self, role: str) -> str:
+        return self.sk.layers.get(role, role.upper())
+
+    def circle(self, c: Point, r: float, layer: str = "PARTS") -> None:
+        self.msp.add_circle(c, r, dxfattribs={"layer": layer})
+
+    def line(self, a: Point, b: Point, layer: str, **more: str) -> None:
+        self.msp.add_line(a, b, dxfattribs={"layer": layer, **more})
+
+    def centre_mark(self, c: Point, half: float) -> None:
+        self.line((c[0] - half, c[1]), (c[0] + half, c[1]), "CL")
+        self.line((c[0], c[1] - half), (c[0], c[1] + half), "CL")
+
+
+def _new_sheet(sk: Sketch) -> _Sheet:
+    doc = sk._new_doc("R2010")
+    for name, (pattern, text) in _LINETYPES.items():
+        doc.linetypes.add(name, pattern=pattern, description=text)
+    for name, lt_name in _LAYERS.items():
+        doc.layers.add(name, linetype=lt_name)
+    return _Sheet(doc, doc.modelspace(), sk)
+
+
+def _pin(sh: _Sheet, c: Point, r: float, grounded: bool) -> None:
+    boss = BOSS_FACTOR * r
+    sh.circle(c, r)
+    sh.circle(c, boss)
+    sh.centre_mark(c, 1.3 * boss)
+    if grounded:
+        _ground(sh, c, boss)
+
+
+def _ground(sh: _Sheet, c: Point, boss: float) -> None:
+    """A hatched ground block touching the boss, on the side (down, up,
+    left, right) farthest from every other hole."""
+    others = [it[2] for it in sh.sk.items if it[0] == "circle" and it[1] in ("pin", "pivot") and it[2] != c]
+    sides = ((0.0, -1.0), (0.0, 1.0), (-1.0, 0.0), (1.0, 0.0))
+
+    def clearance(u: Point) -> float:
+        mid = (c[0] + 1.4 * boss * u[0], c[1] + 1.4 * boss * u[1])
+        return min((math.dist(mid, o) for o in others), default=math.inf)
+
+    u = max(sides, key=clearance)
+    v = (-u[1], u[0])
+    near, far = boss, 1.8 * boss
+    corners = [
+        (c[0] + d * u[0] + w * v[0], c[1] + d * u[1] + w * v[1])
+        for d, w in ((near, -2 * boss), (far, -2 * boss), (far, 2 * boss), (near, 2 * boss))
+    ]
+    hatch = sh.msp.add_hatch(color=8, dxfattribs={"layer": "HATCH"})
+    hatch.set_pattern_fill("ANSI31", scale=0.5)
+    hatch.paths.add_polyline_path(corners, is_closed=True)
+    sh.line(corners[0], corners[3], "PARTS")
+
+
+def _drum(sh: _Sheet, c: Point, r: float) -> None:
+    sh.circle(c, r)
+    sh.circle(c, 0.4 * r)  # hub
+    sh.circle(c, 0.2 * r)  # shaft
+    sh.centre_mark(c, 1.15 * r)
+
+
+def _shoe(sh: _Sheet, c: Point, r: float, a0: float, a1: float) -> None:
+    sh.msp.add_arc(c, r, a0, a1, dxfattribs={"layer": "PARTS"})
+    rb = BACKING_FACTOR * r
+    sh.msp.add_arc(c, rb, a0, a1, dxfattribs={"layer": "PARTS"})
+    for a in (math.radians(a0), math.radians(a1)):
+        u = (math.cos(a), math.sin(a))
+        sh.line((c[0] + r * u[0], c[1] + r * u[1]), (c[0] + rb * u[0], c[1] + rb * u[1]), "PARTS")
+
+
+def _link(sh: _Sheet, points: tuple[Point, ...]) -> None:
+    """A centre line: on ``CL`` (CENTER by layer), or every other one on
+    ``AXES`` with its own DASHDOT linetype."""
+    attribs = {"layer": "CL"} if sh.n_links % 2 == 0 else {"layer": "AXES", "linetype": "DASHDOT"}
+    sh.n_links += 1
+    if len(points) == 2:
+        sh.msp.add_line(points[0], points[1], dxfattribs=attribs)
+    else:
+        sh.msp.add_lwpolyline(points, dxfattribs=attribs)
+
+
+def _clutter(sh: _Sheet) -> None:
+    """Border, title, a dimension, hidden lines and a bolt hole."""
+    from ezdxf.bbox import extents
+
+    box = extents(sh.msp)
+    (x0, y0), (x1, y1) = (box.extmin.x - 150, box.extmin.y - 250), (box.extmax.x + 150, box.extmax.y + 150)
+    corners = [(x0, y0), (x1, y0), (x1, y1), (x0, y1)]
+    sh.msp.add_lwpolyline(corners, close=True, dxfattribs={"layer": "BORDER"})
+    sh.msp.add_text("TARNBECK QUARRY - BRAKE ASSEMBLY", height=12, dxfattribs={"layer": "TITLE"}).set_placement(
+        (x0 + 20, y0 + 40)
+    )
+    sh.circle((x1 - 40, y0 + 40), 6.0, "TITLE")  # a bolt hole of the title block: no part reaches it
+    sh.line((x0, y0 + 100), (x1, y0 + 100), "TITLE")
+    circles = [it for it in sh.sk.items if it[0] == "circle" and it[1] in ("pin", "pivot")]
+    if len(circles) >= 2:
+        a, b = circles[0][2], circles[1][2]
+        dim = sh.msp.add_linear_dim(base=(a[0], max(a[1], b[1]) + 60), p1=a, p2=b, dxfattribs={"layer": "DIM"})
+        dim.render()
+    if circles:  # a hidden edge through a pin's centre: ignored, though it would join parts
+        c = circles[-1][2]
+        sh.line((c[0] - 80, c[1] - 30), (c[0] + 80, c[1] + 30), "HIDDEN")
+        sh.line((c[0] - 100, c[1]), (c[0] + 100, c[1]), "HIDDEN")
+
+
+def draft(sk: Sketch, style: str = "centrelines", *, clutter: bool = True) -> Any:
+    """An ezdxf document drafting ``sk`` in ``style`` (see :data:`STYLES`)."""
+    if style not in STYLES:
+        raise ValueError(f"style must be one of {STYLES}, got {style!r}")
+    sh = _new_sheet(sk)
+    grounded = [it[2] for it in sk.items if it[0] == "circle" and it[1] == "pivot"]
+    for it in sk.items:
+        kind, role = it[0], it[1]
+        if role in _KEPT:
+            _write_kept(sh, it)
+        elif kind == "circle" and role == "drum":
+            _drum(sh, it[2], it[3])
+        elif kind == "circle":
+            _pin(sh, it[2], it[3], it[2] in grounded)
+        elif kind == "arc":
+            _shoe(sh, it[2], it[3], it[4], it[5])
+        elif kind == "path":
+            _link(sh, tuple(it[2]))
+    if clutter:
+        _clutter(sh)
+    return sh.doc
+
+
+def _write_kept(sh: _Sheet, it: tuple[Any, ...]) -> None:
+    """A load, label, band or spring item on its role layer, as the sketch
+    writes it."""
+    attribs = {"layer": sh.layer(it[1])}
+    if it[0] == "arc":
+        _write_arc(sh.msp, it, Affine(), 1.0, False, attribs)
+    elif it[0] == "path":
+        _write_path(sh.msp, it, Affine(), "R2010", attribs)
+    elif it[0] == "text":
+        _write_text(sh.msp, it, Affine(), 1.0, attribs)
+
+
+def save_drafted(sk: Sketch, path: str | os.PathLike[str], style: str = "centrelines", *, clutter: bool = True) -> None:
+    """Write :func:`draft`'s document to ``path``."""
+    draft(sk, style, clutter=clutter).saveas(os.fspath(path))

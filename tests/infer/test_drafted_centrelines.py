@@ -1,0 +1,92 @@
+"""Style 3 (centre lines): every brake of the catalogue drafted with centre
+lines between pin circles (bosses, centre marks, hatched ground marks, the
+drum with hub and shaft, linings with backing plates) and clutter (border,
+title, a dimension, hidden lines through a pin, a bolt hole) solves to the
+same mechanism and the same forces as its skeleton twin (``twins.py``: the
+project's own invariant, no published source).  The skeleton twins
+themselves are checked against published methods elsewhere
+(tests/statics/).
+"""
+
+from __future__ import annotations
+
+import subprocess
+import sys
+
+import pytest
+from common import CATALOGUE, ROOT, winch_two_shoe
+from twins import assert_same_mechanism, assert_same_solution
+
+import dxfcheck
+from dxfcheck.core.config import Config, InferSettings
+from dxfcheck.core.errors import MechanismError
+from dxfcheck.core.findings import Code
+from dxfcheck.output.drafting import save_drafted
+
+
+@pytest.mark.parametrize("name", list(CATALOGUE))
+def test_drafted_twin_solves_the_same(tmp_path, name):
+    make, mu = CATALOGUE[name]
+    skeleton, drafted = tmp_path / "skeleton.dxf", tmp_path / "drafted.dxf"
+    make().save(skeleton)
+    save_drafted(make(), drafted, "centrelines")
+    a = dxfcheck.analyse(skeleton, mu=mu)
+    b = dxfcheck.analyse(drafted, mu=mu)
+    assert a.mechanism.drawing.skeleton_source == "layers"
+    assert b.mechanism.drawing.skeleton_source == "geometry (centre lines)"
+    assert_same_mechanism(a, b)
+    assert_same_solution(a, b)
+    codes = {f.code for f in b.findings}
+    assert Code.SKELETON_INFERRED in codes
+    assert Code.HOLE_UNUSED in codes  # the title block's bolt hole
+    assert not codes & {Code.DRUM_AMBIGUOUS, Code.PIVOT_GUESSED, Code.NO_LINING_CIRCLE}
+
+
+def test_forced_layers_on_a_drafted_drawing_finds_no_skeleton(tmp_path):
+    path = tmp_path / "drafted.dxf"
+    save_drafted(winch_two_shoe(), path)
+    cfg = Config(infer=InferSettings(skeleton_from="layers"))
+    with pytest.raises(MechanismError) as exc:
+        dxfcheck.analyse(path, config=cfg)
+    assert Code.NO_DRUM in {f.code for f in exc.value.findings}
+
+
+def test_forced_geometry_on_a_skeleton_drawing_is_refused_with_a_finding(tmp_path):
+    path = tmp_path / "skeleton.dxf"
+    winch_two_shoe().save(path)
+    cfg = Config(infer=InferSettings(skeleton_from="geometry"))
+    with pytest.raises(MechanismError) as exc:
+        dxfcheck.analyse(path, config=cfg)
+    assert Code.NO_PART_GEOMETRY in {f.code for f in exc.value.findings}
+
+
+def _cli(*args):
+    return subprocess.run(
+        [sys.executable, "-m", "dxfcheck", *args], capture_output=True, text=True, cwd=ROOT, timeout=120
+    )
+
+
+def test_cli_header_says_where_the_skeleton_came_from(tmp_path):
+    drafted, skeleton = tmp_path / "drafted.dxf", tmp_path / "skeleton.dxf"
+    save_drafted(winch_two_shoe(), drafted)
+    winch_two_shoe().save(skeleton)
+    out = _cli("solve", str(drafted), "--mu", "0.3")
+    assert out.returncode == 0, out.stderr
+    assert "skeleton: inferred from the geometry (centre lines)" in out.stdout
+    out = _cli("solve", str(skeleton), "--mu", "0.3")
+    assert "skeleton: from the role layers" in out.stdout
+    out = _cli("solve", str(drafted), "--mu", "0.3", "--skeleton-from", "layers")
+    assert out.returncode == 2
+    assert "M201" in out.stderr
+    out = _cli("solve", str(drafted), "--mu", "0.3", "--json")
+    assert '"skeleton": "geometry (centre lines)"' in out.stdout
+
+
+def test_project_file_forces_the_source(tmp_path):
+    (tmp_path / "dxfcheck.toml").write_text('[infer]\nskeleton_from = "layers"\n')
+    drafted = tmp_path / "drafted.dxf"
+    save_drafted(winch_two_shoe(), drafted)
+    out = _cli("solve", str(drafted), "--mu", "0.3")
+    assert out.returncode == 2
+    out = _cli("solve", str(drafted), "--mu", "0.3", "--skeleton-from", "auto")
+    assert out.returncode == 0, out.stderr
