@@ -1,0 +1,176 @@
+"""Inference against hand-labelled drawings: the near cases of issue 16.
+
+Each drawing is drafted here entity by entity (ezdxf), and the expected role
+of every circle and arc is written down by hand from the drafting rules in
+the README ("Drafted drawings"); no published source is involved.
+
+The base drawing: a drum of radius 100 at the origin, a lever drawn as a
+centre line from the pivot P(-200, 150) to the pin Q(300, 150), the shoe's
+centre line from (0, 150) down to the lining face at (0, 100), the lining an
+arc from 75° to 105° on the drum, and an arm from Q up to (300, 400).
+"""
+
+from __future__ import annotations
+
+import ezdxf
+import pytest
+
+from dxfcheck.core.config import Config, InferSettings, Role
+from dxfcheck.core.findings import Code
+from dxfcheck.pipeline import read_skeleton
+
+P, Q = (-200.0, 150.0), (300.0, 150.0)
+
+
+def _doc():
+    doc = ezdxf.new("R2010", units=4)
+    doc.linetypes.add("CENTER", pattern=[50.0, 32.0, -6.0, 6.0, -6.0])
+    doc.linetypes.add("HIDDEN", pattern=[9.0, 6.0, -3.0])
+    doc.layers.add("CL", linetype="CENTER")
+    doc.layers.add("HID", linetype="HIDDEN")
+    return doc
+
+
+def _base(doc, *, frame=True, lining=True):
+    msp = doc.modelspace()
+    msp.add_circle((0, 0), 100)
+    msp.add_line(P, Q, dxfattribs={"layer": "CL"})
+    msp.add_line((0, 150), (0, 100), dxfattribs={"layer": "CL"})
+    msp.add_line(Q, (300, 400), dxfattribs={"layer": "CL"})
+    if lining:
+        msp.add_arc((0, 0), 100, 75, 105)
+    msp.add_circle(P, 10)
+    msp.add_circle(Q, 8)
+    if frame:
+        h = msp.add_hatch()
+        h.paths.add_polyline_path([(-240, 120), (-160, 120), (-160, 140), (-240, 140)], is_closed=True)
+    return msp
+
+
+def _read(tmp_path, doc, **infer):
+    path = tmp_path / "near.dxf"
+    doc.saveas(path)
+    return read_skeleton(path, Config(infer=InferSettings(**infer)))
+
+
+def _roles(d, role):
+    return [(c.center, round(c.radius_mm, 9)) for c in d.circles_of(role)]
+
+
+def test_base_drawing(tmp_path):
+    doc = _doc()
+    _base(doc)
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.DRUM) == [((0.0, 0.0), 100.0)]
+    assert _roles(d, Role.PIVOT) == [(P, 10.0)]
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    (shoe,) = [a for a in d.arcs if a.role is Role.SHOE]
+    assert (shoe.radius_mm, shoe.start_deg, shoe.end_deg) == pytest.approx((100, 75, 105))
+    assert len(d.paths_of(Role.LINK)) == 3
+
+
+def test_pin_inside_a_boss_circle_is_the_pin(tmp_path):
+    """Q drawn as a hole of radius 8 inside a boss of radius 16: the pin is
+    the hole (diameter 16), the boss is no pin and no finding."""
+    doc = _doc()
+    _base(doc).add_circle(Q, 16)
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    assert Code.HOLE_SIZES_DIFFER not in {f.code for f in d.findings}
+
+
+def test_holes_of_slightly_different_diameters_are_one_pin(tmp_path):
+    """Q drawn as 16 mm in the lever and 16.6 mm in the arm: one pin, the
+    smaller diameter, with M235 naming both."""
+    doc = _doc()
+    _base(doc).add_circle(Q, 8.3)
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    (f,) = [f for f in d.findings if f.code is Code.HOLE_SIZES_DIFFER]
+    assert "16, 16.6" in f.message
+
+
+def test_lining_and_backing_plate_arcs(tmp_path):
+    """The lining drawn as two concentric arcs (face at r = 100, backing plate
+    at 108) with its ends: only the face is the shoe's contact arc."""
+    doc = _doc()
+    msp = _base(doc)
+    msp.add_arc((0, 0), 108, 75, 105)
+    d = _read(tmp_path, doc)
+    shoes = [a for a in d.arcs if a.role is Role.SHOE]
+    assert [(a.radius_mm, a.start_deg, a.end_deg) for a in shoes] == [pytest.approx((100, 75, 105))]
+
+
+def test_drum_with_hub_and_shaft_circles(tmp_path):
+    """Hub (r 40) and shaft (r 20) circles concentric with the drum, and a
+    centre mark across the drum: one drum, no pins there, no extra part."""
+    doc = _doc()
+    msp = _base(doc)
+    msp.add_circle((0, 0), 40)
+    msp.add_circle((0, 0), 20)
+    msp.add_line((-115, 0), (115, 0), dxfattribs={"layer": "CL"})
+    msp.add_line((0, -115), (0, 115), dxfattribs={"layer": "CL"})
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.DRUM) == [((0.0, 0.0), 100.0)]
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    assert len(d.paths_of(Role.LINK)) == 3
+
+
+def test_two_circles_that_might_be_the_drum(tmp_path):
+    """A second circle (r 50 at (600, 0)) with an arc on it: M231 names both;
+    the larger of two equally supported candidates is taken."""
+    doc = _doc()
+    msp = _base(doc)
+    msp.add_circle((600, 0), 50)
+    msp.add_arc((600, 0), 50, 10, 40)
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.DRUM) == [((0.0, 0.0), 100.0)]
+    (f,) = [f for f in d.findings if f.code is Code.DRUM_AMBIGUOUS]
+    assert "r 100" in f.message and "r 50" in f.message
+
+
+def test_no_lining_arc_no_drum(tmp_path):
+    doc = _doc()
+    _base(doc, lining=False)
+    d = _read(tmp_path, doc)
+    assert d.circles_of(Role.DRUM) == ()
+    assert Code.NO_LINING_CIRCLE in {f.code for f in d.findings}
+
+
+def test_no_frame_drawn_pivot_guessed_and_hidden_lines_ignored(tmp_path):
+    """Without any frame geometry, the hole one part alone reaches (P) is
+    taken as a pivot with M233; a hidden line through P is no second part."""
+    doc = _doc()
+    msp = _base(doc, frame=False)
+    msp.add_line((-260, 150), (-140, 150), dxfattribs={"layer": "HID"})
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.PIVOT) == [(P, 10.0)]
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    (f,) = [f for f in d.findings if f.code is Code.PIVOT_GUESSED]
+    assert "(-200, 150)" in f.message
+
+
+def test_frame_named_by_layer(tmp_path):
+    """A frame bracket outline on a layer named in [infer] frame_layers
+    makes the hole it touches a pivot (no hatch)."""
+    doc = _doc()
+    msp = _base(doc, frame=False)
+    msp.add_lwpolyline([(-240, 100), (-160, 100), (-160, 140), (-240, 140)], close=True, dxfattribs={"layer": "BASE"})
+    d = _read(tmp_path, doc, frame_layers=("BASE",))
+    assert _roles(d, Role.PIVOT) == [(P, 10.0)]
+    assert Code.PIVOT_GUESSED not in {f.code for f in d.findings}
+
+
+def test_centre_layer_named_in_the_project_file(tmp_path):
+    """Continuous lines on a layer named in [infer] centre_layers are centre
+    lines."""
+    doc = ezdxf.new("R2010", units=4)
+    msp = doc.modelspace()
+    msp.add_circle((0, 0), 100)
+    msp.add_arc((0, 0), 100, 75, 105)
+    msp.add_line(P, Q, dxfattribs={"layer": "AXIS"})
+    msp.add_line((0, 150), (0, 100), dxfattribs={"layer": "AXIS"})
+    msp.add_circle(P, 10)
+    d = _read(tmp_path, doc, centre_layers=("AXIS",))
+    assert len(d.paths_of(Role.LINK)) == 2
+    assert _roles(d, Role.PIVOT) == [(P, 10.0)]
