@@ -36,11 +36,19 @@ from dxfcheck.infer.roles import (
 )
 from dxfcheck.read.drawing import ArcGeom, CircleGeom, Drawing, PathGeom
 
-__all__ = ["CENTRE_MARK_FACTOR", "Inferred", "infer_centrelines", "is_centre", "is_hidden", "usable"]
+__all__ = [
+    "CENTRE_MARK_FACTOR",
+    "Inferred",
+    "infer_centrelines",
+    "is_centre",
+    "is_hidden",
+    "part_centre_lines",
+    "usable",
+]
 
 #: A centre line through a circle's centre reaching at most this many times
 #: the largest radius there to each side is a centre mark.
-CENTRE_MARK_FACTOR = 1.6
+CENTRE_MARK_FACTOR = 2.0
 _CENTRE_WORDS = ("CENTER", "CENTRE", "DASHDOT", "CHAIN", "ACAD_ISO04W100", "ACAD_ISO08W100", "ACAD_ISO10W100")
 _HIDDEN_WORDS = ("HIDDEN", "DASHED", "ACAD_ISO02W100", "ACAD_ISO03W100", "PHANTOM", "DOT")
 
@@ -110,6 +118,15 @@ def _reach(hole: Hole, lines: object, ends: PointIndex, tol: float) -> int:
 def _member_ends(drawing: Drawing) -> list[Point]:
     """Band and spring ends: members that reach a pin without a centre line."""
     return [q for p in drawing.paths if p.role in (Role.BAND, Role.SPRING) for q in (p.points[0], p.points[-1])]
+
+
+def part_centre_lines(lw: Linework, settings: InferSettings) -> list[RawPath]:
+    """The centre lines that are not centre marks: the parts of style 3."""
+    centre_all = [p for p in lw.paths if not p.hatch and is_centre(p.ink, settings)]
+    solid_circles = [c for c in lw.circles if not is_centre(c.ink, settings)]
+    tol = tolerance_of([q for p in centre_all for q in p.points] + [c.center for c in solid_circles])
+    marks = _marks(centre_all, solid_circles, tol)
+    return [p for i, p in enumerate(centre_all) if i not in marks]
 
 
 def infer_centrelines(lw: Linework, drawing: Drawing, settings: InferSettings) -> Inferred:

@@ -44,14 +44,15 @@ ARC_CHORD_DEG = 5.0
 class Ink:
     """How a piece of linework was drawn: its effective ``layer`` and
     ``linetype`` (upper case), the ``block`` it was drawn in (None: model
-    space), its entity (``source``) and ``placement``, the handles of the
-    INSERTs that placed it joined by ``/`` (the identity of one inserted
-    part)."""
+    space), its entity (``source``), ``seq`` its place in drawing order,
+    and ``placement``, the handles of the INSERTs that placed it joined by
+    ``/`` (the identity of one inserted part)."""
 
     layer: str
     linetype: str
     block: str | None
     source: Source
+    seq: int = 0
 
     @property
     def placement(self) -> str:
@@ -185,7 +186,7 @@ def _ink(w: _Walk, e: Any, parent: tuple[str, str] | None, block: str | None, vi
         lt = parent[1] if parent is not None else "CONTINUOUS"
     if lt == "BYLAYER":
         lt = w.linetype_of_layer(layer)
-    return Ink(layer.upper(), lt, block, Source(str(e.dxf.get("handle", "?")), layer, via))
+    return Ink(layer.upper(), lt, block, Source(str(e.dxf.get("handle", "?")), layer, via), w.visits)
 
 
 def _insert(w: _Walk, e: Any, m: Affine, ink: Ink, blocks: tuple[str, ...], depth: int) -> None:
@@ -283,7 +284,11 @@ def _bulge_points(p0: Point, p1: Point, bulge: float) -> list[Point]:
     return [*out, p1]
 
 
-def _add_polyline(w: _Walk, verts: list[tuple[float, float, float]], closed: bool, m: Affine, ink: Ink) -> None:
+def _add_polyline(
+    w: _Walk, verts: list[tuple[float, float, float]], closed: bool, m: Affine, ink: Ink, *, arcs: bool = True
+) -> None:
+    """A polyline as a path of chords (:func:`_bulge_points`); with
+    ``arcs``, its arc segments also as arcs."""
     if len(verts) < 2 or not _finite(*(c for v in verts for c in v)):
         return
     local: list[Point] = [(verts[0][0], verts[0][1])]
@@ -292,6 +297,8 @@ def _add_polyline(w: _Walk, verts: list[tuple[float, float, float]], closed: boo
         p0, p1 = verts[i], verts[(i + 1) % len(verts)]
         local += _bulge_points((p0[0], p0[1]), (p1[0], p1[1]), p0[2])
     bulged = any(v[2] != 0.0 for v in verts[:last])
+    if bulged and arcs:
+        _bulge_arcs(w, verts, last, m, ink)
     pts: list[Point] = []
     for p in (m.apply(q) for q in local):
         if not pts or p != pts[-1]:
@@ -300,6 +307,30 @@ def _add_polyline(w: _Walk, verts: list[tuple[float, float, float]], closed: boo
         pts.append(pts[0])
     if len(pts) >= 2:
         w.paths.append(RawPath(tuple(pts), closed or (len(pts) > 3 and pts[0] == pts[-1]), ink, bulged))
+
+
+def _bulge_arcs(w: _Walk, verts: list[tuple[float, float, float]], last: int, m: Affine, ink: Ink) -> None:
+    """Each arc segment of a polyline also as an arc (a lining face drawn
+    in a part's outline is a lining arc)."""
+    scale = m.similarity_scale(SIMILARITY_RTOL)
+    if scale is None:
+        return
+    for i in range(last):
+        x0, y0, b = verts[i]
+        x1, y1, _ = verts[(i + 1) % len(verts)]
+        if b == 0.0 or (x0, y0) == (x1, y1):
+            continue
+        theta = 4.0 * math.atan(b)
+        chord = math.hypot(x1 - x0, y1 - y0)
+        radius = chord / (2.0 * math.sin(theta / 2.0))
+        h = radius * math.cos(theta / 2.0)
+        cx, cy = (x0 + x1) / 2 - h * (y1 - y0) / chord, (y0 + y1) / 2 + h * (x1 - x0) / chord
+        c = m.apply((cx, cy))
+        ends = [m.apply(p) for p in ((x0, y0), (x1, y1))]
+        a0, a1 = (math.degrees(math.atan2(p[1] - c[1], p[0] - c[0])) % 360 for p in ends)
+        if (theta < 0) != m.mirrors:  # clockwise in the world: the arc runs from the far end
+            a0, a1 = a1, a0
+        w.arcs.append(RawArc(c, abs(radius) * scale, a0, a1, ink))
 
 
 def _take_hatch(w: _Walk, e: Any, m: Affine, ink: Ink) -> None:
@@ -331,7 +362,7 @@ def _take_hatch(w: _Walk, e: Any, m: Affine, ink: Ink) -> None:
                     ]
         if len(verts) >= 3:
             before = len(w.paths)
-            _add_polyline(w, verts, True, mm, ink)
+            _add_polyline(w, verts, True, mm, ink, arcs=False)
             if len(w.paths) > before:
                 last = w.paths[-1]
                 w.paths[-1] = RawPath(last.points, True, ink, last.bulged, hatch=True)

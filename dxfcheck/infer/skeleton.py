@@ -16,8 +16,9 @@ from pathlib import Path
 from dxfcheck.core.config import SKELETON_SOURCES, Config, Role
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code, Finding
-from dxfcheck.infer.centrelines import Inferred, infer_centrelines, is_centre, usable
+from dxfcheck.infer.centrelines import Inferred, infer_centrelines, part_centre_lines, usable
 from dxfcheck.infer.linework import Linework, read_linework
+from dxfcheck.infer.outlines import infer_outlines
 from dxfcheck.infer.roles import infer_finding
 from dxfcheck.read.drawing import Drawing, load_document
 
@@ -65,8 +66,12 @@ def infer_from_linework(drawing: Drawing, lw: Linework, config: Config) -> Drawi
     """``drawing`` with its skeleton roles replaced by what ``lw`` shows."""
     settings = config.infer
     lw = usable(lw, settings)
-    if any(not p.hatch and is_centre(p.ink, settings) for p in lw.paths):
+    if part_centre_lines(lw, settings):
         got = infer_centrelines(lw, drawing, settings)
+    elif lw.paths:
+        got = infer_outlines(lw, drawing, settings)
+        if not got.links:
+            got = Inferred("none", (), (), (), (_nothing(),))
     else:
         got = Inferred("none", (), (), (), (_nothing(),))
     return _replace_skeleton(drawing, got)
@@ -75,9 +80,10 @@ def infer_from_linework(drawing: Drawing, lw: Linework, config: Config) -> Drawi
 def _nothing() -> Finding:
     return infer_finding(
         Code.NO_PART_GEOMETRY,
-        "the drawing has no skeleton layers and no part geometry dxfcheck can read (centre lines); "
-        "draw the parts' centre lines with a centre linetype, name their layer in [infer] centre_layers, "
-        "or put the skeleton on the role layers",
+        "the drawing has no skeleton layers and no part geometry dxfcheck can read (centre lines between pin "
+        "circles, or closed part outlines holding their holes); draw the parts' centre lines with a centre "
+        "linetype or name their layer in [infer] centre_layers, close the outlines, or put the skeleton on the "
+        "role layers",
     )
 
 

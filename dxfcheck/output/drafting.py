@@ -4,6 +4,12 @@ with no skeleton role layers: the test and demo drawings of
 
 Styles (see the README's "Drafted drawings" section):
 
+* ``outlines`` (style 2): each part a closed outline around its
+  centreline (a polyline; a straight rod between two pins as two parallel
+  lines with an eye arc at each end), a hole circle in every part a pin
+  joins, a centre mark on each pin; a shoe's outline takes in its lining,
+  whose face is also drawn as an arc on layer ``LINING``; each pivot's hole
+  also in a hatched frame bracket.
 * ``centrelines`` (style 3): each centreline piece a centre line (layer
   ``CL``, linetype CENTER by layer; every other piece on ``AXES`` with its
   own DASHDOT linetype); each pin a hole circle with a boss circle around it
@@ -28,14 +34,26 @@ from typing import Any
 from dxfcheck.core.geometry import Affine, Point
 from dxfcheck.output.sketch import Sketch, _write_arc, _write_path, _write_text
 
-__all__ = ["BACKING_FACTOR", "BOSS_FACTOR", "STYLES", "draft", "save_drafted"]
+__all__ = [
+    "BACKING_FACTOR",
+    "BOSS_FACTOR",
+    "LINING_FRACTION",
+    "PLAIN_HALF_WIDTH_MM",
+    "STYLES",
+    "draft",
+    "save_drafted",
+]
 
 #: Boss circle around a hole: this many times the hole's radius.
 BOSS_FACTOR = 1.8
 #: Backing plate arc: this many times the drum radius.
 BACKING_FACTOR = 1.06
 #: The drafting styles :func:`draft` knows.
-STYLES = ("centrelines",)
+STYLES = ("centrelines", "outlines")
+#: Lining thickness: this fraction of the drum radius.
+LINING_FRACTION = 0.06
+#: Half width of a part without pins [mm].
+PLAIN_HALF_WIDTH_MM = 12.0
 #: Linetypes made: name -> ([total length, dash, gap, ...], description).
 _LINETYPES = {
     "CENTER": ([50.0, 32.0, -6.0, 6.0, -6.0], "Center ____ _ ____ _"),
@@ -164,6 +182,11 @@ def draft(sk: Sketch, style: str = "centrelines", *, clutter: bool = True) -> An
     if style not in STYLES:
         raise ValueError(f"style must be one of {STYLES}, got {style!r}")
     sh = _new_sheet(sk)
+    if style == "outlines":
+        _outlines(sh, sk)
+        if clutter:
+            _clutter(sh)
+        return sh.doc
     grounded = [it[2] for it in sk.items if it[0] == "circle" and it[1] == "pivot"]
     for it in sk.items:
         kind, role = it[0], it[1]
@@ -197,3 +220,107 @@ def _write_kept(sh: _Sheet, it: tuple[Any, ...]) -> None:
 def save_drafted(sk: Sketch, path: str | os.PathLike[str], style: str = "centrelines", *, clutter: bool = True) -> None:
     """Write :func:`draft`'s document to ``path``."""
     draft(sk, style, clutter=clutter).saveas(os.fspath(path))
+
+
+# --- style 2: outlines ------------------------------------------------------
+
+
+def _mechanism_of(sk: Sketch) -> Any:
+    """The mechanism the sketch's skeleton reads as (which pin joins which
+    part, which part carries which shoe)."""
+    import tempfile
+    from pathlib import Path
+
+    from dxfcheck.mechanism import build_mechanism
+    from dxfcheck.read.drawing import read_drawing
+
+    with tempfile.TemporaryDirectory() as tmp:
+        path = Path(tmp) / "skeleton.dxf"
+        sk.save(path)
+        return build_mechanism(read_drawing(path))
+
+
+def _outlines(sh: _Sheet, sk: Sketch) -> None:
+    """Holes (pin order), part outlines (part order), lining faces, frame
+    brackets, then the kept roles."""
+    mech = _mechanism_of(sk)
+    if mech.drum is not None:
+        _drum(sh, mech.drum.center, mech.drum.radius_mm)
+    joins = {pin.center: len(pin.parts) for pin in mech.pins}
+    holes = [(it[2], it[3], it[1] == "pivot") for it in sk.items if it[0] == "circle" and it[1] in ("pin", "pivot")]
+    for c, r, _ in holes:  # one hole in each part the pin joins (in the frame only: a spring's anchor)
+        for _ in range(max(1, joins.get(c, 1))):
+            sh.circle(c, r)
+        sh.centre_mark(c, 1.5 * r)
+    radius = {p.name: p.diameter_mm / 2 for p in mech.pins}
+    for part in mech.parts:
+        half = BOSS_FACTOR * max((radius[n] for n in part.pins), default=PLAIN_HALF_WIDTH_MM / BOSS_FACTOR)
+        shoe = next((s for s in mech.shoes if s.part == part.name), None)
+        if shoe is None and len(part.segments) == 1 and len(part.pins) == 2:
+            _rod(sh, part.segments[0], half)
+            continue
+        _outline(sh, part.segments, half, shoe)
+    for s in mech.shoes:
+        sh.msp.add_arc(s.arc.center, s.arc.radius_mm, s.arc.start_deg, s.arc.end_deg, dxfattribs={"layer": "LINING"})
+    for c, r, grounded in holes:
+        if grounded:
+            _bracket(sh, c, 2.5 * r)
+    for it in sk.items:
+        if it[1] in _KEPT:
+            _write_kept(sh, it)
+
+
+def _outline(sh: _Sheet, segments: Any, half: float, shoe: Any) -> None:
+    """A part's outline: the union of its segments widened by ``half``
+    and, for a shoe's part, its lining; written as one closed polyline."""
+    import shapely
+
+    shapes = [shapely.LineString(seg).buffer(half, quad_segs=8) for seg in segments]
+    if shoe is not None:
+        shapes.append(_lining(shoe))
+    poly = shapely.unary_union(shapes)
+    if poly.geom_type != "Polygon":
+        poly = poly.convex_hull
+    pts = [(float(x), float(y)) for x, y in poly.exterior.coords[:-1]]
+    sh.msp.add_lwpolyline(pts, close=True, dxfattribs={"layer": "PARTS"})
+
+
+def _lining(shoe: Any) -> Any:
+    """The lining and its plate as a polygon: between the drum radius and
+    :data:`LINING_FRACTION` of it outward (inward for an internal shoe)."""
+    import shapely
+
+    a = shoe.arc
+    r0 = a.radius_mm
+    r1 = r0 * (1 - LINING_FRACTION) if shoe.internal else r0 * (1 + LINING_FRACTION)
+    n = max(2, math.ceil(a.span_deg / 0.25))
+    angles = [math.radians(a.start_deg + a.span_deg * k / n) for k in range(n + 1)]
+    inner = [(a.center[0] + r0 * math.cos(t), a.center[1] + r0 * math.sin(t)) for t in angles]
+    outer = [(a.center[0] + r1 * math.cos(t), a.center[1] + r1 * math.sin(t)) for t in reversed(angles)]
+    return shapely.Polygon(inner + outer)
+
+
+def _rod(sh: _Sheet, seg: tuple[Point, Point], half: float) -> None:
+    """A straight rod between two pins: two parallel lines and an eye (a
+    half circle of radius ``half``) round each pin."""
+    (x0, y0), (x1, y1) = seg
+    ang = math.degrees(math.atan2(y1 - y0, x1 - x0))
+    nx, ny = -math.sin(math.radians(ang)) * half, math.cos(math.radians(ang)) * half
+    sh.line((x0 + nx, y0 + ny), (x1 + nx, y1 + ny), "PARTS")
+    sh.line((x0 - nx, y0 - ny), (x1 - nx, y1 - ny), "PARTS")
+    sh.msp.add_arc((x1, y1), half, ang - 90, ang + 90, dxfattribs={"layer": "PARTS"})
+    sh.msp.add_arc((x0, y0), half, ang + 90, ang + 270, dxfattribs={"layer": "PARTS"})
+
+
+def _bracket(sh: _Sheet, c: Point, half: float) -> None:
+    """A square frame bracket round a pivot's hole, hatched."""
+    corners = [
+        (c[0] - half, c[1] - half),
+        (c[0] + half, c[1] - half),
+        (c[0] + half, c[1] + half),
+        (c[0] - half, c[1] + half),
+    ]
+    sh.msp.add_lwpolyline(corners, close=True, dxfattribs={"layer": "PARTS"})
+    hatch = sh.msp.add_hatch(color=8, dxfattribs={"layer": "HATCH"})
+    hatch.set_pattern_fill("ANSI31", scale=0.5)
+    hatch.paths.add_polyline_path(corners, is_closed=True)

@@ -174,3 +174,98 @@ def test_centre_layer_named_in_the_project_file(tmp_path):
     d = _read(tmp_path, doc, centre_layers=("AXIS",))
     assert len(d.paths_of(Role.LINK)) == 2
     assert _roles(d, Role.PIVOT) == [(P, 10.0)]
+
+
+# --- style 2: outlines with holes ---------------------------------------------
+
+R = (300.0, 450.0)
+
+
+def _bracket(msp, c, half=20.0, hatched=True, layer="0"):
+    pts = [
+        (c[0] - half, c[1] - half),
+        (c[0] + half, c[1] - half),
+        (c[0] + half, c[1] + half),
+        (c[0] - half, c[1] + half),
+    ]
+    msp.add_lwpolyline(pts, close=True, dxfattribs={"layer": layer})
+    if hatched:
+        msp.add_hatch().paths.add_polyline_path(pts, is_closed=True)
+
+
+def _outlined(doc, *, frame=True):
+    """The lever with its shoe web as one closed polyline holding P and Q;
+    the tie rod Q-R as two parallel lines with an eye arc at each end; P and
+    R also in frame brackets; a border round the whole sheet."""
+    msp = doc.modelspace()
+    msp.add_circle((0, 0), 100)
+    msp.add_arc((0, 0), 100, 75, 105)
+    lever = [(-220, 165), (-220, 135), (-15, 135), (-15, 100), (15, 100), (15, 135), (320, 135), (320, 165)]
+    msp.add_lwpolyline(lever, close=True)
+    msp.add_line((286, 150), (286, 450))
+    msp.add_line((314, 150), (314, 450))
+    msp.add_arc(Q, 14, 180, 360)
+    msp.add_arc(R, 14, 0, 180)
+    for c, r, n in ((P, 10, 2), (Q, 8, 2), (R, 8, 2)):
+        for _ in range(n):
+            msp.add_circle(c, r)
+    if frame:
+        _bracket(msp, P)
+        _bracket(msp, R)
+    msp.add_lwpolyline([(-400, -300), (600, -300), (600, 700), (-400, 700)], close=True, dxfattribs={"layer": "BORDER"})
+    return msp
+
+
+def test_outlines_tie_rod_with_eyes_and_frame_brackets(tmp_path):
+    """Hand-labelled: P and R pivots (in a part and a hatched bracket), Q a
+    pin joining the lever and the tie rod (drawn as two lines and two eye
+    arcs), the border no part; two parts, so two centreline pieces; the
+    lever's piece ends on the lining arc's middle (0, 100)."""
+    doc = _doc()
+    _outlined(doc)
+    d = _read(tmp_path, doc)
+    assert d.skeleton_source == "geometry (outlines)"
+    assert _roles(d, Role.DRUM) == [((0.0, 0.0), 100.0)]
+    assert _roles(d, Role.PIVOT) == [(P, 10.0), (R, 8.0)]
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    links = d.paths_of(Role.LINK)
+    assert len(links) == 2
+    lever, rod = links
+    assert set(lever.points[:2]) == {P, Q}
+    assert lever.points[2] == pytest.approx((0.0, 100.0), abs=1e-9)
+    assert len(lever.points) == 3
+    assert set(rod.points) == {Q, R}
+
+
+def test_outlines_hole_in_one_part_only(tmp_path):
+    """A hole in the lever alone, with a frame drawn elsewhere: loose or a
+    pivot whose bracket is missing; M236, and it is no pin."""
+    doc = _doc()
+    _outlined(doc).add_circle((100, 150), 5)
+    d = _read(tmp_path, doc)
+    assert (100.0, 150.0) not in [c.center for c in d.circles]
+    (f,) = [f for f in d.findings if f.code is Code.HOLE_ONE_PART]
+    assert "(100, 150)" in f.message
+
+
+def test_outlines_without_a_frame_guess_the_pivots(tmp_path):
+    """No bracket at all: the holes in one part only (P in the lever, R in
+    the rod) are taken as pivots, with M233 naming them."""
+    doc = _doc()
+    _outlined(doc, frame=False)
+    d = _read(tmp_path, doc)
+    assert _roles(d, Role.PIVOT) == [(P, 10.0), (R, 8.0)]
+    (f,) = [f for f in d.findings if f.code is Code.PIVOT_GUESSED]
+    assert "(-200, 150)" in f.message and "(300, 450)" in f.message
+
+
+def test_outlines_frame_named_by_layer_not_hatched(tmp_path):
+    """Brackets on a layer named in [infer] frame_layers, not hatched, hold
+    the pivots just as well."""
+    doc = _doc()
+    msp = _outlined(doc, frame=False)
+    _bracket(msp, P, hatched=False, layer="BASE")
+    _bracket(msp, R, hatched=False, layer="BASE")
+    d = _read(tmp_path, doc, frame_layers=("BASE",))
+    assert _roles(d, Role.PIVOT) == [(P, 10.0), (R, 8.0)]
+    assert Code.PIVOT_GUESSED not in {f.code for f in d.findings}

@@ -1,0 +1,295 @@
+"""Style 2: parts drawn as closed outlines with their holes (and style 1,
+parts as blocks, whose outlines arrive here placed in the world).
+
+* A **contour** is a closed polyline, or lines, arcs and open polylines
+  that close (shapely's ``polygonize`` after their ends are snapped within
+  the tolerance); hatch boundaries, centre lines and hidden lines are none.
+  A contour that holds two or more others whole is a border or a view's
+  frame, not a part.
+* The **frame** is every contour that is hatched (a hatch covers a point
+  inside it), lies on a layer of ``[infer] frame_layers``, or was drawn in a
+  block of ``[infer] frame_blocks``; every other contour is a **part**.
+* A **hole** (concentric circles, :func:`dxfcheck.infer.roles.holes`) joins
+  every part whose contour holds its centre; a band or spring end at it
+  counts as one more member.  Held by the frame too, it is a **pivot**;
+  else, joining two or more members, a **pin**.  A hole in one part only is
+  loose (M236, ignored) when the drawing shows a frame, and a pivot (M233)
+  when it shows none.
+* Each part becomes one centreline piece through its **key points**: its
+  holes, the start of each load and the end of each spring it holds (each
+  point given to the part that holds it deepest), and the middle of each
+  lining arc on its outline, placed last; in the shortest order (every
+  order is tried up to :data:`MAX_ORDERED_POINTS` points, else nearest
+  neighbour), so an L-shaped crank reads as its two arms.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+from collections.abc import Sequence
+from dataclasses import dataclass
+from typing import Any
+
+from dxfcheck.core.config import InferSettings, Role
+from dxfcheck.core.findings import Code, Finding
+from dxfcheck.core.geometry import Point, dist
+from dxfcheck.infer.centrelines import Inferred, is_centre
+from dxfcheck.infer.linework import ARC_CHORD_DEG, Ink, Linework, RawArc
+from dxfcheck.infer.roles import (
+    Hole,
+    PointIndex,
+    drum_of,
+    fmt,
+    holes,
+    infer_finding,
+    shoe_arcs,
+    tolerance_of,
+)
+from dxfcheck.read.drawing import CircleGeom, Drawing, PathGeom
+
+__all__ = ["MAX_ORDERED_POINTS", "Contour", "contours", "infer_outlines"]
+
+#: Parts with at most this many key points have them ordered by trying
+#: every order (7! = 5040).
+MAX_ORDERED_POINTS = 7
+
+
+@dataclass(frozen=True)
+class Contour:
+    """A closed outline: its ``polygon`` (shapely), the ``ink`` of its first
+    entity, whether it is ``frame``."""
+
+    polygon: Any
+    ink: Ink
+    frame: bool
+
+
+def _arc_chain(a: RawArc) -> list[Point]:
+    span = (a.end_deg - a.start_deg) % 360.0 or 360.0
+    n = max(1, math.ceil(span / ARC_CHORD_DEG))
+    return [
+        (
+            a.center[0] + a.radius_mm * math.cos(math.radians(a.start_deg + span * k / n)),
+            a.center[1] + a.radius_mm * math.sin(math.radians(a.start_deg + span * k / n)),
+        )
+        for k in range(n + 1)
+    ]
+
+
+def _snap(chains: list[tuple[list[Point], Ink]], tol: float) -> list[tuple[list[Point], Ink]]:
+    """Chains with their ends moved onto one another within ``tol``."""
+    ends = [c[0][i] for c in chains for i in (0, -1)]
+    index = PointIndex(ends)
+    rep: list[Point] = []
+    for k, p in enumerate(ends):
+        near = index.near(p, tol)
+        rep.append(ends[near[0]] if near and near[0] < k else p)
+    return [([rep[2 * i], *pts[1:-1], rep[2 * i + 1]], ink) for i, (pts, ink) in enumerate(chains)]
+
+
+def contours(lw: Linework, settings: InferSettings, tol: float) -> list[Contour]:
+    """The closed outlines of the linework, in drawing order (of each
+    one's first entity), without containers."""
+    import shapely
+
+    solid = [p for p in lw.paths if not p.hatch and not is_centre(p.ink, settings) and _outline_layer(p.ink, settings)]
+    polys: list[tuple[Any, Ink]] = []
+    for p in solid:
+        if p.closed and len(p.points) >= 4:
+            poly = shapely.Polygon(p.points)
+            polys.append((poly if poly.is_valid else poly.buffer(0), p.ink))
+    pieces = [(list(p.points), p.ink) for p in solid if not p.closed]
+    pieces += [(_arc_chain(a), a.ink) for a in lw.arcs if not is_centre(a.ink, settings)]
+    pieces = _snap(pieces, tol) if pieces else []
+    if pieces:
+        lines = [shapely.LineString(pts) for pts, _ in pieces]
+        tree = shapely.STRtree(lines)
+        for poly in shapely.get_parts(shapely.polygonize(lines)):
+            hits = tree.query(poly.exterior, predicate="covers")
+            inks = [pieces[int(i)][1] for i in hits] or [pieces[0][1]]
+            polys.append((shapely.Polygon(poly.exterior), min(inks, key=lambda k: k.seq)))
+    polys.sort(key=lambda pi: pi[1].seq)  # drawing order of each outline's first entity
+    hatched = [shapely.Polygon(p.points) for p in lw.paths if p.hatch and len(p.points) >= 4]
+    hatch_tree = shapely.STRtree(hatched) if hatched else None
+    out = []
+    for poly, ink in _without_containers(polys):
+        frame = ink.layer in settings.frame_layers or (ink.block or "") in settings.frame_blocks
+        if not frame and hatch_tree is not None:
+            frame = len(hatch_tree.query(poly.representative_point(), predicate="within")) > 0
+        out.append(Contour(poly, ink, frame))
+    return out
+
+
+def _outline_layer(ink: Ink, settings: InferSettings) -> bool:
+    return not settings.outline_layers or ink.layer in settings.outline_layers or ink.layer in settings.frame_layers
+
+
+def _without_containers(polys: list[tuple[Any, Ink]]) -> list[tuple[Any, Ink]]:
+    """Drop the contours that hold two or more others whole (borders)."""
+    import shapely
+
+    if not polys:
+        return []
+    tree = shapely.STRtree([p for p, _ in polys])
+    out = []
+    for i, (poly, ink) in enumerate(polys):
+        inside = [int(j) for j in tree.query(poly, predicate="contains_properly") if int(j) != i]
+        if len(inside) < 2:
+            out.append((poly, ink))
+    return out
+
+
+def _member_ends(drawing: Drawing) -> list[Point]:
+    return [q for p in drawing.paths if p.role in (Role.BAND, Role.SPRING) for q in (p.points[0], p.points[-1])]
+
+
+def _force_points(drawing: Drawing) -> list[Point]:
+    """Where loads start and springs end: each must lie on its part."""
+    starts = [p.points[0] for p in drawing.paths if p.role is Role.LOAD]
+    return starts + [q for p in drawing.paths if p.role is Role.SPRING for q in (p.points[0], p.points[-1])]
+
+
+def _deepest(parts: Sequence[Contour], tree: Any, p: Point, tol: float) -> int | None:
+    """The part that holds ``p`` deepest (within ``tol`` of its outline)."""
+    import shapely
+
+    pt = shapely.Point(p)
+    hits = [int(i) for i in tree.query(pt, predicate="dwithin", distance=tol)]
+    if not hits:
+        return None
+    return max(hits, key=lambda i: (parts[i].polygon.contains(pt), parts[i].polygon.exterior.distance(pt), -i))
+
+
+def _order(points: list[Point], last: list[Point]) -> list[Point]:
+    """``points`` in the shortest order, then ``last`` (each after the
+    point nearest it... in the order given)."""
+    if len(points) <= 1:
+        return [*points, *last]
+    if len(points) <= MAX_ORDERED_POINTS:
+        best = min(itertools.permutations(points), key=lambda seq: _length([*seq, *last[:1]]))
+        return [*best, *last]
+    start = min(points)
+    seq, rest = [start], [q for q in points if q != start]
+    while rest:
+        nxt = min(rest, key=lambda q: dist(seq[-1], q))
+        seq.append(nxt)
+        rest.remove(nxt)
+    return [*seq, *last]
+
+
+def _length(seq: Sequence[Point]) -> float:
+    return sum(dist(a, b) for a, b in itertools.pairwise(seq))
+
+
+@dataclass
+class _Members:
+    """Per part index: its holes, force points and lining-arc middles."""
+
+    holes: dict[int, list[Hole]]
+    points: dict[int, list[Point]]
+    arcs: dict[int, list[Point]]
+
+
+def infer_outlines(lw: Linework, drawing: Drawing, settings: InferSettings, style: str = "outlines") -> Inferred:
+    """The skeleton of a drawing whose parts are closed outlines with holes."""
+    import shapely
+
+    circles = [c for c in lw.circles if not is_centre(c.ink, settings)]
+    arcs = [a for a in lw.arcs if not is_centre(a.ink, settings)]
+    tol = tolerance_of([q for p in lw.paths for q in p.points[:1]] + [c.center for c in circles])
+    band_arcs = [(a.center, a.radius_mm) for a in drawing.arcs if a.role is Role.BAND]
+    drum, findings = drum_of(circles, [(a.center, a.radius_mm) for a in arcs] + band_arcs, tol)
+    shoes = shoe_arcs(drum, arcs, tol) if drum is not None else ()
+    cons = contours(lw, settings, tol)
+    parts = [c for c in cons if not c.frame]
+    frames = [c for c in cons if c.frame]
+    part_tree = shapely.STRtree([c.polygon for c in parts])
+    frame_tree = shapely.STRtree([c.polygon for c in frames])
+    members = _Members({}, {}, {})
+    for p in _force_points(drawing):
+        gi = _deepest(parts, part_tree, p, tol)
+        if gi is not None:
+            members.points.setdefault(gi, []).append(p)
+    for arc in shoes:
+        gi = _deepest(parts, part_tree, arc.point_at(arc.mid_deg), tol)
+        if gi is not None:
+            members.arcs.setdefault(gi, []).append(arc.point_at(arc.mid_deg))
+    ends = PointIndex(_member_ends(drawing))
+    pivots, pins, more = _classify(holes(circles, drum, tol), part_tree, frame_tree, bool(frames), ends, members, tol)
+    findings += more
+    out_circles = (
+        *((CircleGeom(Role.DRUM, drum.center, drum.radius_mm, drum.ink.source),) if drum else ()),
+        *(h.geom(Role.PIVOT) for h in pivots),
+        *(h.geom(Role.PIN) for h in pins),
+    )
+    links = _links(parts, members)
+    return Inferred(style, out_circles, tuple(shoes), links, tuple(findings))
+
+
+def _classify(
+    found: Sequence[Hole],
+    part_tree: Any,
+    frame_tree: Any,
+    has_frame: bool,
+    ends: PointIndex,
+    members: _Members,
+    tol: float,
+) -> tuple[list[Hole], list[Hole], list[Finding]]:
+    """Pivots, pins and the findings on the holes."""
+    import shapely
+
+    pivots: list[Hole] = []
+    pins: list[Hole] = []
+    findings: list[Finding] = []
+    guessed: list[Hole] = []
+    for hole in found:
+        pt = shapely.Point(hole.center)
+        in_parts = sorted(int(i) for i in part_tree.query(pt, predicate="intersects"))
+        held = len(frame_tree.query(pt, predicate="intersects")) > 0
+        n = len(in_parts) + len(ends.near(hole.center, tol))
+        if n == 0:
+            if not held:
+                findings.append(_note(Code.HOLE_UNUSED, hole, "lies in no part; not a pin (ignored)"))
+            continue
+        if not held and n == 1:
+            if has_frame:
+                msg = (
+                    "lies in one part only and not in the frame: a loose hole or a pivot whose bracket is not drawn "
+                    "(ignored). Hatch the frame there, or name its layer in [infer] frame_layers"
+                )
+                findings.append(_note(Code.HOLE_ONE_PART, hole, msg))
+                continue
+            guessed.append(hole)
+            held = True
+        for gi in in_parts:
+            members.holes.setdefault(gi, []).append(hole)
+        (pivots if held else pins).append(hole)
+    if guessed:
+        where = ", ".join(fmt(h.center) for h in guessed)
+        findings.append(
+            infer_finding(
+                Code.PIVOT_GUESSED,
+                f"the drawing shows no frame (no hatched outline, nothing on a frame layer), so the holes in one part "
+                f"only are taken as pivots: {where}. Hatch the frame or name its layer in [infer] frame_layers",
+                [h.circles[0].ink.source for h in guessed],
+                guessed[0].center,
+            )
+        )
+    return pivots, pins, findings
+
+
+def _note(code: Code, hole: Hole, what: str) -> Finding:
+    c = hole.circles[0]
+    return infer_finding(code, f"hole of diameter {2 * c.radius_mm:.6g} mm at {fmt(c.center)} {what}", [c.ink.source])
+
+
+def _links(parts: Sequence[Contour], members: _Members) -> tuple[PathGeom, ...]:
+    """One centreline piece per part through its key points."""
+    out = []
+    for gi, part in enumerate(parts):
+        pts = list(dict.fromkeys([h.center for h in members.holes.get(gi, [])] + members.points.get(gi, [])))
+        seq = _order(pts, members.arcs.get(gi, []))
+        if len(seq) >= 2:
+            out.append(PathGeom(Role.LINK, tuple(seq), part.ink.source))
+    return tuple(out)
