@@ -223,6 +223,17 @@ def _parser() -> argparse.ArgumentParser:
     a.add_argument("--force", action="store_true", help="replace existing output files")
     _shoe_options(a)
 
+    k = sub.add_parser(
+        "skeleton", help="write the skeleton dxfcheck reads (inferred or from the layers) on the role layers"
+    )
+    _common(k)
+    k.add_argument(
+        "-o", "--output", default=None, metavar="OUT.dxf", help="skeleton drawing (default DRAWING-skeleton.dxf)"
+    )
+    k.add_argument("--over", action="store_true", help="write it over a faded copy of the drawing (default: alone)")
+    k.add_argument("--svg", default=None, metavar="OUT.svg", help="also draw the skeleton as SVG")
+    k.add_argument("--force", action="store_true", help="replace existing output files")
+
     m = sub.add_parser("compare", help="compare revisions of a drawing: what the change did to the loads")
     m.add_argument("drawings", nargs="+", help="OLD.dxf NEW.dxf [MORE.dxf ...] or a folder (sorted by name)")
     m.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
@@ -516,6 +527,32 @@ def _annotate(args: argparse.Namespace) -> int:
     return EXIT_OK
 
 
+def _skeleton(args: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    from dxfcheck.core.findings import has_errors
+    from dxfcheck.output.skeleton_dxf import write_skeleton
+    from dxfcheck.output.terminal import print_skeleton
+    from dxfcheck.pipeline import read_mechanism
+
+    cfg = _config(args)
+    out = args.output
+    if out is None:
+        p = Path(args.drawing)
+        out = str(p.with_name(f"{p.stem}-skeleton{p.suffix or '.dxf'}"))
+    mech = read_mechanism(
+        args.drawing, config=cfg, units=args.units, tolerance_mm=_tolerance(args), max_bytes=_max_bytes(args)
+    )
+    written = write_skeleton(mech, out, config=cfg, over=args.over, svg=args.svg, force=args.force)
+    if args.json:
+        from dxfcheck.output.json import skeleton_to_dict, write_json
+
+        write_json(skeleton_to_dict(mech, written))
+    else:
+        print_skeleton(mech, written, out=sys.stderr if args.svg == "-" else sys.stdout)
+    return EXIT_OK if not has_errors(list(mech.findings)) else EXIT_UNUSABLE
+
+
 def _subject(args: argparse.Namespace) -> str:
     many = getattr(args, "drawings", None) or getattr(args, "paths", None) or []
     return str(getattr(args, "drawing", None) or " ".join(many))
@@ -730,7 +767,14 @@ def _main(argv: Sequence[str] | None) -> int:
 
     args = _parser().parse_args(argv)
     _route_library_logs()
-    commands = {"solve": _solve, "check": _check, "annotate": _annotate, "compare": _compare, "batch": _batch}
+    commands = {
+        "solve": _solve,
+        "check": _check,
+        "annotate": _annotate,
+        "skeleton": _skeleton,
+        "compare": _compare,
+        "batch": _batch,
+    }
     from dxfcheck.core import deadline
 
     try:

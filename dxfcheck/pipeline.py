@@ -30,7 +30,16 @@ if TYPE_CHECKING:
     from dxfcheck.gate.spec import Spec
     from dxfcheck.statics.sampling import SensitivityResult
 
-__all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "read_skeleton", "resolve_config", "sensitivity"]
+__all__ = [
+    "DEFAULT_MU",
+    "analyse",
+    "check",
+    "contact_options",
+    "read_mechanism",
+    "read_skeleton",
+    "resolve_config",
+    "sensitivity",
+]
 
 _UNIT_LOAD_N = 1.0  # [N] a load without a magnitude, when solving for a torque
 
@@ -70,6 +79,20 @@ def read_skeleton(
     :func:`dxfcheck.infer.skeleton_drawing`)."""
     drawing = read_drawing(path, config, units=units, max_bytes=max_bytes)
     return skeleton_drawing(drawing, config, max_bytes=max_bytes)
+
+
+def read_mechanism(
+    path: str | os.PathLike[str],
+    *,
+    config: str | os.PathLike[str] | Config | None = None,
+    units: str | None = None,
+    tolerance_mm: float | None = None,
+    max_bytes: int | None = None,
+) -> Mechanism:
+    """The mechanism a drawing shows, with its findings, errors included
+    (nothing is solved): what ``dxfcheck skeleton`` writes."""
+    drawing = read_skeleton(path, resolve_config(path, config), units=units, max_bytes=max_bytes)
+    return build_mechanism(drawing, tolerance_mm=tolerance_mm)
 
 
 def resolve_config(drawing: str | os.PathLike[str], config: str | os.PathLike[str] | Config | None) -> Config:

@@ -37,6 +37,7 @@ __all__ = [
     "CHECK_SCHEMA",
     "COMPARE_SCHEMA",
     "SENSITIVITY_SCHEMA",
+    "SKELETON_SCHEMA",
     "SOLVE_SCHEMA",
     "case_to_dict",
     "comparisons_to_dict",
@@ -44,6 +45,7 @@ __all__ = [
     "judgement_to_dict",
     "rule_to_dict",
     "sensitivity_to_dict",
+    "skeleton_to_dict",
     "solution_to_dict",
     "trend_rows",
     "write_json",
@@ -51,6 +53,8 @@ __all__ = [
 
 #: Versioned name of the ``solve --json`` document.
 SOLVE_SCHEMA = "dxfcheck.solve/2"
+#: Schema of ``dxfcheck skeleton --json``.
+SKELETON_SCHEMA = "dxfcheck.skeleton/1"
 #: Versioned name of the ``check --json`` document.
 CHECK_SCHEMA = "dxfcheck.check/2"
 #: Versioned name of the ``compare --json`` document.
@@ -246,6 +250,22 @@ def _mechanism(mech: Mechanism) -> dict[str, Any]:
         "pins": [_pin(p) for p in mech.pins],
         "shoes": [_shoe(s) for s in mech.shoes],
         "loads": [_load(ld) for ld in mech.loads],
+    }
+
+
+def skeleton_to_dict(mech: Mechanism, written: list[str]) -> dict[str, Any]:
+    """The ``dxfcheck.skeleton/1`` JSON document: where the skeleton came
+    from, the mechanism read, the files written, the findings."""
+    d = mech.drawing
+    return {
+        "schema": SKELETON_SCHEMA,
+        "tool": _tool(),
+        "drawing": d.path,
+        "skeleton": d.skeleton_source,
+        "mechanism": _mechanism(mech),
+        "written": written,
+        "findings": [f.as_dict() for f in mech.findings],
+        "caution": CAUTION,
     }
 
 

@@ -32,6 +32,7 @@ from dxfcheck.statics import CaseSolution, Solution
 if TYPE_CHECKING:
     from rich.table import Table
 
+    from dxfcheck.mechanism import Mechanism
     from dxfcheck.read.drawing import Drawing
 
 __all__ = [
@@ -44,6 +45,7 @@ __all__ = [
     "print_findings",
     "print_judgement",
     "print_sensitivity",
+    "print_skeleton",
     "print_solution",
     "skeleton_line",
 ]
@@ -113,6 +115,23 @@ def _severity_style(sev: Severity) -> str:
 
 
 # --- solve: the header, then per direction one function per table ------------
+
+
+def print_skeleton(mech: Mechanism, written: list[str], out: IO[str] | None = None) -> None:
+    """What ``dxfcheck skeleton`` read and wrote, with the findings."""
+    console = _console(out)
+    d = mech.drawing
+    console.print(f"[bold]dxfcheck skeleton[/]  {_esc(d.path)}")
+    console.print(skeleton_line(d), markup=False)
+    console.print(
+        f"{len(mech.parts)} parts, {len(mech.pins)} pins ({sum(p.grounded for p in mech.pins)} pivots), "
+        f"{len(mech.shoes)} shoes, {len(mech.bands)} bands, {len(mech.loads)} loads"
+    )
+    print_findings(console, mech.findings)
+    for w in written:
+        if w != "-":
+            console.print(f"wrote {_esc(w)}")
+    console.print(CAUTION, markup=False)
 
 
 def skeleton_line(d: Drawing) -> str:
