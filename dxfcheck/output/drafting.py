@@ -32,7 +32,9 @@ from dataclasses import dataclass
 from typing import Any
 
 from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.mechanism import build_mechanism
 from dxfcheck.output.sketch import Sketch, _write_arc, _write_path, _write_text
+from dxfcheck.read.drawing import read_drawing
 
 __all__ = [
     "BACKING_FACTOR",
@@ -230,9 +232,6 @@ def _mechanism_of(sk: Sketch) -> Any:
     part, which part carries which shoe)."""
     import tempfile
     from pathlib import Path
-
-    from dxfcheck.mechanism import build_mechanism
-    from dxfcheck.read.drawing import read_drawing
 
     with tempfile.TemporaryDirectory() as tmp:
         path = Path(tmp) / "skeleton.dxf"

@@ -17,9 +17,13 @@ import os
 from typing import Any
 
 from dxfcheck.core.config import Config, Role
+from dxfcheck.core.files import check_target
 from dxfcheck.core.geometry import Affine
 from dxfcheck.mechanism.model import Mechanism
+from dxfcheck.output.markup import save_copy
+from dxfcheck.output.picture import render_svg
 from dxfcheck.output.sketch import Sketch, _write_arc, _write_circle, _write_path, _write_text
+from dxfcheck.read.drawing import load_document
 
 __all__ = ["FADED_COLOR", "skeleton_document", "skeleton_sketch", "write_skeleton"]
 
@@ -61,8 +65,6 @@ def skeleton_document(mech: Mechanism, config: Config, *, over: bool) -> Any:
         return skeleton_sketch(mech, config).to_doc()
     from pathlib import Path
 
-    from dxfcheck.read.drawing import load_document
-
     doc, _ = load_document(Path(mech.drawing.path))
     for layer in doc.layers:
         layer.color = FADED_COLOR
@@ -98,9 +100,6 @@ def write_skeleton(
 ) -> list[str]:
     """Write the skeleton drawing (and its SVG picture); returns what was
     written.  Every target is checked before anything is written."""
-    from dxfcheck.core.files import check_target
-    from dxfcheck.output.markup import save_copy
-    from dxfcheck.output.picture import render_svg
 
     source = mech.drawing.path
     check_target(out, force=force, protect=(source,))
