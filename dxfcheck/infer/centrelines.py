@@ -39,6 +39,7 @@ from dxfcheck.read.drawing import ArcGeom, CircleGeom, Drawing, PathGeom
 __all__ = [
     "CENTRE_MARK_FACTOR",
     "Inferred",
+    "hole_sizes",
     "infer_centrelines",
     "is_centre",
     "is_hidden",
@@ -154,7 +155,7 @@ def infer_centrelines(lw: Linework, drawing: Drawing, settings: InferSettings) -
         if n == 0:
             findings.append(_unused(hole))
             continue
-        findings += _sizes(hole)
+        findings += _sizes(hole, tol)
         grounded = held_by_frame(frame, hole, tol) if frame is not None else n == 1
         if frame is None and n == 1:
             one_part.append(hole)
@@ -171,6 +172,11 @@ def infer_centrelines(lw: Linework, drawing: Drawing, settings: InferSettings) -
     return Inferred("centre lines", circles, arcs, links, tuple(findings))
 
 
+def hole_sizes(hole: Hole, tol: float) -> list[Finding]:
+    """M235 when the hole is drawn at slightly different diameters."""
+    return _sizes(hole, tol)
+
+
 def _unused(hole: Hole) -> Finding:
     c = hole.circles[0]
     return infer_finding(
@@ -182,9 +188,9 @@ def _unused(hole: Hole) -> Finding:
     )
 
 
-def _sizes(hole: Hole) -> list[Finding]:
+def _sizes(hole: Hole, tol: float) -> list[Finding]:
     """M235 when the hole is drawn at slightly different diameters."""
-    same = hole.same_size()
+    same = hole.same_size(tol)
     if len(same) < 2:
         return []
     sizes = ", ".join(f"{2 * c.radius_mm:.6g}" for c in same)

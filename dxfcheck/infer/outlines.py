@@ -34,7 +34,7 @@ from typing import Any
 from dxfcheck.core.config import InferSettings, Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, dist
-from dxfcheck.infer.centrelines import Inferred, is_centre
+from dxfcheck.infer.centrelines import Inferred, hole_sizes, is_centre
 from dxfcheck.infer.linework import ARC_CHORD_DEG, Ink, Linework, RawArc
 from dxfcheck.infer.roles import (
     Hole,
@@ -48,7 +48,15 @@ from dxfcheck.infer.roles import (
 )
 from dxfcheck.read.drawing import CircleGeom, Drawing, PathGeom
 
-__all__ = ["MAX_ORDERED_POINTS", "Contour", "contours", "infer_outlines"]
+__all__ = [
+    "MAX_ORDERED_POINTS",
+    "Contour",
+    "contours",
+    "drop_containers",
+    "infer_from_parts",
+    "infer_outlines",
+    "linework_tolerance",
+]
 
 #: Parts with at most this many key points have them ordered by trying
 #: every order (7! = 5040).
@@ -58,11 +66,14 @@ MAX_ORDERED_POINTS = 7
 @dataclass(frozen=True)
 class Contour:
     """A closed outline: its ``polygon`` (shapely), the ``ink`` of its first
-    entity, whether it is ``frame``."""
+    entity, whether it is ``frame``; ``placement``: for a part inserted as a
+    block (style 1), the INSERTs that placed it, whose circles are its holes
+    whatever the geometry (empty: the holes it holds are its own)."""
 
     polygon: Any
     ink: Ink
     frame: bool
+    placement: str = ""
 
 
 def _arc_chain(a: RawArc) -> list[Point]:
@@ -113,30 +124,31 @@ def contours(lw: Linework, settings: InferSettings, tol: float) -> list[Contour]
     hatched = [shapely.Polygon(p.points) for p in lw.paths if p.hatch and len(p.points) >= 4]
     hatch_tree = shapely.STRtree(hatched) if hatched else None
     out = []
-    for poly, ink in _without_containers(polys):
+    for poly, ink in polys:
         frame = ink.layer in settings.frame_layers or (ink.block or "") in settings.frame_blocks
         if not frame and hatch_tree is not None:
             frame = len(hatch_tree.query(poly.representative_point(), predicate="within")) > 0
         out.append(Contour(poly, ink, frame))
-    return out
+    return drop_containers(out)
 
 
 def _outline_layer(ink: Ink, settings: InferSettings) -> bool:
     return not settings.outline_layers or ink.layer in settings.outline_layers or ink.layer in settings.frame_layers
 
 
-def _without_containers(polys: list[tuple[Any, Ink]]) -> list[tuple[Any, Ink]]:
-    """Drop the contours that hold two or more others whole (borders)."""
+def drop_containers(cons: Sequence[Contour]) -> list[Contour]:
+    """Drop the contours that hold two or more others whole (a border, a
+    view's frame)."""
     import shapely
 
-    if not polys:
+    if not cons:
         return []
-    tree = shapely.STRtree([p for p, _ in polys])
+    tree = shapely.STRtree([c.polygon for c in cons])
     out = []
-    for i, (poly, ink) in enumerate(polys):
-        inside = [int(j) for j in tree.query(poly, predicate="contains_properly") if int(j) != i]
+    for i, c in enumerate(cons):
+        inside = [int(j) for j in tree.query(c.polygon, predicate="contains_properly") if int(j) != i]
         if len(inside) < 2:
-            out.append((poly, ink))
+            out.append(c)
     return out
 
 
@@ -191,17 +203,31 @@ class _Members:
     arcs: dict[int, list[Point]]
 
 
-def infer_outlines(lw: Linework, drawing: Drawing, settings: InferSettings, style: str = "outlines") -> Inferred:
+def linework_tolerance(lw: Linework, settings: InferSettings) -> float:
+    """The inference tolerance of a drawing of outlines [mm]."""
+    circles = [c for c in lw.circles if not is_centre(c.ink, settings)]
+    return tolerance_of([q for p in lw.paths for q in p.points[:1]] + [c.center for c in circles])
+
+
+def infer_outlines(lw: Linework, drawing: Drawing, settings: InferSettings) -> Inferred:
     """The skeleton of a drawing whose parts are closed outlines with holes."""
+    tol = linework_tolerance(lw, settings)
+    cons = contours(lw, settings, tol)
+    return infer_from_parts(lw, drawing, settings, "outlines", cons)
+
+
+def infer_from_parts(
+    lw: Linework, drawing: Drawing, settings: InferSettings, style: str, cons: Sequence[Contour]
+) -> Inferred:
+    """The skeleton, once the parts and the frame are known as contours."""
     import shapely
 
     circles = [c for c in lw.circles if not is_centre(c.ink, settings)]
     arcs = [a for a in lw.arcs if not is_centre(a.ink, settings)]
-    tol = tolerance_of([q for p in lw.paths for q in p.points[:1]] + [c.center for c in circles])
+    tol = linework_tolerance(lw, settings)
     band_arcs = [(a.center, a.radius_mm) for a in drawing.arcs if a.role is Role.BAND]
     drum, findings = drum_of(circles, [(a.center, a.radius_mm) for a in arcs] + band_arcs, tol)
     shoes = shoe_arcs(drum, arcs, tol) if drum is not None else ()
-    cons = contours(lw, settings, tol)
     parts = [c for c in cons if not c.frame]
     frames = [c for c in cons if c.frame]
     part_tree = shapely.STRtree([c.polygon for c in parts])
@@ -216,7 +242,15 @@ def infer_outlines(lw: Linework, drawing: Drawing, settings: InferSettings, styl
         if gi is not None:
             members.arcs.setdefault(gi, []).append(arc.point_at(arc.mid_deg))
     ends = PointIndex(_member_ends(drawing))
-    pivots, pins, more = _classify(holes(circles, drum, tol), part_tree, frame_tree, bool(frames), ends, members, tol)
+    owners = _Owners(
+        {c.placement: i for i, c in enumerate(parts) if c.placement},
+        {c.placement for c in frames if c.placement},
+        part_tree,
+        frame_tree,
+        [not c.placement for c in parts],
+        [not c.placement for c in frames],
+    )
+    pivots, pins, more = _classify(holes(circles, drum, tol), owners, bool(frames), ends, members, tol)
     findings += more
     out_circles = (
         *((CircleGeom(Role.DRUM, drum.center, drum.radius_mm, drum.ink.source),) if drum else ()),
@@ -227,26 +261,51 @@ def infer_outlines(lw: Linework, drawing: Drawing, settings: InferSettings, styl
     return Inferred(style, out_circles, tuple(shoes), links, tuple(findings))
 
 
+@dataclass(frozen=True)
+class _Owners:
+    """Who holds a hole: block-placed parts and frames by their own circles,
+    the others by containment."""
+
+    part_of: dict[str, int]
+    frame_placements: set[str]
+    part_tree: Any
+    frame_tree: Any
+    part_by_shape: list[bool]
+    frame_by_shape: list[bool]
+
+    def parts(self, hole: Hole) -> list[int]:
+        import shapely
+
+        pt = shapely.Point(hole.center)
+        found = {int(i) for i in self.part_tree.query(pt, predicate="intersects") if self.part_by_shape[int(i)]}
+        found |= {self.part_of[c.ink.placement] for c in hole.circles if c.ink.placement in self.part_of}
+        return sorted(found)
+
+    def frame(self, hole: Hole) -> bool:
+        import shapely
+
+        if any(c.ink.placement in self.frame_placements for c in hole.circles):
+            return True
+        hits = self.frame_tree.query(shapely.Point(hole.center), predicate="intersects")
+        return any(self.frame_by_shape[int(i)] for i in hits)
+
+
 def _classify(
     found: Sequence[Hole],
-    part_tree: Any,
-    frame_tree: Any,
+    owners: _Owners,
     has_frame: bool,
     ends: PointIndex,
     members: _Members,
     tol: float,
 ) -> tuple[list[Hole], list[Hole], list[Finding]]:
     """Pivots, pins and the findings on the holes."""
-    import shapely
-
     pivots: list[Hole] = []
     pins: list[Hole] = []
     findings: list[Finding] = []
     guessed: list[Hole] = []
     for hole in found:
-        pt = shapely.Point(hole.center)
-        in_parts = sorted(int(i) for i in part_tree.query(pt, predicate="intersects"))
-        held = len(frame_tree.query(pt, predicate="intersects")) > 0
+        in_parts = owners.parts(hole)
+        held = owners.frame(hole)
         n = len(in_parts) + len(ends.near(hole.center, tol))
         if n == 0:
             if not held:
@@ -262,6 +321,7 @@ def _classify(
                 continue
             guessed.append(hole)
             held = True
+        findings += hole_sizes(hole, tol)
         for gi in in_parts:
             members.holes.setdefault(gi, []).append(hole)
         (pivots if held else pins).append(hole)

@@ -141,7 +141,8 @@ def shoe_arcs(drum: RawCircle, arcs: Sequence[RawArc], tol: float) -> tuple[ArcG
 
 @dataclass(frozen=True)
 class Hole:
-    """Concentric circles at one place: ``circles`` smallest first."""
+    """Concentric circles at one place: ``circles`` smallest first (every
+    circle drawn there, in whichever part or block)."""
 
     circles: tuple[RawCircle, ...]
 
@@ -162,10 +163,10 @@ class Hole:
     def geom(self, role: Role) -> CircleGeom:
         return CircleGeom(role, self.center, self.radius_mm, self.circles[0].ink.source)
 
-    def same_size(self) -> list[RawCircle]:
+    def same_size(self, tol: float) -> list[RawCircle]:
         """The circles within :data:`BOSS_RATIO` of the smallest (the hole
-        as drawn in each part)."""
-        return [c for c in self.circles if c.radius_mm < BOSS_RATIO * self.radius_mm]
+        as drawn in each part), one per diameter (within ``tol``)."""
+        return _unique([c for c in self.circles if c.radius_mm < BOSS_RATIO * self.radius_mm], tol)
 
 
 def holes(circles: Sequence[RawCircle], drum: RawCircle | None, tol: float) -> list[Hole]:
@@ -182,14 +183,14 @@ def holes(circles: Sequence[RawCircle], drum: RawCircle | None, tol: float) -> l
         group = [j for j in index.near(c.center, tol) if not taken[j]]
         for j in group:
             taken[j] = True
-        members = sorted((pool[j] for j in group), key=lambda q: q.radius_mm)
-        out.append(Hole(tuple(_unique(members, tol))))
+        out.append(Hole(tuple(sorted((pool[j] for j in group), key=lambda q: q.radius_mm))))
     return out
 
 
 def _unique(circles: Sequence[RawCircle], tol: float) -> list[RawCircle]:
     """One circle per radius (a circle drawn twice, or the same hole drawn
-    in two parts exactly alike, counts once), smallest first."""
+    in two parts exactly alike, counts once), smallest first (``circles``
+    sorted by radius)."""
     out: list[RawCircle] = []
     for c in circles:
         if not out or c.radius_mm - out[-1].radius_mm > tol:

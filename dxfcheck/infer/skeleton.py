@@ -16,6 +16,7 @@ from pathlib import Path
 from dxfcheck.core.config import SKELETON_SOURCES, Config, Role
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code, Finding
+from dxfcheck.infer.blocks import infer_blocks
 from dxfcheck.infer.centrelines import Inferred, infer_centrelines, part_centre_lines, usable
 from dxfcheck.infer.linework import Linework, read_linework
 from dxfcheck.infer.outlines import infer_outlines
@@ -69,7 +70,7 @@ def infer_from_linework(drawing: Drawing, lw: Linework, config: Config) -> Drawi
     if part_centre_lines(lw, settings):
         got = infer_centrelines(lw, drawing, settings)
     elif lw.paths:
-        got = infer_outlines(lw, drawing, settings)
+        got = infer_blocks(lw, drawing, settings) or infer_outlines(lw, drawing, settings)
         if not got.links:
             got = Inferred("none", (), (), (), (_nothing(),))
     else:

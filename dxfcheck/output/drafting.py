@@ -10,6 +10,13 @@ Styles (see the README's "Drafted drawings" section):
   joins, a centre mark on each pin; a shoe's outline takes in its lining,
   whose face is also drawn as an arc on layer ``LINING``; each pivot's hole
   also in a hatched frame bracket.
+* ``blocks`` (style 1): each part a block (its outline, its holes, its
+  lining face) inserted turned and, every other one, mirrored, its contents
+  drawn on layer 0 so they take the reference's layer; a part that is the
+  mirror image of an earlier one (about the drum's vertical axis) is that
+  part's block inserted mirrored; the frame (hatched brackets with the
+  pivots' holes) a block of its own; a pin block (a circle and its centre
+  mark) at every pin that joins moving parts; the drum in model space.
 * ``centrelines`` (style 3): each centreline piece a centre line (layer
   ``CL``, linetype CENTER by layer; every other piece on ``AXES`` with its
   own DASHDOT linetype); each pin a hole circle with a boss circle around it
@@ -33,7 +40,7 @@ from typing import Any
 
 from dxfcheck.core.geometry import Affine, Point
 from dxfcheck.mechanism import build_mechanism
-from dxfcheck.output.sketch import Sketch, _write_arc, _write_path, _write_text
+from dxfcheck.output.sketch import Sketch, _write_arc, _write_circle, _write_path, _write_text
 from dxfcheck.read.drawing import read_drawing
 
 __all__ = [
@@ -51,7 +58,7 @@ BOSS_FACTOR = 1.8
 #: Backing plate arc: this many times the drum radius.
 BACKING_FACTOR = 1.06
 #: The drafting styles :func:`draft` knows.
-STYLES = ("centrelines", "outlines")
+STYLES = ("centrelines", "outlines", "blocks")
 #: Lining thickness: this fraction of the drum radius.
 LINING_FRACTION = 0.06
 #: Half width of a part without pins [mm].
@@ -184,6 +191,11 @@ def draft(sk: Sketch, style: str = "centrelines", *, clutter: bool = True) -> An
     if style not in STYLES:
         raise ValueError(f"style must be one of {STYLES}, got {style!r}")
     sh = _new_sheet(sk)
+    if style == "blocks":
+        _blocks(sh, sk)
+        if clutter:
+            _clutter(sh)
+        return sh.doc
     if style == "outlines":
         _outlines(sh, sk)
         if clutter:
@@ -270,8 +282,13 @@ def _outlines(sh: _Sheet, sk: Sketch) -> None:
 
 
 def _outline(sh: _Sheet, segments: Any, half: float, shoe: Any) -> None:
+    """A part's outline written as one closed polyline."""
+    sh.msp.add_lwpolyline(_outline_points(segments, half, shoe), close=True, dxfattribs={"layer": "PARTS"})
+
+
+def _outline_points(segments: Any, half: float, shoe: Any) -> list[Point]:
     """A part's outline: the union of its segments widened by ``half``
-    and, for a shoe's part, its lining; written as one closed polyline."""
+    and, for a shoe's part, its lining."""
     import shapely
 
     shapes = [shapely.LineString(seg).buffer(half, quad_segs=8) for seg in segments]
@@ -280,8 +297,7 @@ def _outline(sh: _Sheet, segments: Any, half: float, shoe: Any) -> None:
     poly = shapely.unary_union(shapes)
     if poly.geom_type != "Polygon":
         poly = poly.convex_hull
-    pts = [(float(x), float(y)) for x, y in poly.exterior.coords[:-1]]
-    sh.msp.add_lwpolyline(pts, close=True, dxfattribs={"layer": "PARTS"})
+    return [(float(x), float(y)) for x, y in poly.exterior.coords[:-1]]
 
 
 def _lining(shoe: Any) -> Any:
@@ -323,3 +339,145 @@ def _bracket(sh: _Sheet, c: Point, half: float) -> None:
     hatch = sh.msp.add_hatch(color=8, dxfattribs={"layer": "HATCH"})
     hatch.set_pattern_fill("ANSI31", scale=0.5)
     hatch.paths.add_polyline_path(corners, is_closed=True)
+
+
+# --- style 1: blocks --------------------------------------------------------
+
+#: Turn of the ``i``-th part's block reference: a base plus a step per part
+#: [degrees] (any values: the parts must read the same however placed).
+BLOCK_TURN_DEG = (17.0, 31.0)
+
+
+@dataclass(frozen=True)
+class _PartDraft:
+    """A part's world geometry: outline points, holes (centre, radius), the
+    lining face arc (centre, radius, start, end) or None."""
+
+    outline: tuple[Point, ...]
+    holes: tuple[tuple[Point, float], ...]
+    lining: tuple[Point, float, float, float] | None
+
+
+def _part_drafts(mech: Any, sk: Sketch) -> list[_PartDraft]:
+    radius = {p.name: p.diameter_mm / 2 for p in mech.pins}
+    centre = {p.name: p.center for p in mech.pins}
+    out = []
+    for part in mech.parts:
+        half = BOSS_FACTOR * max((radius[n] for n in part.pins), default=PLAIN_HALF_WIDTH_MM / BOSS_FACTOR)
+        shoe = next((s for s in mech.shoes if s.part == part.name), None)
+        lining = (shoe.arc.center, shoe.arc.radius_mm, shoe.arc.start_deg, shoe.arc.end_deg) if shoe else None
+        holes = tuple((centre[n], radius[n]) for n in part.pins)
+        out.append(_PartDraft(tuple(_outline_points(part.segments, half, shoe)), holes, lining))
+    return out
+
+
+def _mirror_of(a: _PartDraft, b: _PartDraft, axis_x: float) -> bool:
+    """Whether ``a`` is ``b`` mirrored about the vertical line x = axis_x."""
+    import shapely
+
+    def m(p: Point) -> Point:
+        return (2 * axis_x - p[0], p[1])
+
+    pa, pb = shapely.Polygon(a.outline), shapely.Polygon([m(q) for q in b.outline])
+    if pa.symmetric_difference(pb).area > 1e-9 * pa.area:
+        return False
+    key = sorted((round(c[0], 6), round(c[1], 6), round(r, 6)) for c, r in a.holes)
+    if key != sorted((round(m(c)[0], 6), round(m(c)[1], 6), round(r, 6)) for c, r in b.holes):
+        return False
+    if (a.lining is None) != (b.lining is None):
+        return False
+    if a.lining and b.lining:
+        la, lb = a.lining, b.lining
+        span_a, span_b = (la[3] - la[2]) % 360, (lb[3] - lb[2]) % 360
+        return abs(la[1] - lb[1]) < 1e-9 and abs(span_a - span_b) < 1e-9
+    return True
+
+
+def _blocks(sh: _Sheet, sk: Sketch) -> None:
+    mech = _mechanism_of(sk)
+    if mech.drum is not None:
+        _drum(sh, mech.drum.center, mech.drum.radius_mm)
+    axis_x = mech.drum.center[0] if mech.drum else 0.0
+    drafts = _part_drafts(mech, sk)
+    placed: list[tuple[str, Affine]] = []
+    for i, d in enumerate(drafts):
+        twin = next((j for j in range(i) if _mirror_of(d, drafts[j], axis_x)), None)
+        if twin is not None:
+            name, a = placed[twin]
+            a = Affine.translation(2 * axis_x, 0.0) @ Affine.scaling(-1.0, 1.0) @ a
+        else:
+            name = f"PART{i + 1}"
+            turn = BLOCK_TURN_DEG[0] + BLOCK_TURN_DEG[1] * i
+            a = Affine.translation(*d.outline[0]) @ Affine.rotation(turn) @ Affine.scaling(-1.0 if i % 2 else 1.0, 1.0)
+            _part_block(sh, name, d, _inverse(a))
+        placed.append((name, a))
+        _insert(sh, name, a, "PARTS")
+    _frame_block(sh, sk)
+    _pin_blocks(sh, mech)
+    for it in sk.items:
+        if it[1] in _KEPT:
+            _write_kept(sh, it)
+
+
+def _part_block(sh: _Sheet, name: str, d: _PartDraft, to_local: Affine) -> None:
+    """The block of a part, in its own frame, on layer 0."""
+    blk = sh.doc.blocks.new(name)
+    attribs = {"layer": "0"}
+    blk.add_lwpolyline([to_local.apply(p) for p in d.outline], close=True, dxfattribs=attribs)
+    for c, r in d.holes:
+        _write_circle(blk, ("circle", "", c, r), to_local, 1.0, attribs)
+    if d.lining is not None:
+        c, r, a0, a1 = d.lining
+        _write_arc(blk, ("arc", "", c, r, a0, a1), to_local, 1.0, to_local.mirrors, attribs)
+
+
+def _insert(sh: _Sheet, name: str, a: Affine, layer: str) -> None:
+    """An INSERT whose map is the similarity ``a`` (a rotation, an optional
+    mirror in x, a translation)."""
+    sx = -1.0 if a.mirrors else 1.0
+    rot = math.degrees(math.atan2(a.d * sx, a.a * sx))  # the first column is sx·(cos rot, sin rot)
+    sh.msp.add_blockref(name, (a.c, a.f), dxfattribs={"rotation": rot, "xscale": sx, "yscale": 1.0, "layer": layer})
+
+
+def _frame_block(sh: _Sheet, sk: Sketch) -> None:
+    """The frame: a hatched bracket round every pivot, with its hole."""
+    pivots = [(it[2], it[3]) for it in sk.items if it[0] == "circle" and it[1] == "pivot"]
+    if not pivots:
+        return
+    blk = sh.doc.blocks.new("FRAME")
+    for c, r in pivots:
+        half = 2.5 * r
+        corners = [
+            (c[0] - half, c[1] - half),
+            (c[0] + half, c[1] - half),
+            (c[0] + half, c[1] + half),
+            (c[0] - half, c[1] + half),
+        ]
+        blk.add_lwpolyline(corners, close=True, dxfattribs={"layer": "0"})
+        hatch = blk.add_hatch(color=8, dxfattribs={"layer": "HATCH"})
+        hatch.set_pattern_fill("ANSI31", scale=0.5)
+        hatch.paths.add_polyline_path(corners, is_closed=True)
+        blk.add_circle(c, r, dxfattribs={"layer": "0"})
+    sh.msp.add_blockref("FRAME", (0.0, 0.0), dxfattribs={"layer": "PARTS"})
+
+
+def _pin_blocks(sh: _Sheet, mech: Any) -> None:
+    """A pin block (a circle and its centre mark) at each pin joining two
+    or more parts, one block per diameter."""
+    for pin in mech.pins:
+        if pin.grounded or len(pin.parts) < 2:
+            continue
+        r = pin.diameter_mm / 2
+        name = f"PIN{pin.diameter_mm:g}".replace(".", "_")
+        if name not in sh.doc.blocks:
+            blk = sh.doc.blocks.new(name)
+            blk.add_circle((0.0, 0.0), r, dxfattribs={"layer": "0"})
+            blk.add_line((-1.5 * r, 0.0), (1.5 * r, 0.0), dxfattribs={"layer": "CL"})
+            blk.add_line((0.0, -1.5 * r), (0.0, 1.5 * r), dxfattribs={"layer": "CL"})
+        sh.msp.add_blockref(name, pin.center, dxfattribs={"layer": "PARTS"})
+
+
+def _inverse(m: Affine) -> Affine:
+    det = m.det
+    a, b, d, e = m.e / det, -m.b / det, -m.d / det, m.a / det
+    return Affine(a, b, -(a * m.c + b * m.f), d, e, -(d * m.c + e * m.f))

@@ -4,6 +4,9 @@ solves to the same mechanism and the same forces as its skeleton twin.
 * Style 3 (``centrelines``): centre lines between pin circles (bosses,
   centre marks, hatched ground marks, the drum with hub and shaft, linings
   with backing plates);
+* style 1 (``blocks``): each part a block inserted turned and, every other
+  one, mirrored; a mirror-image part as the same block inserted mirrored;
+  the frame a block of hatched brackets; pin blocks at the pins;
 * style 2 (``outlines``): closed part outlines with a hole in every part a
   pin joins (rods as two parallel lines with eyes), centre marks, hatched
   frame brackets at the pivots, the lining face as an arc;
@@ -20,6 +23,7 @@ from __future__ import annotations
 import subprocess
 import sys
 
+import ezdxf
 import pytest
 from common import CATALOGUE, ROOT, winch_two_shoe
 from twins import assert_same_mechanism, assert_same_solution
@@ -30,7 +34,7 @@ from dxfcheck.core.errors import MechanismError
 from dxfcheck.core.findings import Code
 from dxfcheck.output.drafting import save_drafted
 
-STYLE_NAMES = {"centrelines": "centre lines", "outlines": "outlines"}
+STYLE_NAMES = {"centrelines": "centre lines", "outlines": "outlines", "blocks": "blocks"}
 
 
 @pytest.mark.parametrize("style", list(STYLE_NAMES))
@@ -50,6 +54,20 @@ def test_drafted_twin_solves_the_same(tmp_path, name, style):
     assert Code.SKELETON_INFERRED in codes
     assert Code.HOLE_UNUSED in codes  # the title block's bolt hole
     assert not codes & {Code.DRUM_AMBIGUOUS, Code.PIVOT_GUESSED, Code.NO_LINING_CIRCLE}
+
+
+def test_blocks_are_inserted_turned_mirrored_and_reused(tmp_path):
+    """The symmetric pair of pivoted shoes: each side's lever and shoe are
+    one block inserted twice, once mirrored; so the twin test above reads
+    blocks placed every way."""
+    path = tmp_path / "pair.dxf"
+    save_drafted(CATALOGUE["pivoted long pair"][0](), path, "blocks")
+    inserts = ezdxf.readfile(path).modelspace().query("INSERT")
+    names = [i.dxf.name for i in inserts]
+    assert any(names.count(n) == 2 for n in names if n.startswith("PART"))
+    assert any(i.dxf.xscale == -1 for i in inserts)
+    assert len({round(i.dxf.rotation, 6) for i in inserts if i.dxf.name.startswith("PART")}) >= 3
+    assert "FRAME" in names and any(n.startswith("PIN") for n in names)
 
 
 def test_forced_layers_on_a_drafted_drawing_finds_no_skeleton(tmp_path):
