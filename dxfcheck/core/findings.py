@@ -75,7 +75,7 @@ class Code(enum.Enum):
     LAYER_NEAR_MISS = ("M223", Severity.WARNING, "layer-near-miss")
     SHOE_MAYBE_PIVOTED = ("M224", Severity.WARNING, "shoe-maybe-pivoted")
     # --- skeleton inferred from the geometry (dxfcheck.infer) -----------
-    SKELETON_INFERRED = ("M230", Severity.INFO, "skeleton-inferred")
+    SKELETON_INFERRED = ("M230", Severity.WARNING, "skeleton-inferred")
     DRUM_AMBIGUOUS = ("M231", Severity.WARNING, "drum-ambiguous")
     NO_LINING_CIRCLE = ("M232", Severity.WARNING, "no-lining-circle")
     PIVOT_GUESSED = ("M233", Severity.WARNING, "pivot-guessed")

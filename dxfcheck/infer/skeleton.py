@@ -95,8 +95,8 @@ def _replace_skeleton(drawing: Drawing, got: Inferred) -> Drawing:
         Code.SKELETON_INFERRED,
         f"no skeleton on the role layers: inferred from the geometry ({got.style}): "
         f"{sum(1 for c in got.circles if c.role is Role.DRUM)} drum, {n_piv} pivots, {n_pin} pins, "
-        f"{len(got.links)} centreline pieces, {len(got.arcs)} shoe arcs. "
-        "Check it with `dxfcheck skeleton DRAWING -o OUT.dxf`",
+        f"{len(got.links)} centreline pieces, {len(got.arcs)} shoe arcs. Not confirmed: check it with "
+        "`dxfcheck skeleton DRAWING -o OUT.dxf` and use that drawing (or put the skeleton on the role layers)",
     )
     return replace(
         drawing,
