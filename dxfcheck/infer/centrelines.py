@@ -16,6 +16,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 from dxfcheck.core.config import InferSettings, Role
 from dxfcheck.core.findings import Code, Finding
@@ -95,25 +96,29 @@ def _frame(lw: Linework, settings: InferSettings) -> list[RawPath]:
 def _marks(centre: Sequence[RawPath], circles: Sequence[RawCircle], tol: float) -> set[int]:
     """Indices of the centre lines that are centre marks."""
     index = PointIndex([c.center for c in circles])
+    mids = [((p.points[0][0] + p.points[-1][0]) / 2, (p.points[0][1] + p.points[-1][1]) / 2) for p in centre]
     out: set[int] = set()
-    for i, p in enumerate(centre):
+    for i, (p, near) in enumerate(zip(centre, index.near_all(mids, tol), strict=True)):
         if len(p.points) != 2:
             continue
         a, b = p.points
-        mid = ((a[0] + b[0]) / 2, (a[1] + b[1]) / 2)
-        near = index.near(mid, tol)
         if near and dist(a, b) / 2 <= CENTRE_MARK_FACTOR * max(circles[j].radius_mm for j in near) + tol:
             out.add(i)
     return out
 
 
-def _reach(hole: Hole, lines: object, ends: PointIndex, tol: float) -> int:
-    """How many members reach a hole: centre lines through its centre plus
-    band and spring ends at it."""
+def _reach(found: Sequence[Hole], lines: Any, ends: PointIndex, tol: float) -> list[int]:
+    """How many members reach each hole: centre lines through its centre
+    plus band and spring ends at it."""
     import shapely
 
-    n = len(lines.query(shapely.Point(hole.center), predicate="dwithin", distance=tol))  # type: ignore[attr-defined]
-    return n + len(ends.near(hole.center, tol))
+    n = [0] * len(found)
+    if found:
+        src, _ = lines.query(shapely.points([h.center for h in found]), predicate="dwithin", distance=tol)
+        for i in src.tolist():
+            n[i] += 1
+    near = ends.near_all([h.center for h in found], tol)
+    return [k + len(e) for k, e in zip(n, near, strict=True)]
 
 
 def _member_ends(drawing: Drawing) -> list[Point]:
@@ -150,8 +155,8 @@ def infer_centrelines(lw: Linework, drawing: Drawing, settings: InferSettings) -
     pins: list[Hole] = []
     pivots: list[Hole] = []
     one_part: list[Hole] = []
-    for hole in holes(solid_circles, drum, tol):
-        n = _reach(hole, lines, ends, tol)
+    found = holes(solid_circles, drum, tol)
+    for hole, n in zip(found, _reach(found, lines, ends, tol), strict=True):
         if n == 0:
             findings.append(_unused(hole))
             continue

@@ -91,10 +91,8 @@ def _arc_chain(a: RawArc) -> list[Point]:
 def _snap(chains: list[tuple[list[Point], Ink]], tol: float) -> list[tuple[list[Point], Ink]]:
     """Chains with their ends moved onto one another within ``tol``."""
     ends = [c[0][i] for c in chains for i in (0, -1)]
-    index = PointIndex(ends)
     rep: list[Point] = []
-    for k, p in enumerate(ends):
-        near = index.near(p, tol)
+    for k, (p, near) in enumerate(zip(ends, PointIndex(ends).near_all(ends, tol), strict=True)):
         rep.append(ends[near[0]] if near and near[0] < k else p)
     return [([rep[2 * i], *pts[1:-1], rep[2 * i + 1]], ink) for i, (pts, ink) in enumerate(chains)]
 
@@ -170,7 +168,7 @@ def _deepest(parts: Sequence[Contour], tree: Any, p: Point, tol: float) -> int |
     hits = [int(i) for i in tree.query(pt, predicate="dwithin", distance=tol)]
     if not hits:
         return None
-    return max(hits, key=lambda i: (parts[i].polygon.contains(pt), parts[i].polygon.exterior.distance(pt), -i))
+    return max(hits, key=lambda i: (parts[i].polygon.contains(pt), parts[i].polygon.boundary.distance(pt), -i))
 
 
 def _order(points: list[Point], last: list[Point]) -> list[Point]:

@@ -88,6 +88,18 @@ class PointIndex:
         hits = self._tree.query(shapely.Point(p), predicate="dwithin", distance=within)
         return sorted(int(i) for i in hits)
 
+    def near_all(self, points: Sequence[Point], within: float) -> list[list[int]]:
+        """:meth:`near` for every point, in one query of the tree."""
+        import shapely
+
+        out: list[list[int]] = [[] for _ in points]
+        if not self._n or not points:
+            return out
+        src, hit = self._tree.query(shapely.points(list(points)), predicate="dwithin", distance=within)
+        for i, j in zip(src.tolist(), hit.tolist(), strict=True):
+            out[i].append(j)
+        return [sorted(x) for x in out]
+
 
 def drum_of(
     circles: Sequence[RawCircle], arcs: Sequence[tuple[Point, float]], tol: float
@@ -97,8 +109,8 @@ def drum_of(
     when several circles carry arcs, M232 when none does."""
     index = PointIndex([a[0] for a in arcs])
     scored: dict[tuple[float, float, float], tuple[int, RawCircle]] = {}
-    for c in circles:
-        n = sum(1 for i in index.near(c.center, tol) if abs(arcs[i][1] - c.radius_mm) <= tol)
+    for c, near in zip(circles, index.near_all([c.center for c in circles], tol), strict=True):
+        n = sum(1 for i in near if abs(arcs[i][1] - c.radius_mm) <= tol)
         key = (round(c.center[0] / tol), round(c.center[1] / tol), round(c.radius_mm / tol))
         if n and key not in scored:
             scored[key] = (n, c)
@@ -175,12 +187,13 @@ def holes(circles: Sequence[RawCircle], drum: RawCircle | None, tol: float) -> l
     out (hub, bore, shaft)."""
     pool = [c for c in circles if drum is None or dist(c.center, drum.center) > tol]
     index = PointIndex([c.center for c in pool])
+    near = index.near_all([c.center for c in pool], tol)
     taken = [False] * len(pool)
     out: list[Hole] = []
-    for i, c in enumerate(pool):
+    for i in range(len(pool)):
         if taken[i]:
             continue
-        group = [j for j in index.near(c.center, tol) if not taken[j]]
+        group = [j for j in near[i] if not taken[j]]
         for j in group:
             taken[j] = True
         out.append(Hole(tuple(sorted((pool[j] for j in group), key=lambda q: q.radius_mm))))
