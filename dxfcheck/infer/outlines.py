@@ -246,7 +246,7 @@ def infer_from_parts(
         part_tree,
         frame_tree,
         [not c.placement for c in parts],
-        [not c.placement for c in frames],
+        [True for _ in frames],  # a frame holds what it covers, drawn in a block or not
     )
     pivots, pins, more = _classify(holes(circles, drum, tol), owners, bool(frames), ends, members, tol)
     findings += more
@@ -261,8 +261,8 @@ def infer_from_parts(
 
 @dataclass(frozen=True)
 class _Owners:
-    """Who holds a hole: block-placed parts and frames by their own circles,
-    the others by containment."""
+    """Who holds a hole: block-placed parts by their own circles, other
+    parts by containment; the frame by its own circles or by containment."""
 
     part_of: dict[str, int]
     frame_placements: set[str]

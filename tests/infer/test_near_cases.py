@@ -269,3 +269,44 @@ def test_outlines_frame_named_by_layer_not_hatched(tmp_path):
     d = _read(tmp_path, doc, frame_layers=("BASE",))
     assert _roles(d, Role.PIVOT) == [(P, 10.0), (R, 8.0)]
     assert Code.PIVOT_GUESSED not in {f.code for f in d.findings}
+
+
+# --- style 1: parts as blocks -------------------------------------------------
+
+
+def test_blocks_holes_belong_to_the_part_that_draws_them(tmp_path):
+    """Hand-labelled: a lever block (outline holding P and Q, a hole at each)
+    inserted mirrored, and an arm block inserted turned 90° at Q (local
+    (x, y) -> world Q + (-y, x)), whose wide outline covers P's hole without
+    drawing one there.  Q is a pin (both blocks draw a hole there); P is the
+    lever's alone, held by the hatched frame block under it (no hole of its
+    own): a pivot; the arm does not join P although it covers it."""
+    doc = _doc()
+    msp = doc.modelspace()
+    msp.add_circle((0, 0), 100)
+    msp.add_arc((0, 0), 100, 75, 105)
+    lever = doc.blocks.new("LEVER")  # drawn mirrored: local x = -world x
+    pts = [(220, 165), (220, 135), (15, 135), (15, 100), (-15, 100), (-15, 135), (-320, 135), (-320, 165)]
+    lever.add_lwpolyline(pts, close=True)
+    lever.add_circle((200, 150), 10)
+    lever.add_circle((-300, 150), 8)
+    msp.add_blockref("LEVER", (0, 0), dxfattribs={"xscale": -1})
+    arm = doc.blocks.new("ARM")  # along local x from Q; turned 90°: up from Q, with a wide foot over P
+    arm.add_lwpolyline([(-20, -20), (300, -20), (300, 520), (-20, 520)], close=True)
+    arm.add_circle((0, 0), 8)
+    arm.add_circle((250, 0), 8)
+    msp.add_blockref("ARM", Q, dxfattribs={"rotation": 90})
+    frame = doc.blocks.new("BASE")
+    _bracket(frame, P)
+    msp.add_blockref("BASE", (0, 0))
+    msp.add_line((300, 400), (360, 400), dxfattribs={"layer": "LOAD"})  # the effort at the arm's eye
+    msp.add_text("500 N", dxfattribs={"layer": "LOAD"}).set_placement((370, 400))
+    d = _read(tmp_path, doc)
+    assert d.skeleton_source == "geometry (blocks)"
+    pivots, pins = _roles(d, Role.PIVOT), _roles(d, Role.PIN)
+    assert [(pytest.approx(c), r) for c, r in pivots] == [(P, 10.0)]
+    assert [(pytest.approx(c), r) for c, r in pins] == [(Q, 8.0)]
+    lever_link, arm_link = d.paths_of(Role.LINK)
+    assert len(lever_link.points) == 3  # P, Q and the lining's middle
+    assert {tuple(round(v, 9) for v in q) for q in arm_link.points} == {Q, (300.0, 400.0)}  # Q and the load
+    assert Code.HOLE_ONE_PART in {f.code for f in d.findings}  # the arm's eye is in the arm alone
