@@ -6,8 +6,9 @@ Alone, the skeleton is written in a new drawing in millimetres with the
 loads, springs, bands and labels.  ``over`` writes it over a faded copy of
 the original (every layer of the original turned grey, colour 8), where
 the loads, springs, bands and labels already are; coordinates go back to
-the drawing's unit.  Pins whose names dxfcheck made up get a label at their
-centre.  Nothing here computes: the skeleton is the drawing's, the names the
+the drawing's unit (a skeleton read from the role layers is there already,
+and only the labels are added).  Pins whose names dxfcheck made up get a
+label at their centre.  Nothing here computes: the skeleton is the drawing's, the names the
 mechanism's.
 """
 
@@ -69,6 +70,8 @@ def skeleton_document(mech: Mechanism, config: Config, *, over: bool) -> Any:
     for layer in doc.layers:
         layer.color = FADED_COLOR
     sk = skeleton_sketch(mech, config, kept=False)
+    if mech.drawing.skeleton_source == "layers":  # the skeleton is in the copy already: only the new labels
+        sk.items = [it for it in sk.items if it[1] == "label"]
     for role in ("pivot", "pin", "link", "drum", "shoe", "label"):
         name = sk.layers.get(role, role.upper())
         if name not in doc.layers:

@@ -15,6 +15,7 @@ from common import CATALOGUE, ROOT
 from twins import assert_same_mechanism, assert_same_solution
 
 import dxfcheck
+from dxfcheck.core.findings import Code
 from dxfcheck.output.drafting import save_drafted
 
 CASES = [
@@ -68,3 +69,19 @@ def test_skeleton_json_and_refusals(tmp_path):
     assert again.returncode == 2 and "exists" in again.stderr
     same = _cli("skeleton", str(drafted), "-o", str(drafted), "--force")  # never the input
     assert same.returncode == 2
+
+
+@pytest.mark.parametrize("over", [False, True])
+def test_skeleton_of_a_drawing_with_role_layers(tmp_path, over):
+    """A skeleton read from the role layers is written back as it is (over
+    the copy: not drawn twice), and solves the same."""
+    make, mu = CATALOGUE["push rod block"]
+    twin, out = tmp_path / "twin.dxf", tmp_path / "out.dxf"
+    make().save(twin)
+    res = _cli("skeleton", str(twin), "-o", str(out), *(["--over"] if over else []))
+    assert res.returncode == 0, res.stderr
+    assert "skeleton: from the role layers" in res.stdout
+    a, c = dxfcheck.analyse(twin, mu=mu), dxfcheck.analyse(out, mu=mu)
+    assert_same_mechanism(a, c)
+    assert_same_solution(a, c)
+    assert Code.DUPLICATE_ENTITY not in {f.code for f in c.findings}
