@@ -251,6 +251,7 @@ def _parser() -> argparse.ArgumentParser:
     m.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
     m.add_argument("--timeout", type=_seconds, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
+    m.add_argument("--skeleton-from", choices=("auto", "layers", "geometry"), default=None, help="as for solve")
 
     b = sub.add_parser("batch", help="check every drawing in folders or globs, in parallel, with a cache")
     b.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
@@ -293,9 +294,13 @@ def _config(args: argparse.Namespace) -> Config:
     """The drawing's configuration with ``--skeleton-from`` applied."""
     from dxfcheck.pipeline import resolve_config
 
-    cfg = resolve_config(args.drawing, args.config)
+    return _with_skeleton_from(resolve_config(args.drawing, args.config), args)
+
+
+def _with_skeleton_from(cfg: Config, args: argparse.Namespace) -> Config:
+    """``cfg`` with ``--skeleton-from`` (when given) over ``[infer] skeleton_from``."""
     if getattr(args, "skeleton_from", None):
-        cfg = replace(cfg, infer=replace(cfg.infer, skeleton_from=args.skeleton_from))
+        return replace(cfg, infer=replace(cfg.infer, skeleton_from=args.skeleton_from))
     return cfg
 
 
@@ -618,7 +623,7 @@ def _compare(args: argparse.Namespace) -> int:
     overrides = [parse_assignment(s) for s in args.set]
     judgements = []
     for name in names:
-        cfg = resolve_config(name, args.config)
+        cfg = _with_skeleton_from(resolve_config(name, args.config), args)
         judgements.append(check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args)))
     spec = judgements[-1].spec
     thresholds = resolve_thresholds(args.max_torque_drop, args.max_force_rise, spec)

@@ -118,3 +118,16 @@ def test_project_file_forces_the_source(tmp_path):
     assert out.returncode == 2
     out = _cli("solve", str(drafted), "--mu", "0.3", "--skeleton-from", "auto")
     assert out.returncode == 0, out.stderr
+
+
+def test_compare_two_drafts_of_one_brake(tmp_path):
+    """The winch drafted as outlines and as blocks are the same brake:
+    compare matches every pin and part and passes; forced to the role
+    layers it refuses (there are none)."""
+    a, b = tmp_path / "a.dxf", tmp_path / "b.dxf"
+    save_drafted(winch_two_shoe(), a, "outlines")
+    save_drafted(winch_two_shoe(), b, "blocks")
+    out = _cli("compare", str(a), str(b))
+    assert out.returncode == 0, out.stderr
+    assert "7 of 7 pins" in out.stdout and "6 of 6 parts matched" in out.stdout
+    assert _cli("compare", str(a), str(b), "--skeleton-from", "layers").returncode == 2
