@@ -131,3 +131,34 @@ def test_compare_two_drafts_of_one_brake(tmp_path):
     assert out.returncode == 0, out.stderr
     assert "7 of 7 pins" in out.stdout and "6 of 6 parts matched" in out.stdout
     assert _cli("compare", str(a), str(b), "--skeleton-from", "layers").returncode == 2
+
+
+@pytest.mark.parametrize("style", ["centrelines", "outlines"])
+def test_a_drafted_sheet_placed_turned_and_mirrored(tmp_path, style):
+    """The whole drafted sheet moved into one block and inserted turned 30°
+    and mirrored: a mirror image turns the drum the other way, so each
+    direction's braking torque is the other direction's of the original, and
+    every pin carries the same force magnitude (invariance of the statics
+    under Euclidean maps, common practice; the property tests of
+    tests/statics/test_invariance.py show it for drawn skeletons)."""
+    from dxfcheck.output.drafting import draft
+
+    make, mu = CATALOGUE["push rod block"]  # cw and ccw differ (a fixed block): the swap is seen
+    plain, placed = tmp_path / "plain.dxf", tmp_path / "placed.dxf"
+    doc = draft(make(), style, clutter=False)
+    doc.saveas(plain)
+    msp = doc.modelspace()
+    sheet = doc.blocks.new("SHEET")
+    for e in list(msp):
+        sheet.add_entity(e.copy())
+        msp.delete_entity(e)
+    msp.add_blockref("SHEET", (1000, -400), dxfattribs={"rotation": 30, "xscale": -1})
+    doc.saveas(placed)
+    a, b = dxfcheck.analyse(plain, mu=mu), dxfcheck.analyse(placed, mu=mu)
+    assert a.case("cw").torque_Nm != pytest.approx(a.case("ccw").torque_Nm, rel=1e-3)
+    assert b.mechanism.drawing.skeleton_source == f"geometry ({STYLE_NAMES[style]})"
+    for d, other in (("cw", "ccw"), ("ccw", "cw")):
+        ca, cb = a.case(d), b.case(other)
+        assert cb.torque_Nm == pytest.approx(ca.torque_Nm, rel=1e-9)
+        fa = {p.name: p.max_force_N for p in ca.pins}
+        assert {p.name: pytest.approx(p.max_force_N, rel=1e-9) for p in cb.pins} == fa
