@@ -83,6 +83,7 @@ class Code(enum.Enum):
     HOLE_SIZES_DIFFER = ("M235", Severity.INFO, "hole-sizes-differ")
     HOLE_ONE_PART = ("M236", Severity.WARNING, "hole-one-part")
     NO_PART_GEOMETRY = ("M237", Severity.ERROR, "no-part-geometry")
+    TWO_FORCE_OR_LEVER = ("M238", Severity.WARNING, "two-force-or-lever")
     # --- statics -------------------------------------------------------
     FREE_MOTION = ("S301", Severity.ERROR, "free-motion")
     REDUNDANT = ("S302", Severity.ERROR, "redundant")

@@ -21,6 +21,10 @@ parts as blocks, whose outlines arrive here placed in the world).
   lining arc on its outline, placed last; in the shortest order (every
   order is tried up to :data:`MAX_ORDERED_POINTS` points, else nearest
   neighbour), so an L-shaped crank reads as its two arms.
+* A part with two pins and nothing else is a two-force member in the
+  statics; when most of its outline lies off the bar between the pins
+  (:data:`BROAD_PART_FRACTION`), it may be a lever whose other attachment
+  is not drawn (M238).
 """
 
 from __future__ import annotations
@@ -49,6 +53,8 @@ from dxfcheck.infer.roles import (
 from dxfcheck.read.drawing import CircleGeom, Drawing, PathGeom
 
 __all__ = [
+    "BAR_WIDTH_FACTOR",
+    "BROAD_PART_FRACTION",
     "MAX_ORDERED_POINTS",
     "Contour",
     "contours",
@@ -61,6 +67,12 @@ __all__ = [
 #: Parts with at most this many key points have them ordered by trying
 #: every order (7! = 5040).
 MAX_ORDERED_POINTS = 7
+#: A two-pin part's bar: this many times the larger hole's outer radius to
+#: each side of the line between the pins.
+BAR_WIDTH_FACTOR = 2.5
+#: More of a two-pin part's outline than this fraction outside its bar
+#: makes it look like a lever (M238).
+BROAD_PART_FRACTION = 0.5
 
 
 @dataclass(frozen=True)
@@ -256,7 +268,35 @@ def infer_from_parts(
         *(h.geom(Role.PIN) for h in pins),
     )
     links = _links(parts, members)
+    findings += _broad_two_pin_parts(parts, members)
     return Inferred(style, out_circles, tuple(shoes), links, tuple(findings))
+
+
+def _broad_two_pin_parts(parts: Sequence[Contour], members: _Members) -> list[Finding]:
+    """M238 for each part with two pins and nothing else on it whose
+    outline is much more than a bar between them: it is solved as a
+    two-force member, but its shape says it may be a lever whose other
+    attachment is not drawn."""
+    import shapely
+
+    out = []
+    for gi, part in enumerate(parts):
+        got = members.holes.get(gi, [])
+        if len(got) != 2 or members.points.get(gi) or members.arcs.get(gi):
+            continue
+        a, b = got
+        width = BAR_WIDTH_FACTOR * max(a.outer_mm, b.outer_mm)
+        bar = shapely.LineString([a.center, b.center]).buffer(width)
+        extra = part.polygon.difference(bar).area
+        if extra <= BROAD_PART_FRACTION * part.polygon.area:
+            continue
+        msg = (
+            f"the part with holes at {fmt(a.center)} and {fmt(b.center)} and nothing else on it is solved as a "
+            f"two-force member (its force along the line between them), but {100 * extra / part.polygon.area:.0f} % "
+            "of its outline lies off that line: if it is a lever, draw its other pin, load or spring"
+        )
+        out.append(infer_finding(Code.TWO_FORCE_OR_LEVER, msg, [part.ink.source], a.center))
+    return out
 
 
 @dataclass(frozen=True)

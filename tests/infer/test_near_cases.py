@@ -235,6 +235,21 @@ def test_outlines_tie_rod_with_eyes_and_frame_brackets(tmp_path):
     assert lever.points[2] == pytest.approx((0.0, 100.0), abs=1e-9)
     assert len(lever.points) == 3
     assert set(rod.points) == {Q, R}
+    assert Code.TWO_FORCE_OR_LEVER not in {f.code for f in d.findings}  # a rod is a bar between its pins
+
+
+def test_outlines_broad_two_pin_part_may_be_a_lever(tmp_path):
+    """A plate instead of the tie rod, holding Q and R at its left edge and
+    reaching 300 mm to the right: solved as a two-force member between Q and
+    R, with M238 saying it may be a lever (most of it is off the bar)."""
+    doc = _doc()
+    msp = _outlined(doc)
+    for e in list(msp.query("LINE")) + [a for a in msp.query("ARC") if a.dxf.radius == 14]:
+        msp.delete_entity(e)
+    msp.add_lwpolyline([(286, 136), (600, 136), (600, 464), (286, 464)], close=True)
+    d = _read(tmp_path, doc)
+    (f,) = [f for f in d.findings if f.code is Code.TWO_FORCE_OR_LEVER]
+    assert "(300, 150)" in f.message and "(300, 450)" in f.message
 
 
 def test_outlines_hole_in_one_part_only(tmp_path):
