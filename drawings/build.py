@@ -113,9 +113,40 @@ def save_with_title(sk: Sketch, path: Path, number: str, title: str, revision: s
     doc.saveas(path)
 
 
+def drafted() -> None:
+    """The winch drafted in each style with no skeleton layers
+    (``drafted/winch_STYLE.dxf``), each with its picture (``.svg``): the
+    README's drafted drawings."""
+    from ezdxf.addons.drawing import Frontend, RenderContext, layout, svg
+    from ezdxf.addons.drawing.config import BackgroundPolicy, ColorPolicy, Configuration
+
+    from dxfcheck.core.config import Config
+    from dxfcheck.output.drafting import STYLES, draft
+    from dxfcheck.output.skeleton_dxf import skeleton_document
+    from dxfcheck.pipeline import read_mechanism
+
+    out = HERE / "drafted"
+    out.mkdir(exist_ok=True)
+    cfg = Configuration(background_policy=BackgroundPolicy.WHITE, color_policy=ColorPolicy.BLACK)
+
+    def picture(doc: object, name: str) -> None:
+        backend = svg.SVGBackend()
+        Frontend(RenderContext(doc), backend, config=cfg).draw_layout(doc.modelspace())  # type: ignore[attr-defined]
+        page = layout.Page(120, 120, layout.Units.mm, margins=layout.Margins.all(4))
+        (out / name).write_text(backend.get_string(page), encoding="utf-8")
+
+    for style in STYLES:
+        doc = draft(winch_two_shoe(), style, clutter=False)
+        doc.saveas(out / f"winch_{style}.dxf")
+        picture(doc, f"winch_{style}.svg")
+    mech = read_mechanism(out / "winch_outlines.dxf")
+    picture(skeleton_document(mech, Config(), over=False), "winch_outlines_skeleton.svg")
+
+
 def main() -> None:
     for make in (winch_two_shoe, conveyor_block, capstan_band):
         save_with_title(make(), HERE / f"{make.__name__}.dxf", *TITLES[make.__name__])
+    drafted()
 
 
 if __name__ == "__main__":

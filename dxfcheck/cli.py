@@ -18,11 +18,15 @@ import json
 import logging
 import sys
 from collections.abc import Sequence
-from typing import Any
+from dataclasses import replace
+from typing import TYPE_CHECKING, Any
 
 from dxfcheck.core.deadline import TimeLimitExceeded
 from dxfcheck.core.errors import ConfigError, DxfcheckError, LimitError, VerificationError
 from dxfcheck.core.textsafe import one_line
+
+if TYPE_CHECKING:
+    from dxfcheck.core.config import Config
 
 __all__ = ["EXIT_CHECK_FAILED", "EXIT_INTERNAL", "EXIT_NOT_BRAKING", "EXIT_OK", "EXIT_UNUSABLE", "main"]
 
@@ -131,6 +135,12 @@ def _common(s: argparse.ArgumentParser) -> None:
     s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     s.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
     s.add_argument(
+        "--skeleton-from",
+        choices=("auto", "layers", "geometry"),
+        default=None,
+        help="the skeleton from the role layers, inferred from the geometry, or auto (layers when they hold one)",
+    )
+    s.add_argument(
         "--timeout",
         type=_seconds,
         default=DEFAULT_TIMEOUT_S,
@@ -227,6 +237,17 @@ def _parser() -> argparse.ArgumentParser:
     a.add_argument("--force", action="store_true", help="replace existing output files")
     _shoe_options(a)
 
+    k = sub.add_parser(
+        "skeleton", help="write the skeleton dxfcheck reads (inferred or from the layers) on the role layers"
+    )
+    _common(k)
+    k.add_argument(
+        "-o", "--output", default=None, metavar="OUT.dxf", help="skeleton drawing (default DRAWING-skeleton.dxf)"
+    )
+    k.add_argument("--over", action="store_true", help="write it over a faded copy of the drawing (default: alone)")
+    k.add_argument("--svg", default=None, metavar="OUT.svg", help="also draw the skeleton as SVG")
+    k.add_argument("--force", action="store_true", help="replace existing output files")
+
     m = sub.add_parser("compare", help="compare revisions of a drawing: what the change did to the loads")
     m.add_argument("drawings", nargs="+", help="OLD.dxf NEW.dxf [MORE.dxf ...] or a folder (sorted by name)")
     m.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
@@ -244,6 +265,7 @@ def _parser() -> argparse.ArgumentParser:
     m.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
     m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
     m.add_argument("--timeout", type=_seconds, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
+    m.add_argument("--skeleton-from", choices=("auto", "layers", "geometry"), default=None, help="as for solve")
 
     ln = sub.add_parser("linings", help="list the lining library (lining = NAME in the spec) with its sources")
     ln.add_argument("--json", action="store_true", help="print one JSON document instead of a table")
@@ -306,6 +328,20 @@ def _parser() -> argparse.ArgumentParser:
     k.add_argument("name", nargs="?", default=None, help="solve, check, compare, batch, sensitivity or error")
     k.set_defaults(timeout=None)
     return p
+
+
+def _config(args: argparse.Namespace) -> Config:
+    """The drawing's configuration with ``--skeleton-from`` applied."""
+    from dxfcheck.pipeline import resolve_config
+
+    return _with_skeleton_from(resolve_config(args.drawing, args.config), args)
+
+
+def _with_skeleton_from(cfg: Config, args: argparse.Namespace) -> Config:
+    """``cfg`` with ``--skeleton-from`` (when given) over ``[infer] skeleton_from``."""
+    if getattr(args, "skeleton_from", None):
+        return replace(cfg, infer=replace(cfg.infer, skeleton_from=args.skeleton_from))
+    return cfg
 
 
 def _annotate_shortcut(s: argparse.ArgumentParser) -> None:
@@ -397,7 +433,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
         pin_tolerance_mm=tol,
         seed=args.seed,
         directions=directions,
-        config=args.config,
+        config=_config(args),
         units=args.units,
         tolerance_mm=_tolerance(args),
         effort_N=effort,
@@ -420,7 +456,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 
 def _solve(args: argparse.Namespace) -> int:
     from dxfcheck.output.json import solution_to_dict, write_json
-    from dxfcheck.pipeline import DEFAULT_MU, analyse, resolve_config
+    from dxfcheck.pipeline import DEFAULT_MU, analyse
 
     mu_value, mu_range = _mu_arg(args.mu)
     if args.samples is not None:
@@ -434,7 +470,7 @@ def _solve(args: argparse.Namespace) -> int:
     effort, mu = _effort_mu(args)
     torque = _quantity(args.torque, "--torque", "torque") if args.torque else None
     directions = ("cw", "ccw") if args.direction == "both" else (args.direction,)
-    cfg = resolve_config(args.drawing, args.config)
+    cfg = _config(args)
     sol = analyse(
         args.drawing,
         mu=mu,
@@ -469,7 +505,7 @@ def _check(args: argparse.Namespace) -> int:
     from dxfcheck.output.json import judgement_to_dict, write_json
     from dxfcheck.output.junit import junit_xml
     from dxfcheck.output.terminal import print_judgement
-    from dxfcheck.pipeline import check, resolve_config
+    from dxfcheck.pipeline import check
 
     overrides = [parse_assignment(s) for s in args.set]
     for key, value in (
@@ -489,7 +525,7 @@ def _check(args: argparse.Namespace) -> int:
         protect=(args.drawing,),
     )
     report_to = _report_stream(args, args.junit)
-    cfg = resolve_config(args.drawing, args.config)
+    cfg = _config(args)
     j = check(
         args.drawing,
         config=cfg,
@@ -536,10 +572,10 @@ def _annotate(args: argparse.Namespace) -> int:
     from pathlib import Path
 
     from dxfcheck.output.annotate import annotate
-    from dxfcheck.pipeline import analyse, resolve_config
+    from dxfcheck.pipeline import analyse
 
     effort, mu = _effort_mu(args)
-    cfg = resolve_config(args.drawing, args.config)
+    cfg = _config(args)
     out = args.output
     p_in = Path(args.drawing)
     if out is None:
@@ -563,6 +599,32 @@ def _annotate(args: argparse.Namespace) -> int:
         if str(w) != "-":
             notes.write(f"wrote {w}{as_dxf if str(w).lower().endswith('.dxf') else ''}\n")
     return EXIT_OK
+
+
+def _skeleton(args: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    from dxfcheck.core.findings import has_errors
+    from dxfcheck.output.skeleton_dxf import write_skeleton
+    from dxfcheck.output.terminal import print_skeleton
+    from dxfcheck.pipeline import read_mechanism
+
+    cfg = _config(args)
+    out = args.output
+    if out is None:
+        p = Path(args.drawing)
+        out = str(p.with_name(f"{p.stem}-skeleton{p.suffix or '.dxf'}"))
+    mech = read_mechanism(
+        args.drawing, config=cfg, units=args.units, tolerance_mm=_tolerance(args), max_bytes=_max_bytes(args)
+    )
+    written = write_skeleton(mech, out, config=cfg, over=args.over, svg=args.svg, force=args.force)
+    if args.json:
+        from dxfcheck.output.json import skeleton_to_dict, write_json
+
+        write_json(skeleton_to_dict(mech, written))
+    else:
+        print_skeleton(mech, written, out=sys.stderr if args.svg == "-" else sys.stdout)
+    return EXIT_OK if not has_errors(list(mech.findings)) else EXIT_UNUSABLE
 
 
 def _subject(args: argparse.Namespace) -> str:
@@ -632,7 +694,7 @@ def _compare(args: argparse.Namespace) -> int:
     judgements = []
     with progress.task("checking revisions", len(names)) as bar:
         for name in names:
-            cfg = resolve_config(name, args.config)
+            cfg = _with_skeleton_from(resolve_config(name, args.config), args)
             judgements.append(
                 check(name, config=cfg, overrides=overrides, units=args.units, max_bytes=_max_bytes(args))
             )
@@ -887,6 +949,7 @@ def _main(argv: Sequence[str] | None) -> int:
         "solve": _solve,
         "check": _check,
         "annotate": _annotate,
+        "skeleton": _skeleton,
         "compare": _compare,
         "batch": _batch,
         "linings": _linings,

@@ -12,6 +12,7 @@ from typing import TYPE_CHECKING, Any
 from dxfcheck.core.config import Config, config_for_drawing
 from dxfcheck.core.errors import ConfigError, MechanismError
 from dxfcheck.core.findings import Severity, has_errors
+from dxfcheck.infer import skeleton_drawing
 from dxfcheck.mechanism import Mechanism, build_mechanism
 from dxfcheck.read.drawing import Drawing, read_drawing
 from dxfcheck.statics import Solution, solve, solve_for_torque
@@ -29,7 +30,16 @@ if TYPE_CHECKING:
     from dxfcheck.gate.spec import Spec
     from dxfcheck.statics.sampling import SensitivityResult
 
-__all__ = ["DEFAULT_MU", "analyse", "check", "contact_options", "resolve_config", "sensitivity"]
+__all__ = [
+    "DEFAULT_MU",
+    "analyse",
+    "check",
+    "contact_options",
+    "read_mechanism",
+    "read_skeleton",
+    "resolve_config",
+    "sensitivity",
+]
 
 _UNIT_LOAD_N = 1.0  # [N] a load without a magnitude, when solving for a torque
 
@@ -59,6 +69,30 @@ def _mechanism(
             findings=[*errors, *warnings],
         )
     return mech
+
+
+def read_skeleton(
+    path: str | os.PathLike[str], config: Config, *, units: str | None = None, max_bytes: int | None = None
+) -> Drawing:
+    """Read a drawing; its skeleton from the role layers, or inferred from
+    the geometry when they hold none (``config.infer.skeleton_from``:
+    :func:`dxfcheck.infer.skeleton_drawing`)."""
+    drawing = read_drawing(path, config, units=units, max_bytes=max_bytes)
+    return skeleton_drawing(drawing, config, max_bytes=max_bytes)
+
+
+def read_mechanism(
+    path: str | os.PathLike[str],
+    *,
+    config: str | os.PathLike[str] | Config | None = None,
+    units: str | None = None,
+    tolerance_mm: float | None = None,
+    max_bytes: int | None = None,
+) -> Mechanism:
+    """The mechanism a drawing shows, with its findings, errors included
+    (nothing is solved): what ``dxfcheck skeleton`` writes."""
+    drawing = read_skeleton(path, resolve_config(path, config), units=units, max_bytes=max_bytes)
+    return build_mechanism(drawing, tolerance_mm=tolerance_mm)
 
 
 def resolve_config(drawing: str | os.PathLike[str], config: str | os.PathLike[str] | Config | None) -> Config:
@@ -124,7 +158,7 @@ def analyse(
     DrawingReadError, ConfigError, MechanismError, SolveError
         Each carries the findings that explain it.
     """
-    drawing = read_drawing(path, resolve_config(path, config), units=units, max_bytes=max_bytes)
+    drawing = read_skeleton(path, resolve_config(path, config), units=units, max_bytes=max_bytes)
     unit_load = _UNIT_LOAD_N if torque_Nm is not None else None
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort_N, default_magnitude_N=unit_load)
     options = contact_options(shoe_model, long_threshold_deg)
@@ -197,7 +231,7 @@ def check(
     from dxfcheck.gate.strength import with_strength
 
     cfg = resolve_config(path, config)
-    drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
+    drawing = read_skeleton(path, cfg, units=units, max_bytes=max_bytes)
     judged_spec = load_spec(
         path,
         project=cfg.spec,
@@ -231,7 +265,7 @@ def _spec_units(
     unit = str(named.value)
     if drawing.units_source == "$INSUNITS" and math.isclose(length_unit_factor(unit), drawing.mm_per_unit):
         return drawing
-    return replace(read_drawing(path, cfg, units=unit, max_bytes=max_bytes), units_source="spec")
+    return replace(read_skeleton(path, cfg, units=unit, max_bytes=max_bytes), units_source="spec")
 
 
 def sensitivity(
@@ -258,7 +292,7 @@ def sensitivity(
     from dxfcheck.statics.sampling import sample_design
 
     cfg = resolve_config(path, config)
-    drawing = read_drawing(path, cfg, units=units, max_bytes=max_bytes)
+    drawing = read_skeleton(path, cfg, units=units, max_bytes=max_bytes)
     mech = _mechanism(drawing, path, tolerance_mm=tolerance_mm, effort_N=effort_N)
     options = contact_options(shoe_model, long_threshold_deg)
     from dxfcheck.core.findings import Code

@@ -22,7 +22,7 @@ PACKAGE = ROOT / "dxfcheck"
 
 #: The stage folders from the bottom up; a module may import only its own
 #: folder or folders before it.  Top-level modules come last, in this order.
-STAGES = ("core", "read", "mechanism", "statics", "gate", "revision", "output")
+STAGES = ("core", "read", "infer", "mechanism", "statics", "gate", "revision", "output")
 TOP = ("pipeline", "batch", "cli", "__main__", "__init__")
 
 __all__ = ["STAGES", "TOP", "arrows", "cycles", "levels", "longest_functions", "module_name", "rank", "uphill"]

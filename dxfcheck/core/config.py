@@ -46,7 +46,9 @@ __all__ = [
     "DEFAULT_LAYERS",
     "MAX_FILE_BYTES",
     "PYPROJECT_NAME",
+    "SKELETON_SOURCES",
     "Config",
+    "InferSettings",
     "Role",
     "config_for_drawing",
     "find_config",
@@ -87,7 +89,42 @@ class Role(enum.StrEnum):
 #: Default layer name of each role.
 DEFAULT_LAYERS: dict[Role, tuple[str, ...]] = {role: (role.value.upper(),) for role in Role}
 
-_TOP_LEVEL = {"layers", "spec", "markup"}
+_TOP_LEVEL = {"layers", "spec", "markup", "infer"}
+
+#: Where the skeleton comes from: ``auto`` (the role layers when they hold a
+#: skeleton, else the geometry), ``layers`` or ``geometry``.
+SKELETON_SOURCES = ("auto", "layers", "geometry")
+#: Default layers whose entities are the frame when the skeleton is inferred.
+DEFAULT_FRAME_LAYERS = ("FRAME",)
+_INFER_LISTS = ("frame_layers", "frame_blocks", "centre_layers", "outline_layers", "ignore_layers")
+
+
+@dataclass(frozen=True)
+class InferSettings:
+    """The ``[infer]`` table: how a skeleton is inferred from a drafted
+    drawing (see :mod:`dxfcheck.infer`).
+
+    Attributes
+    ----------
+    skeleton_from : str
+        One of :data:`SKELETON_SOURCES` (``--skeleton-from`` overrides it).
+    frame_layers, frame_blocks : tuple of str
+        Layers and block names (upper case) whose geometry is the frame.
+    centre_layers : tuple of str
+        Layers whose lines are centre lines, whatever their linetype.
+    outline_layers : tuple of str
+        Layers of part outlines; empty: every continuous line may be one.
+    ignore_layers : tuple of str
+        Layers never read for the skeleton (hidden lines, dimensions...).
+    """
+
+    skeleton_from: str = "auto"
+    frame_layers: tuple[str, ...] = DEFAULT_FRAME_LAYERS
+    frame_blocks: tuple[str, ...] = ()
+    centre_layers: tuple[str, ...] = ()
+    outline_layers: tuple[str, ...] = ()
+    ignore_layers: tuple[str, ...] = ()
+
 
 #: Default names of the layers dxfcheck writes in a marked-up copy.
 DEFAULT_FORCE_LAYER = "DXFCHECK_FORCES"
@@ -114,6 +151,8 @@ class Config:
         ``[spec]`` is read by :mod:`dxfcheck.gate.spec`).
     sidecar_layers : bool
         Whether the sidecar's ``[layers]`` changed the layer map.
+    infer : InferSettings
+        The ``[infer]`` table (skeleton inferred from the geometry).
     """
 
     layers: dict[Role, tuple[str, ...]] = field(default_factory=lambda: dict(DEFAULT_LAYERS))
@@ -123,6 +162,7 @@ class Config:
     note_layer: str = DEFAULT_NOTE_LAYER
     sidecar: str | None = None
     sidecar_layers: bool = False
+    infer: InferSettings = field(default_factory=InferSettings)
 
     @property
     def layers_source(self) -> str | None:
@@ -332,7 +372,31 @@ def _apply(data: dict[str, Any], spath: str, base: Config) -> Config:
     for name in (force_layer, note_layer):
         if name.upper() in skeleton:
             raise ConfigError(f"{t} layer {name!r} is also a skeleton layer", path=spath)
-    return replace(base, layers=layers, force_layer=force_layer, note_layer=note_layer)
+    infer = _parse_infer(data.get("infer", {}), spath, base.infer)
+    return replace(base, layers=layers, force_layer=force_layer, note_layer=note_layer, infer=infer)
+
+
+def _parse_infer(raw: Any, path: str, base: InferSettings) -> InferSettings:
+    """``base`` with the keys of an ``[infer]`` table applied."""
+    if not isinstance(raw, dict):
+        raise ConfigError("[infer] must be a table", path=path)
+    out = base
+    for key, value in raw.items():
+        if key == "skeleton_from":
+            if value not in SKELETON_SOURCES:
+                raise ConfigError(f"[infer] skeleton_from must be one of {', '.join(SKELETON_SOURCES)}", path=path)
+            out = replace(out, skeleton_from=value)
+            continue
+        if key not in _INFER_LISTS:
+            known = ", ".join(("skeleton_from", *_INFER_LISTS))
+            raise ConfigError(f"[infer] has an unknown key {key!r} (known: {known})", path=path)
+        if isinstance(value, str):
+            value = [value]
+        if not isinstance(value, list) or not all(isinstance(v, str) and v for v in value):
+            raise ConfigError(f"[infer] {key} must be a list of names", path=path)
+        names: dict[str, Any] = {key: tuple(v.upper() for v in value)}
+        out = replace(out, **names)
+    return out
 
 
 def load_config(path: Path | None) -> Config:

@@ -77,6 +77,16 @@ class Code(enum.Enum):
     TEXT_AMBIGUOUS = ("M222", Severity.ERROR, "text-ambiguous")
     LAYER_NEAR_MISS = ("M223", Severity.WARNING, "layer-near-miss")
     SHOE_MAYBE_PIVOTED = ("M224", Severity.WARNING, "shoe-maybe-pivoted")
+    # --- skeleton inferred from the geometry (dxfcheck.infer) -----------
+    SKELETON_INFERRED = ("M230", Severity.WARNING, "skeleton-inferred")
+    DRUM_AMBIGUOUS = ("M231", Severity.WARNING, "drum-ambiguous")
+    NO_LINING_CIRCLE = ("M232", Severity.WARNING, "no-lining-circle")
+    PIVOT_GUESSED = ("M233", Severity.WARNING, "pivot-guessed")
+    HOLE_UNUSED = ("M234", Severity.INFO, "hole-unused")
+    HOLE_SIZES_DIFFER = ("M235", Severity.INFO, "hole-sizes-differ")
+    HOLE_ONE_PART = ("M236", Severity.WARNING, "hole-one-part")
+    NO_PART_GEOMETRY = ("M237", Severity.ERROR, "no-part-geometry")
+    TWO_FORCE_OR_LEVER = ("M238", Severity.WARNING, "two-force-or-lever")
     # --- statics -------------------------------------------------------
     FREE_MOTION = ("S301", Severity.ERROR, "free-motion")
     REDUNDANT = ("S302", Severity.ERROR, "redundant")

@@ -11,6 +11,7 @@ stage makes a finding.
 
 from __future__ import annotations
 
+import functools
 import itertools
 import math
 from collections.abc import Sequence
@@ -23,9 +24,11 @@ from dxfcheck.read.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source
 
 __all__ = [
     "ARC_SLACK_DEG",
+    "INDEX_SLACK",
     "LIES_ON_MIN_MM",
     "LIES_ON_RTOL",
     "NEAR_MISS_FACTOR",
+    "LinkIndex",
     "Topology",
     "arc_distance",
     "default_tolerance",
@@ -48,6 +51,12 @@ LIES_ON_MIN_MM = 1e-6
 ARC_SLACK_DEG = 1e-6
 #: A gap up to this many times the tolerance is reported as a near miss.
 NEAR_MISS_FACTOR = 200.0
+
+#: Slack on the spatial index's search distance, relative to the
+#: tolerance: the index only proposes candidates, each then checked with
+#: the exact test (:func:`on_path`), so the answers are those of a search
+#: through every piece.
+INDEX_SLACK = 1e-6
 
 #: A centreline with more points than this whose first point is its last is
 #: a closed outline: its ends join nothing.
@@ -127,6 +136,39 @@ def path_ends(path: PathGeom) -> tuple[Point, Point]:
     return path.points[0], path.points[-1]
 
 
+class LinkIndex:
+    """The centreline pieces and pin centres in shapely STRtrees: which
+    pieces pass within ``tol`` of a point, and whether a pin centre lies
+    there, in about logarithmic time.  Every candidate is checked exactly."""
+
+    def __init__(self, links: Sequence[PathGeom], pins: Sequence[CircleGeom], tol: float) -> None:
+        import shapely
+
+        self.links, self.pins, self.tol = links, pins, tol
+        self._reach = tol * (1.0 + INDEX_SLACK) + INDEX_SLACK * LIES_ON_MIN_MM
+        self._links = shapely.STRtree([shapely.LineString(p.points) for p in links])
+        self._pins = shapely.STRtree(shapely.points([g.center for g in pins])) if pins else None
+
+    def links_at(self, p: Point) -> list[int]:
+        """The pieces (indices) whose centreline passes within ``tol`` of
+        ``p``, in drawing order."""
+        import shapely
+
+        if not self.links:
+            return []
+        near = self._links.query(shapely.Point(p), predicate="dwithin", distance=self._reach)
+        return sorted(int(i) for i in near if on_path(p, self.links[int(i)], self.tol))
+
+    def pin_at(self, p: Point) -> bool:
+        """Whether a pin centre lies within ``tol`` of ``p``."""
+        import shapely
+
+        if self._pins is None:
+            return False
+        near = self._pins.query(shapely.Point(p), predicate="dwithin", distance=self._reach)
+        return any(dist(p, self.pins[int(i)].center) <= self.tol for i in near)
+
+
 @dataclass(frozen=True)
 class Topology:
     """The rigid parts the centrelines form, with the pin circles and shoe
@@ -153,12 +195,19 @@ class Topology:
     shoe_arcs: tuple[ArcGeom, ...]
     tol: float
 
+    @functools.cached_property
+    def index(self) -> LinkIndex:
+        """The spatial index of the pieces and pins (built once)."""
+        return LinkIndex(self.links, self.pin_geoms, self.tol)
+
+    @functools.cached_property
+    def _group_of(self) -> dict[int, int]:
+        return {i: gi for gi, members in enumerate(self.groups) for i in members}
+
     def parts_at(self, p: Point) -> list[int]:
         """The parts (indices into ``groups``) whose centreline passes
-        through ``p``."""
-        return [
-            gi for gi, members in enumerate(self.groups) if any(on_path(p, self.links[i], self.tol) for i in members)
-        ]
+        through ``p``, sorted."""
+        return sorted({self._group_of[i] for i in self.index.links_at(p)})
 
     def parts_ending_on(self, arc: ArcGeom) -> list[int]:
         """The parts with a centreline piece that ends on ``arc``, sorted."""
@@ -222,11 +271,11 @@ def _join_end(i: int, end: Point, partial: Topology, free_ends: Sequence[Point],
     """Join piece ``i`` to every piece its ``end`` lies on; M-finding
     OPEN_END when that end meets no pin, piece, shoe arc or load/spring."""
     tol, links = partial.tol, partial.links
-    if any(dist(end, g.center) <= tol for g in partial.pin_geoms):
+    if partial.index.pin_at(end):
         return None  # a pin joint: the pins step attaches it
     joined = False
-    for j, other in enumerate(links):
-        if j != i and on_path(end, other, tol):
+    for j in partial.index.links_at(end):
+        if j != i:
             uf.union(i, j)
             joined = True
     if joined or any(on_arc(end, a, tol) for a in partial.shoe_arcs) or any(dist(end, s) <= tol for s in free_ends):

@@ -45,6 +45,7 @@ __all__ = [
     "COMPARE_SCHEMA",
     "LININGS_SCHEMA",
     "SENSITIVITY_SCHEMA",
+    "SKELETON_SCHEMA",
     "SOLVE_SCHEMA",
     "case_to_dict",
     "comparisons_to_dict",
@@ -55,6 +56,7 @@ __all__ = [
     "provenance",
     "rule_to_dict",
     "sensitivity_to_dict",
+    "skeleton_to_dict",
     "solution_to_dict",
     "trend_rows",
     "write_json",
@@ -62,6 +64,8 @@ __all__ = [
 
 #: Versioned name of the ``solve --json`` document.
 SOLVE_SCHEMA = "dxfcheck.solve/2"
+#: Schema of ``dxfcheck skeleton --json``.
+SKELETON_SCHEMA = "dxfcheck.skeleton/1"
 #: Versioned name of the ``check --json`` document.
 CHECK_SCHEMA = "dxfcheck.check/2"
 #: Versioned name of the ``compare --json`` document.
@@ -319,6 +323,22 @@ def _mechanism(mech: Mechanism) -> dict[str, Any]:
     }
 
 
+def skeleton_to_dict(mech: Mechanism, written: list[str]) -> dict[str, Any]:
+    """The ``dxfcheck.skeleton/1`` JSON document: where the skeleton came
+    from, the mechanism read, the files written, the findings."""
+    d = mech.drawing
+    return {
+        "schema": SKELETON_SCHEMA,
+        "tool": _tool(),
+        "drawing": d.path,
+        "skeleton": d.skeleton_source,
+        "mechanism": _mechanism(mech),
+        "written": written,
+        "findings": [f.as_dict() for f in mech.findings],
+        "caution": CAUTION,
+    }
+
+
 def solution_to_dict(sol: Solution) -> dict[str, Any]:
     """The ``dxfcheck.solve/2`` JSON document (schema in the README)."""
     mech = sol.mechanism
@@ -332,6 +352,7 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "sidecar": d.sidecar_path,
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
         "layers": layers_json(d),
+        "skeleton": d.skeleton_source,
         "tolerance_mm": mech.tolerance_mm,
         "family": mech.family,
         "mechanism": _mechanism(mech),

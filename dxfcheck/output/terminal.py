@@ -34,6 +34,9 @@ from dxfcheck.statics import CaseSolution, Solution
 if TYPE_CHECKING:
     from rich.table import Table
 
+    from dxfcheck.mechanism import Mechanism
+    from dxfcheck.read.drawing import Drawing
+
 __all__ = [
     "REPORT_WIDTH",
     "batch_progress",
@@ -45,8 +48,10 @@ __all__ = [
     "print_judgement",
     "print_linings",
     "print_sensitivity",
+    "print_skeleton",
     "print_solution",
     "progress_bar",
+    "skeleton_line",
 ]
 
 #: Width of the report when the output is not a terminal [characters].
@@ -116,6 +121,30 @@ def _severity_style(sev: Severity) -> str:
 # --- solve: the header, then per direction one function per table ------------
 
 
+def print_skeleton(mech: Mechanism, written: list[str], out: IO[str] | None = None) -> None:
+    """What ``dxfcheck skeleton`` read and wrote, with the findings."""
+    console = _console(out)
+    d = mech.drawing
+    console.print(f"[bold]dxfcheck skeleton[/]  {_esc(d.path)}")
+    console.print(skeleton_line(d), markup=False)
+    console.print(
+        f"{len(mech.parts)} parts, {len(mech.pins)} pins ({sum(p.grounded for p in mech.pins)} pivots), "
+        f"{len(mech.shoes)} shoes, {len(mech.bands)} bands, {len(mech.loads)} loads"
+    )
+    print_findings(console, mech.findings)
+    for w in written:
+        if w != "-":
+            console.print(f"wrote {_esc(w)}")
+    console.print(CAUTION, markup=False)
+
+
+def skeleton_line(d: Drawing) -> str:
+    """The header's line saying where the skeleton came from."""
+    if d.skeleton_source == "layers":
+        return "skeleton: from the role layers"
+    return f"skeleton: inferred from the {d.skeleton_source}; check it with `dxfcheck skeleton DRAWING -o OUT.dxf`"
+
+
 def _print_inferred(console: Any, sol: Solution, notes: tuple[str, ...]) -> None:
     """The drawing, its units, the layers searched and what was inferred."""
     mech = sol.mechanism
@@ -127,6 +156,7 @@ def _print_inferred(console: Any, sol: Solution, notes: tuple[str, ...]) -> None
         if mech.drum
         else f"units: {d.units}"
     )
+    console.print(skeleton_line(d), markup=False)
     console.print(searched_line(d), markup=False)
     console.print(
         f"inferred: {mech.family}: {len(mech.parts)} parts, {len(mech.pins)} pins "
@@ -320,6 +350,7 @@ def _print_verdict(console: Any, j: Judgement, strict: bool) -> None:
         + (" (strict: warnings fail)" if strict else "")
     )
     console.print(f"μ = {j.mu:g} (range {j.mu_min:g} to {j.mu_max:g})")
+    console.print(skeleton_line(j.mechanism.drawing), markup=False)
     console.print(searched_line(j.mechanism.drawing), markup=False)
     for line in _theory_lines(j):
         console.print(line, markup=False)

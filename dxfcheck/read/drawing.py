@@ -249,6 +249,9 @@ class Drawing:
         The project file read (None: none was found or named).
     sidecar_path : str or None
         The drawing's own file ``NAME.toml`` read beside it, if any.
+    skeleton_source : str
+        Where the skeleton came from: ``layers`` (the role layers) or
+        ``geometry (STYLE)`` when :mod:`dxfcheck.infer` inferred it.
     """
 
     path: str
@@ -268,6 +271,7 @@ class Drawing:
     loose_circles: tuple[LooseCircle, ...] = ()
     config_path: str | None = None
     sidecar_path: str | None = None
+    skeleton_source: str = "layers"
 
     def circles_of(self, role: Role) -> tuple[CircleGeom, ...]:
         return tuple(c for c in self.circles if c.role is role)
