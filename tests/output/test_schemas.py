@@ -85,6 +85,15 @@ def test_solve_and_check_of_every_demo_meet_their_schemas(drawing):
     assert output_json(checked.stdout)["schema"] == CHECK_SCHEMA
 
 
+@pytest.mark.parametrize("style", ["centrelines", "outlines", "blocks"])
+def test_a_drafted_drawing_meets_the_schema_and_says_how_it_was_read(style):
+    """A skeleton inferred from the geometry: the document names the style."""
+    solved = run("solve", DEMOS / "drafted" / f"winch_{style}.dxf", "--json")
+    assert solved.returncode in (0, 1), solved.stderr
+    doc = output_json(solved.stdout)
+    assert doc["skeleton"] == f"geometry ({'centre lines' if style == 'centrelines' else style})"
+
+
 def test_compare_batch_and_sensitivity_meet_their_schemas(tmp_path):
     moved = tmp_path / "winch-B.dxf"
     from common import winch_two_shoe
@@ -95,7 +104,9 @@ def test_compare_batch_and_sensitivity_meet_their_schemas(tmp_path):
     assert output_json(compared.stdout)["schema"] == COMPARE_SCHEMA
     batch = run("batch", DEMOS, "--json", "--no-cache", "--jobs", "1")
     assert batch.returncode in (0, 1), batch.stderr
-    assert len(output_json(batch.stdout)["results"]) == len(list(DEMOS.rglob("*.dxf")))  # the demos and the drafted winch
+    assert len(output_json(batch.stdout)["results"]) == len(
+        list(DEMOS.rglob("*.dxf"))
+    )  # the demos and the drafted winch
     sampled = run("solve", WINCH, "--mu", "0.3..0.4", "--samples", "200", "--pin-tolerance", "0.2mm", "--json")
     assert sampled.returncode == 0, sampled.stderr
     assert output_json(sampled.stdout)["schema"] == SENSITIVITY_SCHEMA
