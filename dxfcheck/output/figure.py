@@ -15,6 +15,14 @@ only its skeleton).
   (stated under the picture); an arrow that would be shorter than
   :data:`MIN_ARROW_FRACTION` of the mechanism is drawn at that length and
   its label marked ``*`` (its value is in the label).
+* Arrows that would coincide (the same point of application and the same
+  direction, within :data:`COINCIDENT_PX` and :data:`COINCIDENT_DEG`: at a
+  band's pin, the band's pull and the pin's force) are staggered, each
+  still along its own vector and on its line of action: the first is drawn
+  *from* its point (tail there), the second *onto* it (head there), any
+  further ones beside the pair, :data:`STAGGER_PX` apart, pushing and
+  pulling in turn (``data-drawn`` on each arrow: ``from``, ``onto``,
+  ``beside``; ``data-at``: the point of application [px]).
 * Labels placed by a greedy search over candidate positions around each
   anchor (rings of candidates at growing distance, leader lines when
   displaced), minimising overlaps with the other labels (never allowed),
@@ -48,6 +56,7 @@ __all__ = [
     "force_polygon",
     "force_text",
     "plan_figure",
+    "stagger",
     "svg_element",
 ]
 
@@ -80,6 +89,15 @@ CLEAR_RINGS = 14
 LEADER_MIN_PX = 8.0
 #: Colour of every force (the skeleton is black).
 FORCE_COLOUR = "#c0001a"
+#: Two arrows whose tails are closer than this [px] and whose directions
+#: differ by less than :data:`COINCIDENT_DEG` [degrees] would be drawn over
+#: each other; they are staggered.
+#: (6 px: a little over twice an arrow's stroke, 2.2 px, so that two arrows
+#: closer than that would read as one.)
+COINCIDENT_PX = 6.0
+COINCIDENT_DEG = 3.0
+#: Spacing of the third and later coincident arrows beside the first pair [px].
+STAGGER_PX = 9.0
 #: Forces below this fraction of the largest are not drawn (they are zero
 #: up to round-off) [-].
 ZERO_FORCE_FRACTION = 1e-9
@@ -123,6 +141,9 @@ class Figure:
     lines: list[tuple[Point, Point, float]] = field(default_factory=list)  # skeleton: a, b, width
     circles: list[tuple[Point, float, bool]] = field(default_factory=list)  # centre, radius, filled
     arrows: list[tuple[Arrow, Point, Point]] = field(default_factory=list)  # arrow, tail px, tip px
+    #: each arrow's point of application [px] and how it is drawn there
+    #: (``from``, ``onto``, ``beside``), in the order of :attr:`arrows`
+    applied: list[tuple[Point, str]] = field(default_factory=list)
     rotation: list[Point] = field(default_factory=list)  # the drum's direction arc, px
     labels: list[tuple[str, Point, tuple[float, float, float, float], bool]] = field(default_factory=list)
     grounds: list[Point] = field(default_factory=list)
@@ -260,10 +281,61 @@ def plan_figure(mech: Mechanism, case: CaseSolution, title: str) -> Figure:
             fig.grounds.append(fr.px(p.center))
     if mech.drum is not None:
         fig.circles.append((fr.px(mech.drum.center), 3.0, True))
-    fig.arrows = [(a, fr.px(a.at_mm), fr.px(a.tip_mm)) for a in arrows]
+    fig.arrows, fig.applied = stagger([(a, fr.px(a.at_mm), fr.px(a.tip_mm)) for a in arrows])
+    if any(how != "from" for _, how in fig.applied):
+        fig.scale_note += "; two forces at one point the same way: one drawn from the point, the other onto it"
     fig.rotation = [fr.px(p) for p in _rotation_mm(mech, case)]
     _place_labels(fig, mech, case, fr)
     return fig
+
+
+def _coincide(a: tuple[Point, Point], b: tuple[Point, Point]) -> bool:
+    """Whether two arrows (tail, tip) [px] start at one point the same way."""
+    if math.dist(a[0], b[0]) > COINCIDENT_PX:
+        return False
+    ta = math.atan2(a[1][1] - a[0][1], a[1][0] - a[0][0])
+    tb = math.atan2(b[1][1] - b[0][1], b[1][0] - b[0][0])
+    return abs(math.degrees(math.remainder(ta - tb, math.tau))) < COINCIDENT_DEG
+
+
+def _staggered(tail: Point, tip: Point, k: int) -> tuple[Point, Point, str]:
+    """The ``k``-th arrow (from 0) of a group that start at one point the
+    same way: 0 from the point, 1 onto it; from the third on, beside the
+    pair, :data:`STAGGER_PX` apart on alternate sides (1, -1, 2, -2 ...
+    spacings), pulling and pushing in turn."""
+    dx, dy = tip[0] - tail[0], tip[1] - tail[1]
+    if k == 0:
+        return tail, tip, "from"
+    if k == 1:
+        return (tail[0] - dx, tail[1] - dy), tail, "onto"
+    m = k - 2
+    side = STAGGER_PX * (m // 2 + 1) * (1 if m % 2 == 0 else -1)
+    n = math.hypot(dx, dy) or 1.0
+    t0 = (tail[0] - dy / n * side, tail[1] + dx / n * side)
+    if m % 2 == 1:  # pushing: the head beside the point
+        t0 = (t0[0] - dx, t0[1] - dy)
+    return t0, (t0[0] + dx, t0[1] + dy), "beside"
+
+
+def stagger(
+    arrows: list[tuple[Arrow, Point, Point]],
+) -> tuple[list[tuple[Arrow, Point, Point]], list[tuple[Point, str]]]:
+    """The arrows (arrow, tail, tip [px]) with coincident ones staggered
+    (:func:`_staggered`), and each one's point of application [px] with how
+    it is drawn there.  Every arrow keeps its length and direction."""
+    out: list[tuple[Arrow, Point, Point]] = []
+    applied: list[tuple[Point, str]] = []
+    groups: list[list[tuple[Point, Point]]] = []
+    for arrow, tail, tip in arrows:
+        group = next((g for g in groups if _coincide(g[0], (tail, tip))), None)
+        if group is None:
+            group = []
+            groups.append(group)
+        group.append((tail, tip))
+        t0, t1, how = _staggered(tail, tip, len(group) - 1)
+        out.append((arrow, t0, t1))
+        applied.append((tail, how))
+    return out, applied
 
 
 # --- label placement ---------------------------------------------------------
@@ -427,8 +499,14 @@ def _skeleton_svg(svg: ET.Element, fig: Figure) -> None:
 
 def _forces_svg(svg: ET.Element, fig: Figure) -> None:
     forces = _el(svg, "g", **{"class": "forces"}, stroke=FORCE_COLOUR, fill=FORCE_COLOUR)
-    for arrow, tail, tip in fig.arrows:
-        g = _el(forces, "g", **{"class": "force", "data-ref": _safe(arrow.ref)})
+    for (arrow, tail, tip), (at, how) in zip(fig.arrows, fig.applied, strict=True):
+        attrs = {
+            "class": "force",
+            "data-ref": _safe(arrow.ref),
+            "data-at": f"{_f(at[0])},{_f(at[1])}",
+            "data-drawn": how,
+        }
+        g = _el(forces, "g", **attrs)
         _el(g, "line", x1=tail[0], y1=tail[1], x2=tip[0], y2=tip[1], stroke_width=2.2)
         _el(g, "polygon", points=_arrow_head(tail, tip), stroke="none")
 

@@ -375,6 +375,92 @@ def test_label_boxes_never_overlap_on_every_drawing(tmp_path):
             svg_element(fig)  # serialises
 
 
+#: Two arrows closer than this at the tail [px] and this in direction
+#: [degrees] would be drawn over each other (an arrow's stroke is 2.2 px).
+SAME_TAIL_PX = 5.0
+SAME_WAY_DEG = 3.0
+
+
+def _heading_deg(tail, tip) -> float:
+    return math.degrees(math.atan2(tip[1] - tail[1], tip[0] - tail[0]))
+
+
+def test_no_two_arrows_coincide_on_every_drawing(tmp_path):
+    """Every drawing of the catalogue, both directions: no two arrows of a
+    picture start at one place the same way (at a band's pin the band's
+    pull and the pin's force are equal vectors at one point, so one is
+    drawn from the point and the other onto it).  Each arrow still points
+    along its solver vector (the picture's y runs down), keeps its length,
+    and its line runs through its point of application: the tail there
+    (drawn from) or the head (drawn onto).  The points of application are
+    the model's points under one similarity (px = s·(x, -y) + offset, the
+    same s for every arrow), and a pin's arrow starts or ends on the pin's
+    circle."""
+    staggered = 0
+    for name, (build, mu) in CATALOGUE.items():
+        path = tmp_path / f"{len(list(tmp_path.iterdir()))}.dxf"
+        build().save(path)
+        sol = analyse(path, mu=mu)
+        for c in sol.cases:
+            fig = plan_figure(sol.mechanism, c, name)
+            arrows = fig.arrows
+            for i, (a, ta, pa) in enumerate(arrows):
+                for b, tb, pb in arrows[i + 1 :]:
+                    same_way = abs(math.remainder(_heading_deg(ta, pa) - _heading_deg(tb, pb), 360.0)) < SAME_WAY_DEG
+                    assert not (math.dist(ta, tb) < SAME_TAIL_PX and same_way), (name, c.direction, a.ref, b.ref)
+            at0_mm, (at0_px, _) = arrows[0][0].at_mm, fig.applied[0]
+            scales = []
+            for (a, tail, tip), (at_px, how) in zip(arrows, fig.applied, strict=True):
+                drawn = (tip[0] - tail[0], -(tip[1] - tail[1]))
+                assert _angle_deg(drawn, a.force_N) < ARROW_ANGLE_DEG, (name, a.ref)
+                assert drawn[0] * a.force_N[0] + drawn[1] * a.force_N[1] > 0
+                assert how in ("from", "onto"), (name, a.ref)  # no drawing has three at one point
+                on = tail if how == "from" else tip
+                assert math.dist(on, at_px) < 1e-9, (name, a.ref, how)
+                staggered += how == "onto"
+                dmm = (a.at_mm[0] - at0_mm[0], a.at_mm[1] - at0_mm[1])
+                dpx = (at_px[0] - at0_px[0], -(at_px[1] - at0_px[1]))
+                if math.hypot(*dmm) > 1.0:
+                    scales.append((dpx[0] / math.hypot(*dmm), dpx[1] / math.hypot(*dmm), dmm))
+                if a.ref.startswith("pin/"):
+                    pin = next(p for p in sol.mechanism.pins if p.name == a.ref[4:])
+                    assert math.dist(pin.center, a.at_mm) < 1e-9
+            s = [math.hypot(sx, sy) for sx, sy, _ in scales]
+            assert max(s) - min(s) < 1e-6 * max(s), name
+            for sx, sy, dmm in scales:  # the same direction in px as in mm
+                n = math.hypot(*dmm)
+                assert abs(sx - s[0] * dmm[0] / n) < 1e-6 * s[0] and abs(sy - s[0] * dmm[1] / n) < 1e-6 * s[0]
+    assert staggered >= 6  # the three band brakes, both directions: pin A (and C on the differential band)
+
+
+def test_stagger_keeps_each_arrow_on_its_line():
+    """Four equal vectors at one point: drawn from it, onto it, then beside
+    the pair on alternate sides (STAGGER_PX apart), none over another, each
+    with the vector's direction and length."""
+    from dxfcheck.output.figure import STAGGER_PX, Arrow, stagger
+
+    arrow = Arrow("pin/A", "A", (0.0, 0.0), (3.0, 4.0), 50.0, False)
+    tail, tip = (100.0, 100.0), (130.0, 60.0)  # px, y down: the vector (3, 4) up and right
+    out, applied = stagger([(arrow, tail, tip)] * 4 + [(arrow, tail, (70.0, 140.0))])
+    assert [how for _, how in applied] == ["from", "onto", "beside", "beside", "from"]  # the last points the other way
+    assert all(at == tail for at, _ in applied)
+    for _, t, p in out:
+        assert math.dist(t, p) == pytest.approx(50.0)
+        assert _angle_deg((p[0] - t[0], -(p[1] - t[1])), (3.0, 4.0)) < 1e-9 or t == tail
+    (_, t0, _), (_, t1, p1), (_, t2, _), (_, t3, p3) = out[:4]
+    assert t0 == tail and p1 == pytest.approx(tail) and t1 == pytest.approx((70.0, 140.0))
+    u = (0.6, -0.8)  # the unit direction in px
+
+    def side(q):  # signed distance of q from the line through the point
+        return (q[0] - tail[0]) * -u[1] + (q[1] - tail[1]) * u[0]
+
+    assert side(t2) == pytest.approx(STAGGER_PX) and side(t3) == pytest.approx(-STAGGER_PX)
+    assert math.dist(p3, tail) == pytest.approx(STAGGER_PX)  # the fourth pushes: its head beside the point
+    for i, (_, a, b) in enumerate(out):
+        for _, c, d in out[i + 1 :]:
+            assert (a, b) != (c, d)
+
+
 def test_record_label_boxes_do_not_overlap(records):
     for name, (rec, *_) in records.items():
         for boxes in rec.labels:
