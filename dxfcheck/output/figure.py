@@ -40,13 +40,13 @@ from __future__ import annotations
 import itertools
 import math
 import xml.etree.ElementTree as ET
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 
 from dxfcheck.core.geometry import Point
 from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.mechanism.model import Mechanism
-from dxfcheck.statics import CaseSolution
+from dxfcheck.statics import CaseSolution, Station
 
 __all__ = [
     "FONT_PX",
@@ -55,6 +55,7 @@ __all__ = [
     "Figure",
     "force_polygon",
     "force_text",
+    "moment_diagram",
     "plan_figure",
     "stagger",
     "svg_element",
@@ -579,4 +580,58 @@ def force_polygon(forces: list[tuple[str, Point]]) -> ET.Element:
         _el(a, "polygon", points=_arrow_head(tail, tip, 7.0), stroke="none")
         mid = ((tail[0] + tip[0]) / 2, (tail[1] + tip[1]) / 2)
         _el(svg, "text", x=mid[0] + 3, y=mid[1] - 3, fill="black").text = str(k + 1)
+    return svg
+
+
+#: Size of a part's bending moment diagram: width and height [px].
+MOMENT_W_PX = 360.0
+MOMENT_H_PX = 110.0
+
+
+def moment_diagram(part: str, stations: Sequence[Station]) -> ET.Element:
+    """A part's bending moment along its centreline, drawn from the solve's
+    stations: the segments side by side in their order (each as long as it
+    is drawn, at one scale), the moment at each station plotted up when
+    counter-clockwise positive (the result's sign), joined by straight lines
+    (the moment is linear between stations), over a zero line; the largest
+    moment labelled.  No value is computed here but where to draw it."""
+    segs: dict[int, list[Station]] = {}
+    for st in stations:
+        segs.setdefault(st.segment, []).append(st)
+    lengths = {k: math.dist(sts[0].start_mm, sts[0].end_mm) for k, sts in segs.items()}
+    total = sum(lengths.values()) or 1.0
+    biggest = max((abs(st.moment_Nmm) for st in stations), default=0.0)
+    sx = MOMENT_W_PX / total
+    sy = 0.5 * MOMENT_H_PX / biggest if biggest > 0 else 0.0
+    zero = 0.5 * MOMENT_H_PX
+    pad = 16.0
+    svg = ET.Element("svg", {"xmlns": "http://www.w3.org/2000/svg"})
+    svg.set("viewBox", f"{_f(-pad)} {_f(-pad)} {_f(MOMENT_W_PX + 2 * pad)} {_f(MOMENT_H_PX + 2.6 * pad)}")
+    svg.set("class", "moment")
+    svg.set("font-family", "DejaVu Sans, Arial, sans-serif")
+    svg.set("font-size", "9.00")
+    ET.SubElement(svg, "title").text = _safe(f"bending moment, {part}")
+    _el(svg, "line", x1=0.0, y1=zero, x2=MOMENT_W_PX, y2=zero, stroke="black", stroke_width=0.8, **{"class": "zero"})
+    x0 = 0.0
+    peak: tuple[float, Point] | None = None
+    for k, sts in segs.items():
+        pts = [(x0 + math.dist(st.start_mm, st.at_mm) * sx, zero - st.moment_Nmm * sy) for st in sts]
+        ring = [(pts[0][0], zero), *pts, (pts[-1][0], zero)]
+        _el(svg, "polygon", points=" ".join(f"{_f(x)},{_f(y)}" for x, y in ring), fill="#f3c7cd", stroke="none")
+        line = _el(svg, "polyline", points=" ".join(f"{_f(x)},{_f(y)}" for x, y in pts), fill="none")
+        line.set("stroke", FORCE_COLOUR)
+        line.set("stroke-width", "1.40")
+        line.set("class", "moment-line")
+        line.set("data-segment", str(k))
+        _el(svg, "line", x1=x0, y1=zero - 4, x2=x0, y2=zero + 4, stroke="#666", stroke_width=0.8)
+        _el(svg, "text", x=x0 + 2, y=MOMENT_H_PX + 1.6 * pad, fill="#444").text = f"s{k}"
+        for st, p in zip(sts, pts, strict=True):
+            if peak is None or abs(st.moment_Nmm) > abs(peak[0]):
+                peak = (st.moment_Nmm, p)
+        x0 += lengths[k] * sx
+    if peak is not None:
+        m, p = peak
+        y = p[1] - 4 if m >= 0 else p[1] + 11
+        label = _el(svg, "text", x=min(p[0], MOMENT_W_PX - 70), y=y, fill="black")
+        label.text = f"M = {m / 1000:.4g} N·m"
     return svg

@@ -58,6 +58,8 @@ class _Record(HTMLParser):
         self._in_label = False
         self._figure = False
         self.polygons: list[dict] = []
+        self.moments: list[dict] = []  # bending moment diagrams: zero line y, polylines (segment, points)
+        self._svg = ""
 
     def handle_starttag(self, tag, attrs):
         a = dict(attrs)
@@ -74,12 +76,20 @@ class _Record(HTMLParser):
             self.arrows.append([])
             self.labels.append([])
             self._figure = True
-        elif tag == "svg":
-            self._figure = False
+        elif tag == "svg" and a.get("class") == "polygon":
+            self._figure, self._svg = False, "polygon"
             self.polygons.append({"ring": None, "lines": []})
-        elif tag == "circle" and not self._figure and self.polygons and self.polygons[-1]["ring"] is None:
+        elif tag == "svg" and a.get("class") == "moment":
+            self._figure, self._svg = False, "moment"
+            self.moments.append({"zero": None, "lines": []})
+        elif self._svg == "moment" and tag == "line" and a.get("class") == "zero":
+            self.moments[-1]["zero"] = float(a["y1"])
+        elif self._svg == "moment" and tag == "polyline":
+            pts = [tuple(float(v) for v in q.split(",")) for q in a["points"].split()]
+            self.moments[-1]["lines"].append((int(a["data-segment"]), pts))
+        elif tag == "circle" and self._svg == "polygon" and self.polygons[-1]["ring"] is None:
             self.polygons[-1]["ring"] = (float(a["cx"]), float(a["cy"]))
-        elif tag == "line" and not self._figure and self.polygons:
+        elif tag == "line" and self._svg == "polygon":
             self.polygons[-1]["lines"].append(tuple(float(a[k]) for k in ("x1", "y1", "x2", "y2")))
         elif tag == "g" and a.get("class") == "force" and self._figure:
             self._ref = a["data-ref"]
@@ -91,6 +101,8 @@ class _Record(HTMLParser):
             self.labels[-1].append(tuple(float(a[k]) for k in ("x", "y", "width", "height")))
 
     def handle_endtag(self, tag):
+        if tag == "svg":
+            self._svg = ""
         if tag in ("td", "th") and self._cell is not None and self.tables:
             self.tables[-1][1][-1].append(("".join(self._cell).strip(), self._value))
             self._cell = None
@@ -297,6 +309,70 @@ def test_force_polygons_close_and_follow_the_forces(records):
                 assert _angle_deg((x2 - x1, -(y2 - y1)), (r[3], r[4])) < ARROW_ANGLE_DEG, (name, r)
             end = (lines[-1][2], lines[-1][3])
             assert math.dist(end, poly["ring"]) < 0.05, (name, end, poly["ring"])  # px, of a 170 px drawing
+
+
+def test_internal_forces_equal_the_json_and_are_drawn_their_way(records):
+    """Each part's stations in the record (table) are the JSON's per-case
+    ``parts`` stations, number for number (at_mm, axial_N, shear_N,
+    moment_Nmm); its bending moment diagram plots each station's moment up
+    when counter-clockwise positive, at one scale for the whole part
+    (zero line - y = k·M with one k > 0), the stations of a segment left to
+    right in their order along it."""
+    checked = 0
+    for name, (rec, doc, _, _) in records.items():
+        tables, moments = rec.all_tables("stations"), rec.moments
+        want = [d for c in sorted(doc["cases"], key=lambda c: ("cw", "ccw").index(c["direction"])) for d in c["parts"]]
+        drawn = [d for d in want if d["tree"] and d["stations"]]
+        assert len(tables) == len(moments) == len(drawn), name
+        for d, rows, diagram in zip(drawn, tables, moments, strict=True):
+            got = [(row[2][1], row[3][1], row[4][1], row[5][1], row[6][1]) for row in rows]
+            assert got == [(*s["at_mm"], s["axial_N"], s["shear_N"], s["moment_Nmm"]) for s in d["stations"]], name
+            assert [row[1][0] for row in rows] == [f"s{s['segment']}" for s in d["stations"]]
+            plotted = [(seg, p) for seg, pts in diagram["lines"] for p in pts]
+            assert [seg for seg, _ in plotted] == [s["segment"] for s in d["stations"]]
+            heights = [diagram["zero"] - p[1] for _, p in plotted]
+            ms = [s["moment_Nmm"] for s in d["stations"]]
+            big = max(range(len(ms)), key=lambda i: abs(ms[i]))
+            if ms[big] == 0:
+                assert all(abs(h) < 0.01 for h in heights)
+                continue
+            k = heights[big] / ms[big]
+            assert k > 0, (name, d["part"])  # counter-clockwise (positive) moments are drawn up
+            for h, m in zip(heights, ms, strict=True):
+                assert abs(h - k * m) <= 0.02, (name, d["part"], h, m)  # the SVG keeps two decimals of a px
+            for _, pts in diagram["lines"]:
+                xs = [p[0] for p in pts]
+                assert xs == sorted(xs)
+            checked += 1
+    assert checked >= 10
+
+
+def test_block_lever_moment_in_the_record(tmp_path):
+    """A single-lever block brake with the lever through the contact point
+    (a = 0): the effort P at arm l from the pivot O, the drum's normal and
+    friction at arm x.  The part of the lever beyond the contact carries only
+    P, so the largest bending moment in the lever is at the contact,
+    |M| = P·(l − x) (method of sections, Beer & Johnston, *Vector Mechanics
+    for Engineers: Statics*, 11th ed., ch. 7): 1000 N × (500 − 200) mm =
+    300 000 N·mm.  Its sign: P pushes down on the far end, to the right of
+    the section, so it turns clockwise about it: M < 0 (counter-clockwise
+    positive), drawn below the zero line."""
+    path = tmp_path / "block0.dxf"
+    block_brake(r=200, l=500, x=200, a=0, effort="1 kN").save(path)
+    out = tmp_path / "block0.html"
+    _run_check(path, out)
+    rec = _read(out)
+    lever = [
+        (rows, diagram)
+        for rows, diagram in zip(rec.all_tables("stations"), rec.moments, strict=True)
+        if any(abs(abs(row[6][1]) - 1000 * (500 - 200)) < 1e-6 * 3e5 for row in rows)
+    ]
+    assert len(lever) == 2  # cw and ccw: the effort is the same, so is the lever's moment there
+    for rows, diagram in lever:
+        worst = max(rows, key=lambda row: abs(row[6][1]))
+        assert worst[6][1] == pytest.approx(-1000 * (500 - 200), rel=1e-9)
+        assert worst[4][1] == pytest.approx(0.0, abs=1e-6)  # the effort is across the lever: no axial force
+        assert max(diagram["zero"] - p[1] for _, pts in diagram["lines"] for p in pts) <= 0.01  # drawn below
 
 
 def _arrow_vectors(c: dict) -> dict[str, tuple[float, float]]:
