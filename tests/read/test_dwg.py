@@ -604,16 +604,22 @@ def test_copy_data_matches_shared(samples: Path) -> None:
 # ---------------------------------------------------------------- block attributes (the title block)
 
 
+def _attrib_text(a: Any) -> str:
+    """An attribute's value; a multi-line one (R2018) keeps it in an
+    embedded MTEXT, which ezdxf reads separately from ``text``."""
+    return str(a.plain_mtext()) if a.has_embedded_mtext_entity else str(a.dxf.text)
+
+
 def _attributes(doc: Any) -> tuple[list[tuple[Any, ...]], list[tuple[Any, ...]]]:
     """The ATTRIBs of model space's block references (block, tag, text,
     insert, layer) and the ATTDEFs of every block (block, tag, insert)."""
     attribs = [
-        (e.dxf.name, a.dxf.tag, a.dxf.text, tuple(round(v, 9) for v in a.dxf.insert), a.dxf.layer)
+        (e.dxf.name, a.dxf.tag, _attrib_text(a), tuple(round(v, 6) for v in a.dxf.insert), a.dxf.layer)
         for e in doc.modelspace().query("INSERT")
         for a in e.attribs
     ]
     attdefs = [
-        (b.name, a.dxf.tag, tuple(round(v, 9) for v in a.dxf.insert))
+        (b.name, a.dxf.tag, tuple(round(v, 6) for v in a.dxf.insert))
         for b in doc.blocks
         if not b.name.startswith("*")
         for a in b.query("ATTDEF")
@@ -657,3 +663,16 @@ def test_title_block_of_a_dwg_names_the_dwg_handle(tmp_path: Path) -> None:
     assert tb.number.source == "block attribute"
     assert f"handle {owner:X}," in tb.number.where and "tag DRAWING_NO" in tb.number.where
     assert "layer TITLE" in tb.number.where and "block DXFCHECK_DEMO_TITLE" in tb.number.where
+
+
+@pytest.mark.parametrize(("dwg_name", "dxf_name", "version"), ACADSHARP, ids=[v for _, _, v in ACADSHARP])
+def test_block_attributes_agree_with_the_twin(samples: Path, dwg_name: str, dxf_name: str, version: str) -> None:
+    """ACadSharp's samples, written by another program as DWG and as DXF:
+    the block attributes the adapter carries are the twin's (tags, values,
+    places, layers; the ATTDEFs of every block), the multi-line one of R2018
+    included."""
+    dwg_path = _pair(samples, dwg_name)
+    dd = _load_dwg(dwg_path, Config(), None)
+    mine, theirs = _attributes(dd.doc), _attributes(ezdxf.readfile(str(dwg_path.with_name(dxf_name))))
+    assert mine == theirs
+    assert len(mine[0]) >= 4 and len(mine[1]) >= 5  # the sample's block references carry attributes
