@@ -204,3 +204,60 @@ def test_real_dwg_without_a_brake_in_batch(no_brake: Path) -> None:
     rows = output_json(r.stdout)["results"]
     assert [(Path(x["drawing"]).name, x["status"]) for x in rows] == [(no_brake.name, "error")]
     assert "M201" in json.dumps(rows)
+
+
+def _identity_rows(html: str) -> dict[str, tuple[str, str]]:
+    """The record's identity table: item -> (value, read from)."""
+    from html.parser import HTMLParser
+
+    class Rows(HTMLParser):
+        def __init__(self) -> None:
+            super().__init__(convert_charrefs=True)
+            self.rows: list[list[str]] = []
+            self.on = False
+            self.cell: list[str] | None = None
+
+        def handle_starttag(self, tag: str, attrs: list[tuple[str, str | None]]) -> None:
+            if tag == "table":
+                self.on = "identity" in (dict(attrs).get("class") or "").split()
+            elif tag == "tr" and self.on:
+                self.rows.append([])
+            elif tag == "td" and self.on:
+                self.cell = []
+
+        def handle_endtag(self, tag: str) -> None:
+            if tag == "td" and self.cell is not None:
+                self.rows[-1].append("".join(self.cell).strip())
+                self.cell = None
+            elif tag == "table":
+                self.on = False
+
+        def handle_data(self, data: str) -> None:
+            if self.cell is not None:
+                self.cell.append(data)
+
+    p = Rows()
+    p.feed(html)
+    return {r[0]: (r[1], r[2]) for r in p.rows if len(r) == 3}
+
+
+def test_record_of_a_dwg_reads_its_title_block(folder: Path) -> None:
+    """The record of the winch demo written as DWG shows the title block's
+    drawing number, title and revision (the ATTRIBs of the title block's
+    reference, carried through the DWG adapter), each saying where it was
+    read: the block, the tag, the DWG's own handle of the reference and its
+    layer (drawings/build.py writes TQ-W2-BR-201, revision C)."""
+    import ezdwg
+
+    r = run("check", "winch_two_shoe.dwg", "--record", "winch-dwg.html", cwd=folder)
+    assert r.returncode == 1, r.stderr  # the winch fails its gate, as its DXF does
+    rows = _identity_rows((folder / "winch-dwg.html").read_text(encoding="utf-8"))
+    owner = next(iter(ezdwg.read(str(folder / "winch_two_shoe.dwg")).entities().query("ATTRIB"))).dxf["owner_handle"]
+    assert rows["file"][0] == "winch_two_shoe.dwg"
+    assert rows["drawing number"] == (
+        "TQ-W2-BR-201",
+        f"block attribute: block DXFCHECK_DEMO_TITLE, tag DRAWING_NO, handle {int(owner):X}, layer TITLE",
+    )
+    assert rows["title"][0] == "Incline winch holding brake, two shoes"
+    assert rows["revision"][0] == "C"
+    assert "tag REV," in rows["revision"][1] and f"handle {int(owner):X}," in rows["revision"][1]

@@ -15,6 +15,14 @@ only its skeleton).
   (stated under the picture); an arrow that would be shorter than
   :data:`MIN_ARROW_FRACTION` of the mechanism is drawn at that length and
   its label marked ``*`` (its value is in the label).
+* Arrows that would coincide (the same point of application and the same
+  direction, within :data:`COINCIDENT_PX` and :data:`COINCIDENT_DEG`: at a
+  band's pin, the band's pull and the pin's force) are staggered, each
+  still along its own vector and on its line of action: the first is drawn
+  *from* its point (tail there), the second *onto* it (head there), any
+  further ones beside the pair, :data:`STAGGER_PX` apart, pushing and
+  pulling in turn (``data-drawn`` on each arrow: ``from``, ``onto``,
+  ``beside``; ``data-at``: the point of application [px]).
 * Labels placed by a greedy search over candidate positions around each
   anchor (rings of candidates at growing distance, leader lines when
   displaced), minimising overlaps with the other labels (never allowed),
@@ -32,13 +40,13 @@ from __future__ import annotations
 import itertools
 import math
 import xml.etree.ElementTree as ET
-from collections.abc import Iterable
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 
 from dxfcheck.core.geometry import Point
 from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.mechanism.model import Mechanism
-from dxfcheck.statics import CaseSolution
+from dxfcheck.statics import CaseSolution, Station
 
 __all__ = [
     "FONT_PX",
@@ -47,7 +55,9 @@ __all__ = [
     "Figure",
     "force_polygon",
     "force_text",
+    "moment_diagram",
     "plan_figure",
+    "stagger",
     "svg_element",
 ]
 
@@ -80,6 +90,15 @@ CLEAR_RINGS = 14
 LEADER_MIN_PX = 8.0
 #: Colour of every force (the skeleton is black).
 FORCE_COLOUR = "#c0001a"
+#: Two arrows whose tails are closer than this [px] and whose directions
+#: differ by less than :data:`COINCIDENT_DEG` [degrees] would be drawn over
+#: each other; they are staggered.
+#: (6 px: a little over twice an arrow's stroke, 2.2 px, so that two arrows
+#: closer than that would read as one.)
+COINCIDENT_PX = 6.0
+COINCIDENT_DEG = 3.0
+#: Spacing of the third and later coincident arrows beside the first pair [px].
+STAGGER_PX = 9.0
 #: Forces below this fraction of the largest are not drawn (they are zero
 #: up to round-off) [-].
 ZERO_FORCE_FRACTION = 1e-9
@@ -123,6 +142,9 @@ class Figure:
     lines: list[tuple[Point, Point, float]] = field(default_factory=list)  # skeleton: a, b, width
     circles: list[tuple[Point, float, bool]] = field(default_factory=list)  # centre, radius, filled
     arrows: list[tuple[Arrow, Point, Point]] = field(default_factory=list)  # arrow, tail px, tip px
+    #: each arrow's point of application [px] and how it is drawn there
+    #: (``from``, ``onto``, ``beside``), in the order of :attr:`arrows`
+    applied: list[tuple[Point, str]] = field(default_factory=list)
     rotation: list[Point] = field(default_factory=list)  # the drum's direction arc, px
     labels: list[tuple[str, Point, tuple[float, float, float, float], bool]] = field(default_factory=list)
     grounds: list[Point] = field(default_factory=list)
@@ -260,10 +282,61 @@ def plan_figure(mech: Mechanism, case: CaseSolution, title: str) -> Figure:
             fig.grounds.append(fr.px(p.center))
     if mech.drum is not None:
         fig.circles.append((fr.px(mech.drum.center), 3.0, True))
-    fig.arrows = [(a, fr.px(a.at_mm), fr.px(a.tip_mm)) for a in arrows]
+    fig.arrows, fig.applied = stagger([(a, fr.px(a.at_mm), fr.px(a.tip_mm)) for a in arrows])
+    if any(how != "from" for _, how in fig.applied):
+        fig.scale_note += "; two forces at one point the same way: one drawn from the point, the other onto it"
     fig.rotation = [fr.px(p) for p in _rotation_mm(mech, case)]
     _place_labels(fig, mech, case, fr)
     return fig
+
+
+def _coincide(a: tuple[Point, Point], b: tuple[Point, Point]) -> bool:
+    """Whether two arrows (tail, tip) [px] start at one point the same way."""
+    if math.dist(a[0], b[0]) > COINCIDENT_PX:
+        return False
+    ta = math.atan2(a[1][1] - a[0][1], a[1][0] - a[0][0])
+    tb = math.atan2(b[1][1] - b[0][1], b[1][0] - b[0][0])
+    return abs(math.degrees(math.remainder(ta - tb, math.tau))) < COINCIDENT_DEG
+
+
+def _staggered(tail: Point, tip: Point, k: int) -> tuple[Point, Point, str]:
+    """The ``k``-th arrow (from 0) of a group that start at one point the
+    same way: 0 from the point, 1 onto it; from the third on, beside the
+    pair, :data:`STAGGER_PX` apart on alternate sides (1, -1, 2, -2 ...
+    spacings), pulling and pushing in turn."""
+    dx, dy = tip[0] - tail[0], tip[1] - tail[1]
+    if k == 0:
+        return tail, tip, "from"
+    if k == 1:
+        return (tail[0] - dx, tail[1] - dy), tail, "onto"
+    m = k - 2
+    side = STAGGER_PX * (m // 2 + 1) * (1 if m % 2 == 0 else -1)
+    n = math.hypot(dx, dy) or 1.0
+    t0 = (tail[0] - dy / n * side, tail[1] + dx / n * side)
+    if m % 2 == 1:  # pushing: the head beside the point
+        t0 = (t0[0] - dx, t0[1] - dy)
+    return t0, (t0[0] + dx, t0[1] + dy), "beside"
+
+
+def stagger(
+    arrows: list[tuple[Arrow, Point, Point]],
+) -> tuple[list[tuple[Arrow, Point, Point]], list[tuple[Point, str]]]:
+    """The arrows (arrow, tail, tip [px]) with coincident ones staggered
+    (:func:`_staggered`), and each one's point of application [px] with how
+    it is drawn there.  Every arrow keeps its length and direction."""
+    out: list[tuple[Arrow, Point, Point]] = []
+    applied: list[tuple[Point, str]] = []
+    groups: list[list[tuple[Point, Point]]] = []
+    for arrow, tail, tip in arrows:
+        group = next((g for g in groups if _coincide(g[0], (tail, tip))), None)
+        if group is None:
+            group = []
+            groups.append(group)
+        group.append((tail, tip))
+        t0, t1, how = _staggered(tail, tip, len(group) - 1)
+        out.append((arrow, t0, t1))
+        applied.append((tail, how))
+    return out, applied
 
 
 # --- label placement ---------------------------------------------------------
@@ -427,8 +500,14 @@ def _skeleton_svg(svg: ET.Element, fig: Figure) -> None:
 
 def _forces_svg(svg: ET.Element, fig: Figure) -> None:
     forces = _el(svg, "g", **{"class": "forces"}, stroke=FORCE_COLOUR, fill=FORCE_COLOUR)
-    for arrow, tail, tip in fig.arrows:
-        g = _el(forces, "g", **{"class": "force", "data-ref": _safe(arrow.ref)})
+    for (arrow, tail, tip), (at, how) in zip(fig.arrows, fig.applied, strict=True):
+        attrs = {
+            "class": "force",
+            "data-ref": _safe(arrow.ref),
+            "data-at": f"{_f(at[0])},{_f(at[1])}",
+            "data-drawn": how,
+        }
+        g = _el(forces, "g", **attrs)
         _el(g, "line", x1=tail[0], y1=tail[1], x2=tip[0], y2=tip[1], stroke_width=2.2)
         _el(g, "polygon", points=_arrow_head(tail, tip), stroke="none")
 
@@ -501,4 +580,58 @@ def force_polygon(forces: list[tuple[str, Point]]) -> ET.Element:
         _el(a, "polygon", points=_arrow_head(tail, tip, 7.0), stroke="none")
         mid = ((tail[0] + tip[0]) / 2, (tail[1] + tip[1]) / 2)
         _el(svg, "text", x=mid[0] + 3, y=mid[1] - 3, fill="black").text = str(k + 1)
+    return svg
+
+
+#: Size of a part's bending moment diagram: width and height [px].
+MOMENT_W_PX = 360.0
+MOMENT_H_PX = 110.0
+
+
+def moment_diagram(part: str, stations: Sequence[Station]) -> ET.Element:
+    """A part's bending moment along its centreline, drawn from the solve's
+    stations: the segments side by side in their order (each as long as it
+    is drawn, at one scale), the moment at each station plotted up when
+    counter-clockwise positive (the result's sign), joined by straight lines
+    (the moment is linear between stations), over a zero line; the largest
+    moment labelled.  No value is computed here but where to draw it."""
+    segs: dict[int, list[Station]] = {}
+    for st in stations:
+        segs.setdefault(st.segment, []).append(st)
+    lengths = {k: math.dist(sts[0].start_mm, sts[0].end_mm) for k, sts in segs.items()}
+    total = sum(lengths.values()) or 1.0
+    biggest = max((abs(st.moment_Nmm) for st in stations), default=0.0)
+    sx = MOMENT_W_PX / total
+    sy = 0.5 * MOMENT_H_PX / biggest if biggest > 0 else 0.0
+    zero = 0.5 * MOMENT_H_PX
+    pad = 16.0
+    svg = ET.Element("svg", {"xmlns": "http://www.w3.org/2000/svg"})
+    svg.set("viewBox", f"{_f(-pad)} {_f(-pad)} {_f(MOMENT_W_PX + 2 * pad)} {_f(MOMENT_H_PX + 2.6 * pad)}")
+    svg.set("class", "moment")
+    svg.set("font-family", "DejaVu Sans, Arial, sans-serif")
+    svg.set("font-size", "9.00")
+    ET.SubElement(svg, "title").text = _safe(f"bending moment, {part}")
+    _el(svg, "line", x1=0.0, y1=zero, x2=MOMENT_W_PX, y2=zero, stroke="black", stroke_width=0.8, **{"class": "zero"})
+    x0 = 0.0
+    peak: tuple[float, Point] | None = None
+    for k, sts in segs.items():
+        pts = [(x0 + math.dist(st.start_mm, st.at_mm) * sx, zero - st.moment_Nmm * sy) for st in sts]
+        ring = [(pts[0][0], zero), *pts, (pts[-1][0], zero)]
+        _el(svg, "polygon", points=" ".join(f"{_f(x)},{_f(y)}" for x, y in ring), fill="#f3c7cd", stroke="none")
+        line = _el(svg, "polyline", points=" ".join(f"{_f(x)},{_f(y)}" for x, y in pts), fill="none")
+        line.set("stroke", FORCE_COLOUR)
+        line.set("stroke-width", "1.40")
+        line.set("class", "moment-line")
+        line.set("data-segment", str(k))
+        _el(svg, "line", x1=x0, y1=zero - 4, x2=x0, y2=zero + 4, stroke="#666", stroke_width=0.8)
+        _el(svg, "text", x=x0 + 2, y=MOMENT_H_PX + 1.6 * pad, fill="#444").text = f"s{k}"
+        for st, p in zip(sts, pts, strict=True):
+            if peak is None or abs(st.moment_Nmm) > abs(peak[0]):
+                peak = (st.moment_Nmm, p)
+        x0 += lengths[k] * sx
+    if peak is not None:
+        m, p = peak
+        y = p[1] - 4 if m >= 0 else p[1] + 11
+        label = _el(svg, "text", x=min(p[0], MOMENT_W_PX - 70), y=y, fill="black")
+        label.text = f"M = {m / 1000:.4g} N·m"
     return svg

@@ -37,12 +37,12 @@ from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.core.version import __version__
 from dxfcheck.gate.rules import Judgement, RuleResult
 from dxfcheck.mechanism.model import Mechanism
-from dxfcheck.output.figure import force_polygon, plan_figure, svg_element
+from dxfcheck.output.figure import force_polygon, moment_diagram, plan_figure, svg_element
 from dxfcheck.output.json import file_sha256
 from dxfcheck.output.record_pdf import pdf_bytes
 from dxfcheck.output.text import CAUTION
 from dxfcheck.read.titleblock import TitleBlock, read_title_block
-from dxfcheck.statics import CaseSolution
+from dxfcheck.statics import CaseSolution, PartDiagram
 
 __all__ = [
     "SECTIONS",
@@ -93,6 +93,7 @@ th { background: #eee; } td.num { text-align: right; white-space: nowrap; font-v
 svg.figure { width: 100%; height: auto; max-height: 24cm; border: 1px solid #ccc; }
 .part { display: flex; gap: 1em; align-items: flex-start; } .part table { flex: 1; }
 svg.polygon { width: 4.5cm; height: 4.5cm; flex: none; }
+svg.moment { width: 9cm; height: auto; flex: none; } .internal { flex-direction: column; }
 .signature td { height: 2.2em; } code { font-size: 9.5pt; }
 @page { size: A4; margin: 15mm; }
 @media print {
@@ -365,7 +366,10 @@ def _free_bodies(sec: ET.Element, mech: Mechanism, c: CaseSolution) -> None:
         sec,
         "p",
         "Each part's forces as solved, numbered; beside them the same forces drawn tip to tail from the ring "
-        "(a part in balance closes its polygon on the ring).",
+        "(a part in balance closes its polygon on the ring).  Below them its internal forces along the "
+        "centreline at the solve's stations: the forces the part beyond each section (towards the segment's "
+        "end) passes through it, axial N (tension +), shear V (along the segment turned 90° counter-clockwise) "
+        "and bending moment M (counter-clockwise +, drawn up), segment by segment.",
     )
     for part, forces in free_body(mech, c).items():
         _text(sec, "h4", part)
@@ -385,6 +389,33 @@ def _free_bodies(sec: ET.Element, mech: Mechanism, c: CaseSolution) -> None:
         _table(div, ("#", "force", "x", "y", "Fx", "Fy", "|F|"), rows, "free-body")
         if forces:
             div.append(force_polygon([(what, f) for what, _, f in forces]))
+        _internal_forces(sec, part, next((d for d in c.parts if d.part == part), None))
+
+
+def _internal_forces(sec: ET.Element, part: str, d: PartDiagram | None) -> None:
+    """A part's stations (table) and bending moment diagram (SVG), as solved."""
+    if d is None:
+        return
+    if not d.tree:
+        _text(sec, "p", f"{part}: internal forces not given (its centreline closes a loop: statics does not fix them).")
+        return
+    if not d.stations:
+        return
+    div = ET.SubElement(sec, "div", {"class": "part internal"})
+    rows = [
+        (
+            str(k + 1),
+            f"s{st.segment}",
+            _Num(st.at_mm[0], "mm", ".5g"),
+            _Num(st.at_mm[1], "mm", ".5g"),
+            _Num(st.axial_N, "N"),
+            _Num(st.shear_N, "N"),
+            _Num(st.moment_Nmm, "N·mm"),
+        )
+        for k, st in enumerate(d.stations)
+    ]
+    _table(div, ("#", "segment", "x", "y", "axial N", "shear V", "moment M"), rows, "stations")
+    div.append(moment_diagram(part, d.stations))
 
 
 def _results(sec: ET.Element, c: CaseSolution) -> None:

@@ -35,8 +35,9 @@ FIRST_PAGE = ("identity", "verdict")
 LANDSCAPE = ("rules",)
 #: Font sizes [pt].
 SIZES = {"h1": 15.0, "h2": 12.5, "h3": 10.5, "h4": 9.5, "p": 9.0, "table": 7.5}
-#: Width of a force polygon [mm].
+#: Width of a force polygon and of a bending moment diagram [mm].
 POLYGON_MM = 40.0
+MOMENT_MM = 90.0
 #: Widest share of a table's width one column gets, in characters [-].
 MAX_COLUMN_CHARS = 48
 MIN_COLUMN_CHARS = 8
@@ -117,10 +118,10 @@ class _Writer:
             svg.remove(t)
         svg.set("font-family", self.family)  # the PDF's own font, so that every symbol prints
         data = self.text(ET.tostring(svg, encoding="unicode"))
-        small = el.get("class") == "polygon"
-        if not small and self.pdf.get_y() > self.pdf.h / 2:
+        width = {"polygon": POLYGON_MM, "moment": MOMENT_MM}.get(el.get("class") or "")
+        if width is None and self.pdf.get_y() > self.pdf.h / 2:
             self.pdf.add_page()
-        self.pdf.image(io.BytesIO(data.encode("utf-8")), w=POLYGON_MM if small else self.pdf.epw)
+        self.pdf.image(io.BytesIO(data.encode("utf-8")), w=width or self.pdf.epw)
         self.pdf.ln(2)
 
     def walk(self, el: ET.Element) -> None:

@@ -13,12 +13,16 @@ conversion (``to_dxf``) is never used: it drops ``$INSUNITS`` and block
 inserts of older versions.
 
 Carried over as geometry: LINE, CIRCLE, ARC, ELLIPSE, LWPOLYLINE, 2D
-POLYLINE (its vertices and bulges), TEXT, MTEXT, INSERT and MINSERT.  Other
+POLYLINE (its vertices and bulges), TEXT, MTEXT, INSERT and MINSERT; as text, the block attributes: the
+ATTDEFs of each block definition and the ATTRIBs of each block reference
+(the title block's drawing number, title and revision,
+:mod:`dxfcheck.read.titleblock`).  Other
 kinds (SPLINE, SOLID, 3D polylines, ...) become an invisible entity of their kind
 without geometry where they could reach a role layer (their own layer has a
 role, or ``0`` inside a block), so that the reader reports them as it does
-for DXF (D102); hatches, dimensions, attributes, viewports and points are
-ignored by the reader anywhere and are not carried.
+for DXF (D102); hatches, dimensions, viewports and points are ignored by
+the reader anywhere and are not carried (attributes are ignored by the
+geometry reader too, but the title block reader reads them).
 
 Versions: R2000-R2018 (``AC1015``-``AC1032``) are read; R14 (``AC1014``) and
 R13 (``AC1012``) with finding D120 (no ``$INSUNITS`` in R14's header; R13's
@@ -92,9 +96,7 @@ OLD_VERSIONS = {
 #: no DXF version of their own in ezdxf: R2000 holds everything they hold).
 _DXF_VERSION = {"AC1012": "AC1015", "AC1014": "AC1015"}
 #: Entity kinds the DXF reader ignores anywhere (not carried over).
-_NOT_CARRIED = frozenset(
-    {"ATTDEF", "ATTRIB", "DIMENSION", "HATCH", "VIEWPORT", "POINT", "SEQEND", "VERTEX_2D", "VERTEX_3D"}
-)
+_NOT_CARRIED = frozenset({"DIMENSION", "HATCH", "VIEWPORT", "POINT", "SEQEND", "VERTEX_2D", "VERTEX_3D"})
 #: The ezdwg kinds asked for: those carried as geometry and those carried as
 #: stand-ins (asking only for them halves ezdwg's decoding time on ACadSharp's
 #: samples; the kinds of :data:`_NOT_CARRIED` are never decoded).
@@ -109,6 +111,8 @@ QUERIED_KINDS = (
     "MTEXT",
     "INSERT",
     "MINSERT",
+    "ATTDEF",
+    "ATTRIB",
     "POLYLINE_3D",
     "POLYLINE_MESH",
     "POLYLINE_PFACE",
@@ -321,6 +325,8 @@ class _Source:
     model: list[Any]
     owned: dict[int, list[Any]]
     roles: frozenset[str] = frozenset()
+    #: the ATTRIBs of each block reference (by the reference's DWG handle)
+    attribs: dict[int, list[Any]] = field(default_factory=dict)
 
 
 def _decode(src: Any, roles: frozenset[str]) -> _Source:
@@ -352,8 +358,14 @@ def _decode(src: Any, roles: frozenset[str]) -> _Source:
     }
     model: list[Any] = []
     owned: dict[int, list[Any]] = {}
+    attribs: dict[int, list[Any]] = {}
     for e in src.entities().query(QUERIED_KINDS):
         if e.dxftype in _NOT_CARRIED:
+            continue
+        if e.dxftype == "ATTRIB":  # carried with its block reference
+            ref = e.dxf.get("owner_handle")
+            if ref is not None:
+                attribs.setdefault(int(ref), []).append(e)
             continue
         placement = src.entity_placement(e.handle)
         mode, owner = placement if placement is not None else (2, None)
@@ -363,9 +375,9 @@ def _decode(src: Any, roles: frozenset[str]) -> _Source:
         elif mode == 2 or (owner is not None and int(owner) in model_records):
             model.append(e)
     model.sort(key=lambda e: int(e.handle))
-    for items in owned.values():
+    for items in (*owned.values(), *attribs.values()):
         items.sort(key=lambda e: int(e.handle))
-    return _Source(src, layers, blocks, bases, insert_names, model, owned, roles)
+    return _Source(src, layers, blocks, bases, insert_names, model, owned, roles, attribs)
 
 
 def _build(src: Any, code: str, roles: frozenset[str]) -> DwgDocument:
@@ -563,6 +575,13 @@ def _carry(layout: Any, e: Any, layer: str, dec: _Source, in_block: bool) -> Any
         return layout.add_mtext(str(text), dxfattribs=_attribs(e, layer, "insert", "char_height", "extrusion"))
     if kind in ("INSERT", "MINSERT"):
         return _insert(layout, e, layer, dec)
+    if kind == "ATTDEF":
+        return layout.add_attdef(
+            str(d.get("tag") or ""),
+            d.get("insert", (0.0, 0.0, 0.0)),
+            str(d.get("text") or ""),
+            dxfattribs=_text_attribs(e, layer),
+        )
     return _stand_in(layout, e, layer, dec, in_block)
 
 
@@ -587,12 +606,16 @@ def _polyline2d(layout: Any, e: Any, layer: str) -> Any:
     return poly
 
 
-def _text(layout: Any, e: Any, layer: str) -> Any:
-    d = e.dxf
+def _text_attribs(e: Any, layer: str) -> dict[str, Any]:
+    """The placement of a TEXT, ATTDEF or ATTRIB."""
     attribs = _attribs(e, layer, "insert", "height", "rotation", "extrusion", "halign", "valign")
-    if d.get("align_point") is not None:
-        attribs["align_point"] = d["align_point"]
-    return layout.add_text(str(d.get("text") or ""), dxfattribs=attribs)
+    if e.dxf.get("align_point") is not None:
+        attribs["align_point"] = e.dxf["align_point"]
+    return attribs
+
+
+def _text(layout: Any, e: Any, layer: str) -> Any:
+    return layout.add_text(str(e.dxf.get("text") or ""), dxfattribs=_text_attribs(e, layer))
 
 
 def _insert(layout: Any, e: Any, layer: str, dec: _Source) -> Any:
@@ -606,7 +629,14 @@ def _insert(layout: Any, e: Any, layer: str, dec: _Source) -> Any:
     ins = d.get("insert", (0.0, 0.0, 0.0))
     if not all(math.isfinite(float(v)) for v in ins):
         raise ValueError("its insertion point is not finite")
-    return layout.add_blockref(str(name), ins, dxfattribs=attribs)
+    ref = layout.add_blockref(str(name), ins, dxfattribs=attribs)
+    for a in dec.attribs.get(int(e.handle), ()):
+        # the attribute's own layer (an ATTRIB names it as any entity does)
+        h = a.dxf.get("layer_handle")
+        a_layer = layer if h is None else dec.layers.get(int(h), layer)
+        tag, text = str(a.dxf.get("tag") or ""), str(a.dxf.get("text") or "")
+        ref.add_attrib(tag, text, a.dxf.get("insert", (0.0, 0.0, 0.0)), dxfattribs=_text_attribs(a, a_layer))
+    return ref
 
 
 def _stand_in(layout: Any, e: Any, layer: str, dec: _Source, in_block: bool) -> Any:

@@ -11,6 +11,10 @@ Two places are searched, in this order:
 2. the header's custom properties (R2004 and later) under the same names
    (``dxfcheck.`` properties are spec values and are not read here).
 
+A DWG drawing is read through :mod:`dxfcheck.read.dwg`, which carries the
+block attributes (ATTDEF, ATTRIB) from ezdwg's reader; the handle named is
+then the DWG's own.
+
 Each field says where it came from.  The texts are the drawing's data: the
 record escapes them (:mod:`dxfcheck.core.textsafe`).
 """
@@ -23,8 +27,10 @@ from pathlib import Path
 from typing import Any
 
 from dxfcheck.core import deadline
+from dxfcheck.core.config import Config
 from dxfcheck.core.errors import DxfcheckError
-from dxfcheck.read.drawing import _damaged, load_document
+from dxfcheck.read import dwg
+from dxfcheck.read.drawing import _damaged, _load_dwg, load_document
 
 __all__ = ["FIELD_TAGS", "TitleBlock", "TitleField", "read_title_block", "title_from"]
 
@@ -76,7 +82,11 @@ def _field_of(tag: str) -> str | None:
     return next((f for f, tags in FIELD_TAGS.items() if n in tags), None)
 
 
-def _from_attributes(doc: Any) -> dict[str, TitleField]:
+def _from_attributes(doc: Any, handles: dict[str, str] | None = None) -> dict[str, TitleField]:
+    """The fields from block attributes; ``handles`` names the references
+    by another handle (a DWG's: the in-memory document's handle -> the
+    DWG's)."""
+    handles = handles or {}
     found: dict[str, TitleField] = {}
     seen = 0
     for layout in doc.layouts:
@@ -90,9 +100,10 @@ def _from_attributes(doc: Any) -> dict[str, TitleField]:
                 text = str(a.dxf.get("text", "")).strip()[:MAX_FIELD_CHARS]
                 if name is None or not text or name in found:
                     continue
+                handle = str(e.dxf.get("handle", "?"))
                 where = (
                     f"block {e.dxf.get('name', '?')!s}, tag {a.dxf.get('tag', '?')!s}, "
-                    f"handle {e.dxf.get('handle', '?')!s}, layer {e.dxf.get('layer', '?')!s}"
+                    f"handle {handles.get(handle, handle)}, layer {e.dxf.get('layer', '?')!s}"
                 )
                 found[name] = TitleField(text, "block attribute", where)
     return found
@@ -124,8 +135,12 @@ def read_title_block(path: str | os.PathLike[str], properties: tuple[tuple[str, 
     be read gives the custom properties alone, with a note."""
     fails: tuple[type[BaseException], ...] = (*_damaged(), OSError)
     try:
-        doc, _ = load_document(Path(path))
-        attributes = _from_attributes(doc)
+        if dwg.is_dwg_name(Path(path)):
+            dd = _load_dwg(Path(path), Config(), None)
+            attributes = _from_attributes(dd.doc, dd.handles)
+        else:
+            doc, _ = load_document(Path(path))
+            attributes = _from_attributes(doc)
     except DxfcheckError:
         raise
     except fails as exc:

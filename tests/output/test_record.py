@@ -58,6 +58,8 @@ class _Record(HTMLParser):
         self._in_label = False
         self._figure = False
         self.polygons: list[dict] = []
+        self.moments: list[dict] = []  # bending moment diagrams: zero line y, polylines (segment, points)
+        self._svg = ""
 
     def handle_starttag(self, tag, attrs):
         a = dict(attrs)
@@ -74,12 +76,20 @@ class _Record(HTMLParser):
             self.arrows.append([])
             self.labels.append([])
             self._figure = True
-        elif tag == "svg":
-            self._figure = False
+        elif tag == "svg" and a.get("class") == "polygon":
+            self._figure, self._svg = False, "polygon"
             self.polygons.append({"ring": None, "lines": []})
-        elif tag == "circle" and not self._figure and self.polygons and self.polygons[-1]["ring"] is None:
+        elif tag == "svg" and a.get("class") == "moment":
+            self._figure, self._svg = False, "moment"
+            self.moments.append({"zero": None, "lines": []})
+        elif self._svg == "moment" and tag == "line" and a.get("class") == "zero":
+            self.moments[-1]["zero"] = float(a["y1"])
+        elif self._svg == "moment" and tag == "polyline":
+            pts = [tuple(float(v) for v in q.split(",")) for q in a["points"].split()]
+            self.moments[-1]["lines"].append((int(a["data-segment"]), pts))
+        elif tag == "circle" and self._svg == "polygon" and self.polygons[-1]["ring"] is None:
             self.polygons[-1]["ring"] = (float(a["cx"]), float(a["cy"]))
-        elif tag == "line" and not self._figure and self.polygons:
+        elif tag == "line" and self._svg == "polygon":
             self.polygons[-1]["lines"].append(tuple(float(a[k]) for k in ("x1", "y1", "x2", "y2")))
         elif tag == "g" and a.get("class") == "force" and self._figure:
             self._ref = a["data-ref"]
@@ -91,6 +101,8 @@ class _Record(HTMLParser):
             self.labels[-1].append(tuple(float(a[k]) for k in ("x", "y", "width", "height")))
 
     def handle_endtag(self, tag):
+        if tag == "svg":
+            self._svg = ""
         if tag in ("td", "th") and self._cell is not None and self.tables:
             self.tables[-1][1][-1].append(("".join(self._cell).strip(), self._value))
             self._cell = None
@@ -299,6 +311,70 @@ def test_force_polygons_close_and_follow_the_forces(records):
             assert math.dist(end, poly["ring"]) < 0.05, (name, end, poly["ring"])  # px, of a 170 px drawing
 
 
+def test_internal_forces_equal_the_json_and_are_drawn_their_way(records):
+    """Each part's stations in the record (table) are the JSON's per-case
+    ``parts`` stations, number for number (at_mm, axial_N, shear_N,
+    moment_Nmm); its bending moment diagram plots each station's moment up
+    when counter-clockwise positive, at one scale for the whole part
+    (zero line - y = k·M with one k > 0), the stations of a segment left to
+    right in their order along it."""
+    checked = 0
+    for name, (rec, doc, _, _) in records.items():
+        tables, moments = rec.all_tables("stations"), rec.moments
+        want = [d for c in sorted(doc["cases"], key=lambda c: ("cw", "ccw").index(c["direction"])) for d in c["parts"]]
+        drawn = [d for d in want if d["tree"] and d["stations"]]
+        assert len(tables) == len(moments) == len(drawn), name
+        for d, rows, diagram in zip(drawn, tables, moments, strict=True):
+            got = [(row[2][1], row[3][1], row[4][1], row[5][1], row[6][1]) for row in rows]
+            assert got == [(*s["at_mm"], s["axial_N"], s["shear_N"], s["moment_Nmm"]) for s in d["stations"]], name
+            assert [row[1][0] for row in rows] == [f"s{s['segment']}" for s in d["stations"]]
+            plotted = [(seg, p) for seg, pts in diagram["lines"] for p in pts]
+            assert [seg for seg, _ in plotted] == [s["segment"] for s in d["stations"]]
+            heights = [diagram["zero"] - p[1] for _, p in plotted]
+            ms = [s["moment_Nmm"] for s in d["stations"]]
+            big = max(range(len(ms)), key=lambda i: abs(ms[i]))
+            if ms[big] == 0:
+                assert all(abs(h) < 0.01 for h in heights)
+                continue
+            k = heights[big] / ms[big]
+            assert k > 0, (name, d["part"])  # counter-clockwise (positive) moments are drawn up
+            for h, m in zip(heights, ms, strict=True):
+                assert abs(h - k * m) <= 0.02, (name, d["part"], h, m)  # the SVG keeps two decimals of a px
+            for _, pts in diagram["lines"]:
+                xs = [p[0] for p in pts]
+                assert xs == sorted(xs)
+            checked += 1
+    assert checked >= 10
+
+
+def test_block_lever_moment_in_the_record(tmp_path):
+    """A single-lever block brake with the lever through the contact point
+    (a = 0): the effort P at arm l from the pivot O, the drum's normal and
+    friction at arm x.  The part of the lever beyond the contact carries only
+    P, so the largest bending moment in the lever is at the contact,
+    |M| = P·(l − x) (method of sections, Beer & Johnston, *Vector Mechanics
+    for Engineers: Statics*, 11th ed., ch. 7): 1000 N × (500 − 200) mm =
+    300 000 N·mm.  Its sign: P pushes down on the far end, to the right of
+    the section, so it turns clockwise about it: M < 0 (counter-clockwise
+    positive), drawn below the zero line."""
+    path = tmp_path / "block0.dxf"
+    block_brake(r=200, l=500, x=200, a=0, effort="1 kN").save(path)
+    out = tmp_path / "block0.html"
+    _run_check(path, out)
+    rec = _read(out)
+    lever = [
+        (rows, diagram)
+        for rows, diagram in zip(rec.all_tables("stations"), rec.moments, strict=True)
+        if any(abs(abs(row[6][1]) - 1000 * (500 - 200)) < 1e-6 * 3e5 for row in rows)
+    ]
+    assert len(lever) == 2  # cw and ccw: the effort is the same, so is the lever's moment there
+    for rows, diagram in lever:
+        worst = max(rows, key=lambda row: abs(row[6][1]))
+        assert worst[6][1] == pytest.approx(-1000 * (500 - 200), rel=1e-9)
+        assert worst[4][1] == pytest.approx(0.0, abs=1e-6)  # the effort is across the lever: no axial force
+        assert max(diagram["zero"] - p[1] for _, pts in diagram["lines"] for p in pts) <= 0.01  # drawn below
+
+
 def _arrow_vectors(c: dict) -> dict[str, tuple[float, float]]:
     """The solver's vector of every arrow ref, from the JSON."""
     out = {}
@@ -373,6 +449,92 @@ def test_label_boxes_never_overlap_on_every_drawing(tmp_path):
                 for b in boxes[i + 1 :]:
                     assert not boxes_overlap(a, b), (name, c.direction, a, b)
             svg_element(fig)  # serialises
+
+
+#: Two arrows closer than this at the tail [px] and this in direction
+#: [degrees] would be drawn over each other (an arrow's stroke is 2.2 px).
+SAME_TAIL_PX = 5.0
+SAME_WAY_DEG = 3.0
+
+
+def _heading_deg(tail, tip) -> float:
+    return math.degrees(math.atan2(tip[1] - tail[1], tip[0] - tail[0]))
+
+
+def test_no_two_arrows_coincide_on_every_drawing(tmp_path):
+    """Every drawing of the catalogue, both directions: no two arrows of a
+    picture start at one place the same way (at a band's pin the band's
+    pull and the pin's force are equal vectors at one point, so one is
+    drawn from the point and the other onto it).  Each arrow still points
+    along its solver vector (the picture's y runs down), keeps its length,
+    and its line runs through its point of application: the tail there
+    (drawn from) or the head (drawn onto).  The points of application are
+    the model's points under one similarity (px = s·(x, -y) + offset, the
+    same s for every arrow), and a pin's arrow starts or ends on the pin's
+    circle."""
+    staggered = 0
+    for name, (build, mu) in CATALOGUE.items():
+        path = tmp_path / f"{len(list(tmp_path.iterdir()))}.dxf"
+        build().save(path)
+        sol = analyse(path, mu=mu)
+        for c in sol.cases:
+            fig = plan_figure(sol.mechanism, c, name)
+            arrows = fig.arrows
+            for i, (a, ta, pa) in enumerate(arrows):
+                for b, tb, pb in arrows[i + 1 :]:
+                    same_way = abs(math.remainder(_heading_deg(ta, pa) - _heading_deg(tb, pb), 360.0)) < SAME_WAY_DEG
+                    assert not (math.dist(ta, tb) < SAME_TAIL_PX and same_way), (name, c.direction, a.ref, b.ref)
+            at0_mm, (at0_px, _) = arrows[0][0].at_mm, fig.applied[0]
+            scales = []
+            for (a, tail, tip), (at_px, how) in zip(arrows, fig.applied, strict=True):
+                drawn = (tip[0] - tail[0], -(tip[1] - tail[1]))
+                assert _angle_deg(drawn, a.force_N) < ARROW_ANGLE_DEG, (name, a.ref)
+                assert drawn[0] * a.force_N[0] + drawn[1] * a.force_N[1] > 0
+                assert how in ("from", "onto"), (name, a.ref)  # no drawing has three at one point
+                on = tail if how == "from" else tip
+                assert math.dist(on, at_px) < 1e-9, (name, a.ref, how)
+                staggered += how == "onto"
+                dmm = (a.at_mm[0] - at0_mm[0], a.at_mm[1] - at0_mm[1])
+                dpx = (at_px[0] - at0_px[0], -(at_px[1] - at0_px[1]))
+                if math.hypot(*dmm) > 1.0:
+                    scales.append((dpx[0] / math.hypot(*dmm), dpx[1] / math.hypot(*dmm), dmm))
+                if a.ref.startswith("pin/"):
+                    pin = next(p for p in sol.mechanism.pins if p.name == a.ref[4:])
+                    assert math.dist(pin.center, a.at_mm) < 1e-9
+            s = [math.hypot(sx, sy) for sx, sy, _ in scales]
+            assert max(s) - min(s) < 1e-6 * max(s), name
+            for sx, sy, dmm in scales:  # the same direction in px as in mm
+                n = math.hypot(*dmm)
+                assert abs(sx - s[0] * dmm[0] / n) < 1e-6 * s[0] and abs(sy - s[0] * dmm[1] / n) < 1e-6 * s[0]
+    assert staggered >= 6  # the three band brakes, both directions: pin A (and C on the differential band)
+
+
+def test_stagger_keeps_each_arrow_on_its_line():
+    """Four equal vectors at one point: drawn from it, onto it, then beside
+    the pair on alternate sides (STAGGER_PX apart), none over another, each
+    with the vector's direction and length."""
+    from dxfcheck.output.figure import STAGGER_PX, Arrow, stagger
+
+    arrow = Arrow("pin/A", "A", (0.0, 0.0), (3.0, 4.0), 50.0, False)
+    tail, tip = (100.0, 100.0), (130.0, 60.0)  # px, y down: the vector (3, 4) up and right
+    out, applied = stagger([(arrow, tail, tip)] * 4 + [(arrow, tail, (70.0, 140.0))])
+    assert [how for _, how in applied] == ["from", "onto", "beside", "beside", "from"]  # the last points the other way
+    assert all(at == tail for at, _ in applied)
+    for _, t, p in out:
+        assert math.dist(t, p) == pytest.approx(50.0)
+        assert _angle_deg((p[0] - t[0], -(p[1] - t[1])), (3.0, 4.0)) < 1e-9 or t == tail
+    (_, t0, _), (_, t1, p1), (_, t2, _), (_, t3, p3) = out[:4]
+    assert t0 == tail and p1 == pytest.approx(tail) and t1 == pytest.approx((70.0, 140.0))
+    u = (0.6, -0.8)  # the unit direction in px
+
+    def side(q):  # signed distance of q from the line through the point
+        return (q[0] - tail[0]) * -u[1] + (q[1] - tail[1]) * u[0]
+
+    assert side(t2) == pytest.approx(STAGGER_PX) and side(t3) == pytest.approx(-STAGGER_PX)
+    assert math.dist(p3, tail) == pytest.approx(STAGGER_PX)  # the fourth pushes: its head beside the point
+    for i, (_, a, b) in enumerate(out):
+        for _, c, d in out[i + 1 :]:
+            assert (a, b) != (c, d)
 
 
 def test_record_label_boxes_do_not_overlap(records):

@@ -599,3 +599,80 @@ def test_copy_data_matches_shared(samples: Path) -> None:
     for p in samples.iterdir():
         match = list(shared.glob(f"*/{p.name}"))
         assert len(match) == 1 and match[0].read_bytes() == p.read_bytes(), p.name
+
+
+# ---------------------------------------------------------------- block attributes (the title block)
+
+
+def _attrib_text(a: Any) -> str:
+    """An attribute's value; a multi-line one (R2018) keeps it in an
+    embedded MTEXT, which ezdxf reads separately from ``text``."""
+    return str(a.plain_mtext()) if a.has_embedded_mtext_entity else str(a.dxf.text)
+
+
+def _attributes(doc: Any) -> tuple[list[tuple[Any, ...]], list[tuple[Any, ...]]]:
+    """The ATTRIBs of model space's block references (block, tag, text,
+    insert, layer) and the ATTDEFs of every block (block, tag, insert)."""
+    attribs = [
+        (e.dxf.name, a.dxf.tag, _attrib_text(a), tuple(round(v, 6) for v in a.dxf.insert), a.dxf.layer)
+        for e in doc.modelspace().query("INSERT")
+        for a in e.attribs
+    ]
+    attdefs = [
+        (b.name, a.dxf.tag, tuple(round(v, 6) for v in a.dxf.insert))
+        for b in doc.blocks
+        if not b.name.startswith("*")
+        for a in b.query("ATTDEF")
+    ]
+    return sorted(attribs), sorted(attdefs)
+
+
+def test_block_attributes_are_carried(tmp_path: Path) -> None:
+    """The demo's title block written as DWG (ATTDEFs in the block, ATTRIBs
+    on its reference) comes out of the adapter as the DXF holds it: the
+    same tags, values, places and layers."""
+    from read.dwg_writer import write_dwg
+
+    src = ROOT / "drawings" / "winch_two_shoe.dxf"
+    write_dwg(src, tmp_path / "w.dwg")
+    dd = _load_dwg(tmp_path / "w.dwg", Config(), None)
+    mine, theirs = _attributes(dd.doc), _attributes(ezdxf.readfile(str(src)))
+    assert mine == theirs
+    attribs, attdefs = mine
+    assert [t for _, t, _, _, _ in attribs] == ["DRAWING_NO", "REV", "TITLE"]  # not an empty comparison
+    assert [t for _, t, _ in attdefs] == ["DRAWING_NO", "REV", "TITLE"]
+
+
+def test_title_block_of_a_dwg_names_the_dwg_handle(tmp_path: Path) -> None:
+    """The title block reader finds the DWG's drawing number, title and
+    revision, and names the block reference by the DWG's own handle (the
+    owner handle ezdwg gives each ATTRIB)."""
+    import ezdwg
+    from common import TITLES
+    from read.dwg_writer import write_dwg
+
+    from dxfcheck.read.titleblock import read_title_block
+
+    write_dwg(ROOT / "drawings" / "winch_two_shoe.dxf", tmp_path / "w.dwg")
+    tb = read_title_block(tmp_path / "w.dwg")
+    assert tb.number is not None and tb.title is not None and tb.revision is not None, tb.note
+    assert (tb.number.value, tb.title.value, tb.revision.value) == TITLES["winch_two_shoe"]
+    owners = {int(a.dxf["owner_handle"]) for a in ezdwg.read(str(tmp_path / "w.dwg")).entities().query("ATTRIB")}
+    assert len(owners) == 1
+    (owner,) = owners
+    assert tb.number.source == "block attribute"
+    assert f"handle {owner:X}," in tb.number.where and "tag DRAWING_NO" in tb.number.where
+    assert "layer TITLE" in tb.number.where and "block DXFCHECK_DEMO_TITLE" in tb.number.where
+
+
+@pytest.mark.parametrize(("dwg_name", "dxf_name", "version"), ACADSHARP, ids=[v for _, _, v in ACADSHARP])
+def test_block_attributes_agree_with_the_twin(samples: Path, dwg_name: str, dxf_name: str, version: str) -> None:
+    """ACadSharp's samples, written by another program as DWG and as DXF:
+    the block attributes the adapter carries are the twin's (tags, values,
+    places, layers; the ATTDEFs of every block), the multi-line one of R2018
+    included."""
+    dwg_path = _pair(samples, dwg_name)
+    dd = _load_dwg(dwg_path, Config(), None)
+    mine, theirs = _attributes(dd.doc), _attributes(ezdxf.readfile(str(dwg_path.with_name(dxf_name))))
+    assert mine == theirs
+    assert len(mine[0]) >= 4 and len(mine[1]) >= 5  # the sample's block references carry attributes
