@@ -47,7 +47,7 @@ from typing import Any
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.gate.rules import Judgement, duties
 from dxfcheck.gate.spec import Spec
-from dxfcheck.gate.verdicts import RuleResult, Verdict
+from dxfcheck.gate.verdicts import RuleResult, Verdict, figures
 from dxfcheck.gate.verdicts import ratio_rule as _ratio_rule
 from dxfcheck.gate.verdicts import skip as _skip
 from dxfcheck.mechanism import Mechanism, Spring
@@ -181,7 +181,7 @@ def _stroke(spec: Spec, rel: Release) -> RuleResult:
         return _skip(rule, title, f"needs {', '.join(miss)}", SRC_STROKE)
     need = c * rel.stroke_per_lift
     inputs = dict(_kin_inputs(rel), shoe_clearance_mm=c, actuator_stroke_mm=stroke)
-    msg = f"{rel.actuator} strokes {need:.4g} mm for {c:g} mm at every lining centre"
+    msg = f"{rel.actuator} strokes {need:.{figures(need, stroke)}g} mm for {c:g} mm at every lining centre"
     return _ratio_rule(rule, title, need, stroke, "mm", SRC_STROKE, inputs, at_most=True, message=msg)
 
 
@@ -206,8 +206,20 @@ def _wear(spec: Spec, rel: Release) -> RuleResult:
         "stroke_left_for_wear_mm": stroke - c * rel.stroke_per_lift,
         "wear_allowance_mm": allow,
     }
-    msg = f"the stroke takes up {taken:.4g} mm of lining wear before adjustment"
-    return _ratio_rule(rule, title, taken, allow, "mm", SRC_WEAR, inputs, at_most=False, message=msg)
+    n = figures(taken, allow)
+    msg = f"the stroke takes up {taken:.{n}g} mm of lining wear before adjustment"
+    # w is a difference of the lift and the clearance: its rounding is relative to them
+    out = _ratio_rule(rule, title, taken, allow, "mm", SRC_WEAR, inputs, at_most=False, message=msg, scale=c)
+    if out.verdict is Verdict.FAIL and taken < 0:
+        lift = stroke / rel.stroke_per_lift
+        short = (
+            f"the stroke does not reach the clearance: {stroke:g} mm of stroke lifts the linings "
+            f"{lift:.{figures(lift, c)}g} mm, short of the {c:g} mm clearance (which needs "
+            f"{c * rel.stroke_per_lift:.{figures(c * rel.stroke_per_lift, stroke)}g} mm of stroke); "
+            "no wear is taken up"
+        )
+        out = replace(out, message=short)
+    return out
 
 
 def _lining(spec: Spec) -> list[RuleResult]:
