@@ -24,7 +24,9 @@ From the drawn linkage's small-displacement kinematics
     the braking torque at ``mu_min`` with every spring at the bottom of its
     tolerance and relaxed by the wear: a spring extends as the linings wear
     (the linkage moves back by the wear), its force falling by rate × its
-    change of length.
+    change of length.  On a drawing with no spring (set by a weight or a
+    load) a given ``spring_rate`` or ``spring_preload_tolerance`` skips the
+    rule, saying the keys are not used.
 
 The rules appear only when the spec gives one of their keys.  They judge a
 finished :class:`~dxfcheck.gate.rules.Judgement` (:func:`with_release`), so
@@ -303,12 +305,19 @@ def _weak_springs(spec: Spec, mech: Mechanism) -> tuple[tuple[Spring, ...], dict
 def _spring_torque(j: Judgement) -> list[RuleResult]:
     """The duty at ``mu_min`` with every spring at its weakest."""
     spec, mech = j.spec, j.mechanism
-    if not mech.springs or (spec.get("spring_rate") is None and spec.get("spring_preload_tolerance") is None):
+    given = [v for v in (spec.get("spring_rate"), spec.get("spring_preload_tolerance")) if v is not None]
+    if not given:
         return []
     dirs_v = spec.get("directions")
     required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
-    found, _ = duties(spec)
     title = "torque at the weakest spring, {}"
+    if not mech.springs:
+        keys = ", ".join(f"{v.key} (from {v.source})" for v in given)
+        why = (
+            f"the drawing has no spring (its set force is a load): {keys} {'is' if len(given) == 1 else 'are'} not used"
+        )
+        return [_skip(f"spring.torque.{d}", title.format(d), why, SRC_SPRING) for d in required]
+    found, _ = duties(spec)
     if not found:
         return [_skip(f"spring.torque.{d}", title.format(d), "needs a duty", SRC_SPRING) for d in required]
     need = max(d.torque_Nm for d in found)

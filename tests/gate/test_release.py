@@ -251,3 +251,24 @@ def test_a_near_miss_shows_the_figures_that_fail_it(tmp_path):
     assert r.verdict is Verdict.FAIL
     assert "16.2938 mm" in r.message
     assert "value 16.2938 mm, limit 16.2937 mm" in junit_xml(j)
+
+
+@pytest.mark.parametrize(
+    "keys",
+    [
+        {"spring_rate": "20 N/mm"},
+        {"spring_preload_tolerance": "0.1"},
+        {"spring_rate": "20 N/mm", "spring_preload_tolerance": "0.1"},
+    ],
+)
+def test_spring_keys_on_a_drawing_without_a_spring_are_said_unused(tmp_path, keys):
+    """The winch is set by a weight (F1), not a spring: the spring keys do
+    nothing, and the spring rule says so in each direction rather than
+    vanish."""
+    j = _check(tmp_path, winch_two_shoe(), required_torque="100 N*m", **keys)
+    assert not j.mechanism.springs
+    for d in ("cw", "ccw"):
+        r = _rule(j, f"spring.torque.{d}")
+        assert r.verdict is Verdict.SKIP
+        assert "has no spring" in r.message
+        assert all(f"{k} (from" in r.message for k in keys)
