@@ -402,12 +402,12 @@ def _mu_arg(text: str | None) -> tuple[float | None, tuple[float, float] | None]
     if text is None:
         return None, None
     try:
-        if ".." in text:
-            lo, hi = (float(x) for x in text.split("..", 1))
-            return None, (_number(lo, "--mu", "mu"), _number(hi, "--mu", "mu"))
-        return _number(float(text), "--mu", "mu"), None
+        values = [float(x) for x in text.split("..", 1)]
     except ValueError:
         raise ConfigError(f"--mu: {text!r} is not a number or a range such as 0.30..0.45") from None
+    # a number out of range is said as such (the ConfigError of _number), not as "not a number"
+    checked = [_number(v, "--mu", "mu") for v in values]
+    return (None, (checked[0], checked[1])) if len(checked) == 2 else (checked[0], None)
 
 
 def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int:

@@ -92,6 +92,24 @@ def test_bad_input_exit_2_one_message(args):
     assert r.stderr.strip()
 
 
+@pytest.mark.parametrize("mu", ["0", "-0.1", "2", "0.3..2"])
+def test_solve_mu_out_of_range_says_so(mu):
+    """A μ outside (0, 1.5] is a number out of range, not "not a number"
+    (the same words as `check --mu`)."""
+    r = run("solve", DEMO, "--mu", mu)
+    assert r.returncode == 2
+    assert "--mu must be above 0 and at most 1.5" in r.stderr
+    assert "not a number" not in r.stderr
+    assert "Traceback" not in r.stderr
+
+
+@pytest.mark.parametrize("mu", ["abc", "0.3..x"])
+def test_solve_mu_not_a_number(mu):
+    r = run("solve", DEMO, "--mu", mu)
+    assert r.returncode == 2
+    assert "is not a number or a range" in r.stderr
+
+
 def test_config_file_maps_layers(tmp_path):
     sk = conveyor_block()
     sk.layers = {"pivot": "BRK-FIXED", "link": "BRK-CL", "drum": "BRK-DRUM"}

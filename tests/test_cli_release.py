@@ -14,6 +14,7 @@ from __future__ import annotations
 import math
 import subprocess
 import sys
+from itertools import pairwise
 
 import pytest
 from common import ROOT
@@ -67,3 +68,46 @@ def test_check_unknown_part_exit_2():
     r = run("check", DEMO, "--set", "parts.left levr.part_diameter=30mm")
     assert r.returncode == 2
     assert "did you mean 'left lever'" in r.stderr
+
+
+def test_solve_stations_carry_their_segment():
+    """Each station names its segment's ends, so its signs read from the JSON
+    alone.  On every part, the section lies on its segment and dM/ds = −V
+    between stations of one segment (method of sections: M of the forces
+    beyond the section, V along (end − start) turned 90° counter-clockwise).
+    By hand on the winch's left lever (pivot (−250, −320), shoe pin
+    (−250, 0), the tie rod's 5940 N pulling its top, 840 mm above the pivot,
+    towards +x): the shoe pin takes 5940·840/320 = 15592.5 N towards −x
+    (moments about the pivot), so beyond a section below the shoe pin the
+    net force is 5940 − 15592.5 = −9652.5 N in x, i.e. V = +9652.5 N along
+    (0, 1) turned to (−1, 0); at the shoe pin M = −5940 × 520 N·mm (the
+    rod pulling the top to the right turns clockwise about the section)."""
+    r = run("solve", DEMO, "--json")
+    assert r.returncode == 0, r.stderr
+    doc = output_json(r.stdout)
+    for case in doc["cases"]:
+        for part in case["parts"]:
+            st = part["stations"]
+            for s in st:
+                (x0, y0), (x1, y1), (px, py) = s["start_mm"], s["end_mm"], s["at_mm"]
+                length2 = (x1 - x0) ** 2 + (y1 - y0) ** 2
+                t = ((px - x0) * (x1 - x0) + (py - y0) * (y1 - y0)) / length2
+                assert -1e-9 <= t <= 1 + 1e-9
+                assert abs((px - x0) * (y1 - y0) - (py - y0) * (x1 - x0)) <= 1e-9 * length2
+            scale = max([1.0, *(abs(s["moment_Nmm"]) for s in st)])
+            for a, b in pairwise(st):
+                if a["segment"] != b["segment"]:
+                    continue
+                (x0, y0), (x1, y1) = b["start_mm"], b["end_mm"]
+                ds = ((b["at_mm"][0] - a["at_mm"][0]) * (x1 - x0) + (b["at_mm"][1] - a["at_mm"][1]) * (y1 - y0)) / (
+                    math.hypot(x1 - x0, y1 - y0)
+                )
+                if ds > 0:
+                    assert b["moment_Nmm"] - a["moment_Nmm"] == pytest.approx(-a["shear_N"] * ds, abs=1e-9 * scale)
+        lever = next(p for p in case["parts"] if p["part"] == "left lever")
+        below = next(s for s in lever["stations"] if s["at_mm"] == [-250.0, 0.0] and s["start_mm"] == [-250.0, -320.0])
+        (x0, y0), (x1, y1) = below["start_mm"], below["end_mm"]
+        ex, ey = (x1 - x0) / math.hypot(x1 - x0, y1 - y0), (y1 - y0) / math.hypot(x1 - x0, y1 - y0)
+        fx = below["shear_N"] * -ey + below["axial_N"] * ex  # the force beyond, back in drawing axes
+        assert fx == pytest.approx(5940 - 5940 * 840 / 320, rel=1e-9)
+        assert below["moment_Nmm"] == pytest.approx(-5940 * 520, rel=1e-9)

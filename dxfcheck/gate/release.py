@@ -24,7 +24,9 @@ From the drawn linkage's small-displacement kinematics
     the braking torque at ``mu_min`` with every spring at the bottom of its
     tolerance and relaxed by the wear: a spring extends as the linings wear
     (the linkage moves back by the wear), its force falling by rate × its
-    change of length.
+    change of length.  On a drawing with no spring (set by a weight or a
+    load) a given ``spring_rate`` or ``spring_preload_tolerance`` skips the
+    rule, saying the keys are not used.
 
 The rules appear only when the spec gives one of their keys.  They judge a
 finished :class:`~dxfcheck.gate.rules.Judgement` (:func:`with_release`), so
@@ -47,7 +49,7 @@ from typing import Any
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.gate.rules import Judgement, duties
 from dxfcheck.gate.spec import Spec
-from dxfcheck.gate.verdicts import RuleResult, Verdict
+from dxfcheck.gate.verdicts import RuleResult, Verdict, figures
 from dxfcheck.gate.verdicts import ratio_rule as _ratio_rule
 from dxfcheck.gate.verdicts import skip as _skip
 from dxfcheck.mechanism import Mechanism, Spring
@@ -181,7 +183,7 @@ def _stroke(spec: Spec, rel: Release) -> RuleResult:
         return _skip(rule, title, f"needs {', '.join(miss)}", SRC_STROKE)
     need = c * rel.stroke_per_lift
     inputs = dict(_kin_inputs(rel), shoe_clearance_mm=c, actuator_stroke_mm=stroke)
-    msg = f"{rel.actuator} strokes {need:.4g} mm for {c:g} mm at every lining centre"
+    msg = f"{rel.actuator} strokes {need:.{figures(need, stroke)}g} mm for {c:g} mm at every lining centre"
     return _ratio_rule(rule, title, need, stroke, "mm", SRC_STROKE, inputs, at_most=True, message=msg)
 
 
@@ -206,8 +208,20 @@ def _wear(spec: Spec, rel: Release) -> RuleResult:
         "stroke_left_for_wear_mm": stroke - c * rel.stroke_per_lift,
         "wear_allowance_mm": allow,
     }
-    msg = f"the stroke takes up {taken:.4g} mm of lining wear before adjustment"
-    return _ratio_rule(rule, title, taken, allow, "mm", SRC_WEAR, inputs, at_most=False, message=msg)
+    n = figures(taken, allow)
+    msg = f"the stroke takes up {taken:.{n}g} mm of lining wear before adjustment"
+    # w is a difference of the lift and the clearance: its rounding is relative to them
+    out = _ratio_rule(rule, title, taken, allow, "mm", SRC_WEAR, inputs, at_most=False, message=msg, scale=c)
+    if out.verdict is Verdict.FAIL and taken < 0:
+        lift = stroke / rel.stroke_per_lift
+        short = (
+            f"the stroke does not reach the clearance: {stroke:g} mm of stroke lifts the linings "
+            f"{lift:.{figures(lift, c)}g} mm, short of the {c:g} mm clearance (which needs "
+            f"{c * rel.stroke_per_lift:.{figures(c * rel.stroke_per_lift, stroke)}g} mm of stroke); "
+            "no wear is taken up"
+        )
+        out = replace(out, message=short)
+    return out
 
 
 def _lining(spec: Spec) -> list[RuleResult]:
@@ -291,12 +305,19 @@ def _weak_springs(spec: Spec, mech: Mechanism) -> tuple[tuple[Spring, ...], dict
 def _spring_torque(j: Judgement) -> list[RuleResult]:
     """The duty at ``mu_min`` with every spring at its weakest."""
     spec, mech = j.spec, j.mechanism
-    if not mech.springs or (spec.get("spring_rate") is None and spec.get("spring_preload_tolerance") is None):
+    given = [v for v in (spec.get("spring_rate"), spec.get("spring_preload_tolerance")) if v is not None]
+    if not given:
         return []
     dirs_v = spec.get("directions")
     required = tuple(Direction(d) for d in (dirs_v.value if dirs_v else ("cw", "ccw")))
-    found, _ = duties(spec)
     title = "torque at the weakest spring, {}"
+    if not mech.springs:
+        keys = ", ".join(f"{v.key} (from {v.source})" for v in given)
+        why = (
+            f"the drawing has no spring (its set force is a load): {keys} {'is' if len(given) == 1 else 'are'} not used"
+        )
+        return [_skip(f"spring.torque.{d}", title.format(d), why, SRC_SPRING) for d in required]
+    found, _ = duties(spec)
     if not found:
         return [_skip(f"spring.torque.{d}", title.format(d), "needs a duty", SRC_SPRING) for d in required]
     need = max(d.torque_Nm for d in found)

@@ -257,6 +257,8 @@ def _part_diagram(d: PartDiagram) -> dict[str, Any]:
         "stations": [
             {
                 "segment": st.segment,
+                "start_mm": _point(st.start_mm),
+                "end_mm": _point(st.end_mm),
                 "at_mm": _point(st.at_mm),
                 "axial_N": st.axial_N,
                 "shear_N": st.shear_N,

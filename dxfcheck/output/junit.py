@@ -8,6 +8,7 @@ from pathlib import Path
 
 from dxfcheck.core.textsafe import xml_text
 from dxfcheck.gate.rules import Judgement, RuleResult, Verdict
+from dxfcheck.gate.verdicts import figures
 from dxfcheck.output.terminal import format_value
 from dxfcheck.output.text import CAUTION
 
@@ -19,8 +20,9 @@ XML_DECLARATION = '<?xml version="1.0" encoding="UTF-8"?>\n'
 
 def _rule_text(r: RuleResult) -> str:
     """A rule's value, limit, margin, message and source in one line."""
+    n = figures(r.value, r.limit)
     return (
-        f"value {format_value(r.value, r.unit)}, limit {format_value(r.limit, r.unit)}, "
+        f"value {format_value(r.value, r.unit, n)}, limit {format_value(r.limit, r.unit, n)}, "
         f"margin {format_value(r.margin)}; {r.message} [{r.source}]"
     )
 

@@ -36,6 +36,7 @@ from dxfcheck.core.files import write_atomic
 from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.core.version import __version__
 from dxfcheck.gate.rules import Judgement, RuleResult
+from dxfcheck.gate.verdicts import figures
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.output.figure import force_polygon, moment_diagram, plan_figure, svg_element
 from dxfcheck.output.json import file_sha256
@@ -483,8 +484,8 @@ def _rules(body: ET.Element, j: Judgement) -> None:
             r.title,
             r.formula or "–",
             r.substituted or r.message or "–",
-            _Num(r.value, r.unit),
-            _Num(r.limit, r.unit),
+            _Num(r.value, r.unit, f".{figures(r.value, r.limit)}g"),
+            _Num(r.limit, r.unit, f".{figures(r.value, r.limit)}g"),
             _Num(r.margin, "", ".3g"),
             r.source,
         )

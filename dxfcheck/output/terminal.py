@@ -25,6 +25,7 @@ from dxfcheck.core.textsafe import markup as _esc
 from dxfcheck.core.textsafe import one_line, report_console
 from dxfcheck.gate.linings import Lining
 from dxfcheck.gate.rules import Judgement, Verdict
+from dxfcheck.gate.verdicts import figures
 from dxfcheck.mechanism.layers import searched_line
 from dxfcheck.output.json import trend_rows
 from dxfcheck.output.text import CAUTION
@@ -88,14 +89,15 @@ def _table(title: str, columns: tuple[str, ...], right: tuple[str, ...] = (), le
     return t
 
 
-def format_value(x: float | None, unit: str = "") -> str:
-    """A rule's value, limit or margin: 4 significant digits, ``-`` for
-    none, ``∞`` for infinity."""
+def format_value(x: float | None, unit: str = "", digits: int = 4) -> str:
+    """A rule's value, limit or margin: ``digits`` significant digits (more
+    for a value and limit that agree to 4: :func:`dxfcheck.gate.verdicts.figures`),
+    ``-`` for none, ``∞`` for infinity."""
     if x is None:
         return "-"
     if x == float("inf"):
         return "∞"
-    return f"{x:.4g}" + (f" {unit}" if unit else "")
+    return f"{x:.{digits}g}" + (f" {unit}" if unit else "")
 
 
 def print_findings(console: Any, findings: tuple[Finding, ...] | list[Finding]) -> None:
@@ -359,11 +361,12 @@ def _print_verdict(console: Any, j: Judgement, strict: bool) -> None:
 def _rules_table(j: Judgement) -> Table:
     t = _table("rules", ("verdict", "rule", "value", "limit", "margin", "note"), right=("value", "limit", "margin"))
     for r in j.rules:
+        n = figures(r.value, r.limit)
         t.add_row(
             f"[{RULE_STYLE[str(r.verdict)]}]{r.verdict}[/]",
             _esc(r.title),
-            format_value(r.value, r.unit),
-            format_value(r.limit, r.unit),
+            format_value(r.value, r.unit, n),
+            format_value(r.limit, r.unit, n),
             format_value(r.margin),
             _esc(r.message or str(r.inputs.get("case", ""))),
         )

@@ -292,3 +292,18 @@ def test_terminal_report_words(brake):
     first = r.stdout.splitlines()[0]
     assert first.startswith("PASS") and "block.dxf" in first
     assert "where they came from" in r.stdout and "qualified engineer" in r.stdout
+
+
+def test_pin_shear_met_to_rounding_passes(brake):
+    """τ ≤ τ_allow with τ_allow equal to the hand τ = F/(πd²/4) to rounding
+    (1e-12 below it) passes; 1 ppm below fails, and the JUnit text shows the
+    figures that tell value and limit apart."""
+    from dxfcheck.gate.verdicts import figures
+
+    tau = pivot_force(MU, True) / (math.pi * PIVOT_D**2 / 4)
+    ok = verdict_at(brake, "pin.shear.O", "pin_shear_allow", tau * (1 - 1e-12), "MPa", mu=MU)
+    assert ok.verdict is Verdict.PASS and ok.margin == 1.0
+    bad = verdict_at(brake, "pin.shear.O", "pin_shear_allow", tau * (1 - 1e-6), "MPa", mu=MU)
+    assert bad.verdict is Verdict.FAIL
+    n = figures(bad.value, bad.limit)
+    assert n > 4 and f"{bad.value:.{n}g}" != f"{bad.limit:.{n}g}"

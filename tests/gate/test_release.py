@@ -190,3 +190,85 @@ def test_two_efforts_need_the_actuator_named(tmp_path):
     r = _rule(j, "release.stroke")
     assert r.verdict is Verdict.SKIP
     assert "needs actuator" in r.message
+
+
+#: Winch: 3.3·(840 + 740)/320 = 16.29375 mm of actuator stroke per mm of
+#: equal lift (derived in tests/statics/test_kinematics.py).
+WINCH_STROKE_PER_LIFT = 3.3 * (840 + 740) / 320
+
+
+def test_a_stroke_short_of_the_clearance_takes_up_no_wear(tmp_path):
+    """c = 1 mm needs 1 × 3 = 3 mm of stroke; 2 mm lifts the block only
+    2/3 mm: w = 2/3 − 1 = −1/3 mm, which fails even a zero allowance, and the
+    message says the clearance is not reached (not "takes up −0.33 mm")."""
+    j = _check(tmp_path, conveyor_block(), shoe_clearance="1 mm", actuator_stroke="2 mm", wear_allowance="0 mm")
+    r = _rule(j, "release.wear")
+    assert r.value == pytest.approx(2 / CONVEYOR_STROKE_PER_LIFT - 1.0, rel=1e-9)
+    assert r.value < 0
+    assert r.verdict is Verdict.FAIL
+    assert r.margin is None
+    assert "does not reach the clearance" in r.message
+    assert "0.6667 mm" in r.message and "takes up" not in r.message
+
+
+def test_a_stroke_exactly_at_the_clearance_meets_a_zero_allowance(tmp_path):
+    """S = 3 mm exactly lifts the block by 3/3 = 1 mm = c: w = 0 (to
+    rounding, relative to the clearance), which meets a zero allowance."""
+    j = _check(tmp_path, conveyor_block(), shoe_clearance="1 mm", actuator_stroke="3 mm", wear_allowance="0 mm")
+    r = _rule(j, "release.wear")
+    assert r.value == pytest.approx(0.0, abs=1e-12)
+    assert r.verdict is Verdict.PASS
+
+
+def test_limits_met_exactly_pass(tmp_path):
+    """The rules read s ≤ actuator_stroke and w ≥ wear_allowance: a stroke
+    of exactly c × 16.29375 mm, and the wear exactly 0.5 mm taken up by
+    S = (c + 0.5) × 16.29375 mm, pass (the linkage's arithmetic carries a few
+    ulps: 16.293750000000006 mm, 0.49999999999999933 mm)."""
+    j = _check(tmp_path, winch_two_shoe(), shoe_clearance="1 mm", actuator_stroke="16.29375 mm")
+    r = _rule(j, "release.stroke")
+    assert r.value == pytest.approx(WINCH_STROKE_PER_LIFT, rel=1e-12)
+    assert (r.verdict, r.margin) == (Verdict.PASS, 1.0)
+    stroke = 1.5 * WINCH_STROKE_PER_LIFT
+    j = _check(
+        tmp_path, winch_two_shoe(), shoe_clearance="1 mm", actuator_stroke=f"{stroke!r} mm", wear_allowance="0.5 mm"
+    )
+    r = _rule(j, "release.wear")
+    assert r.value == pytest.approx(0.5, rel=1e-12)
+    assert (r.verdict, r.margin) == (Verdict.PASS, 1.0)
+
+
+def test_a_near_miss_shows_the_figures_that_fail_it(tmp_path):
+    """A stroke 1 ppm short of the 16.29375 mm needed fails (beyond
+    rounding), and the message, the JUnit text and the terminal table show
+    value and limit to enough figures to tell them apart (16.2938 against
+    16.2937), not 16.29 against 16.29."""
+    from dxfcheck.output.junit import junit_xml
+
+    short = WINCH_STROKE_PER_LIFT * (1 - 1e-6)
+    j = _check(tmp_path, winch_two_shoe(), shoe_clearance="1 mm", actuator_stroke=f"{short!r} mm")
+    r = _rule(j, "release.stroke")
+    assert r.verdict is Verdict.FAIL
+    assert "16.2938 mm" in r.message
+    assert "value 16.2938 mm, limit 16.2937 mm" in junit_xml(j)
+
+
+@pytest.mark.parametrize(
+    "keys",
+    [
+        {"spring_rate": "20 N/mm"},
+        {"spring_preload_tolerance": "0.1"},
+        {"spring_rate": "20 N/mm", "spring_preload_tolerance": "0.1"},
+    ],
+)
+def test_spring_keys_on_a_drawing_without_a_spring_are_said_unused(tmp_path, keys):
+    """The winch is set by a weight (F1), not a spring: the spring keys do
+    nothing, and the spring rule says so in each direction rather than
+    vanish."""
+    j = _check(tmp_path, winch_two_shoe(), required_torque="100 N*m", **keys)
+    assert not j.mechanism.springs
+    for d in ("cw", "ccw"):
+        r = _rule(j, f"spring.torque.{d}")
+        assert r.verdict is Verdict.SKIP
+        assert "has no spring" in r.message
+        assert all(f"{k} (from" in r.message for k in keys)

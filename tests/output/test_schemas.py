@@ -151,6 +151,10 @@ MUTATIONS = {
     "drum load of three numbers": lambda d: d["cases"][0].__setitem__("drum_load_N", [1.0, 2.0, 3.0]),
     "unknown station key": lambda d: d["cases"][0]["parts"][0]["stations"][0].__setitem__("force_N", 1.0),
     "station segment as text": lambda d: d["cases"][0]["parts"][0]["stations"][0].__setitem__("segment", "0"),
+    "station without its segment's start": lambda d: d["cases"][0]["parts"][0]["stations"][0].pop("start_mm"),
+    "station end of three numbers": lambda d: d["cases"][0]["parts"][0]["stations"][0].__setitem__(
+        "end_mm", [1.0, 2.0, 3.0]
+    ),
 }
 
 #: Mutations of the gate's keys (the check document only).
