@@ -72,6 +72,9 @@ __all__ = [
 #: The style of a result's display, scoped to its ``div.dxfcheck`` so that it
 #: never restyles the notebook around it.
 CSS = """
+div.dxfcheck h2 { font-size: 1.15em; margin: 0.8em 0 0.3em 0; }
+div.dxfcheck h3 { font-size: 1.05em; margin: 0.6em 0 0.3em 0; }
+div.dxfcheck section { overflow-x: auto; }
 div.dxfcheck table { border-collapse: collapse; margin: 0.3em 0 0.8em 0; }
 div.dxfcheck th, div.dxfcheck td { border: 1px solid #bbb; padding: 2px 6px; text-align: left; }
 div.dxfcheck td.num { text-align: right; font-variant-numeric: tabular-nums; }

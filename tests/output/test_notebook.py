@@ -141,6 +141,9 @@ def _results(outputs, kind="execute_result"):
 
 
 def test_the_notebook_runs_without_errors_or_stored_outputs(executed):
+    """The notebook never calls ``enable``: ``import dxfcheck`` inside the
+    kernel registered the displays, so every result shows as HTML, SVG and
+    one plain line, under the caution."""
     import nbformat
 
     stored = nbformat.read(NOTEBOOK, as_version=4)
@@ -282,6 +285,14 @@ def test_enable_registers_every_display_with_a_shell():
     data, _ = shell.display_formatter.format(sol)
     assert set(data) == {"text/plain", "text/html", "image/svg+xml"}
     assert data["text/html"] == notebook.solution_html(sol)
+    assert (
+        data["text/plain"]
+        == notebook.summary(sol)
+        == "<dxfcheck Solution of conveyor_block.dxf: cw 61.21 N·m, ccw 71.96 N·m>"
+    )
+    other = types.SimpleNamespace(display_formatter=DisplayFormatter())
+    notebook.load_ipython_extension(other)  # %load_ext dxfcheck.output.notebook
+    assert set(other.display_formatter.format(sol)[0]) == set(data)
     assert notebook.enable(None) is False  # no IPython shell runs in pytest
     cw = _Display(data["text/html"]).rows("torque")["cw"][2][1]
     assert cw == pytest.approx(block_torque_Nm(WEIGHT_A_N, MU, energised=False), rel=TORQUE_RTOL)
