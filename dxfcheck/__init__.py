@@ -16,11 +16,16 @@ friction range and pin tolerances ``dxfcheck.sensitivity(...)``.  These, and
 the option and result types, load their stage on first use, so that
 ``import dxfcheck`` stays light.
 
+Inside a running IPython shell (Jupyter), ``import dxfcheck`` also registers
+the results' displays, tables and pictures (:mod:`dxfcheck.output.notebook`).
+
 dxfcheck is a design aid; final design must follow the applicable codes and
 standards and be checked by a qualified engineer.
 """
 
 from __future__ import annotations
+
+import sys
 
 from dxfcheck.core.config import Config, Role, find_config, load_config
 from dxfcheck.core.errors import ConfigError, DrawingReadError, DxfcheckError, MechanismError, SolveError
@@ -98,3 +103,15 @@ __all__ = [
     "solve_case",
     *_LAZY,
 ]
+
+
+def _in_ipython() -> bool:
+    """True inside a running IPython shell (a Jupyter kernel, the IPython console)."""
+    get = getattr(sys.modules.get("IPython"), "get_ipython", None)
+    return get is not None and get() is not None
+
+
+if _in_ipython():  # results display as tables and pictures (dxfcheck.output.notebook)
+    from dxfcheck.output import notebook as _notebook
+
+    _notebook.enable()
