@@ -78,9 +78,9 @@ def assert_same_solution(a: Solution, b: Solution) -> None:
             for s, t in zip(p.attachments, q.attachments, strict=True):
                 _vec((s.fx_N, s.fy_N), (t.fx_N, t.fy_N), scale, f"{d} pin {p.name} on {s.body}")
         for s, t in zip(ca.shoes, cb.shoes, strict=True):
-            for field in ("force", "normal_force", "friction_force"):
+            for field in ("force_N", "normal_force_N", "friction_force_N"):
                 _vec(getattr(s, field), getattr(t, field), scale, f"{d} shoe {s.name} {field}")
-            for field in ("contact", "normal_at", "friction_at"):
+            for field in ("contact_mm", "normal_at_mm", "friction_at_mm"):
                 _vec(getattr(s, field), getattr(t, field), 1000.0, f"{d} shoe {s.name} {field}")
             _close(s.torque_Nm, t.torque_Nm, abs(ca.torque_Nm), f"{d} shoe {s.name} torque")
         for m, n in zip(ca.members, cb.members, strict=True):
