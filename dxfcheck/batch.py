@@ -44,7 +44,7 @@ import threading
 import time
 from collections import deque
 from collections.abc import Callable, Iterable, Iterator, Sequence
-from dataclasses import asdict, dataclass, field
+from dataclasses import asdict, dataclass, field, replace
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
@@ -126,6 +126,10 @@ class CheckOptions:
     records_dir : str or None
         Folder the calculation record of each drawing checked is written to
         (:func:`dxfcheck.output.record.record_name`), or None.
+    skeleton_from : str or None
+        ``auto``, ``layers`` or ``geometry`` for every drawing, over the
+        project file's ``[infer] skeleton_from`` (``--skeleton-from``); None
+        keeps each drawing's own.
     """
 
     config: str | None = None
@@ -134,6 +138,7 @@ class CheckOptions:
     tolerance_mm: float | None = None
     max_bytes: int | None = None
     records_dir: str | None = None
+    skeleton_from: str | None = None
 
 
 @dataclass(frozen=True)
@@ -646,7 +651,7 @@ def check_one(path: str, options: CheckOptions = CheckOptions()) -> DrawingResul
     try:
         j = check(
             path,
-            config=options.config,
+            config=_config(path, options),
             overrides=list(options.overrides),
             units=options.units,
             tolerance_mm=options.tolerance_mm,
@@ -673,6 +678,18 @@ def check_one(path: str, options: CheckOptions = CheckOptions()) -> DrawingResul
         failed,
         seconds=time.perf_counter() - t0,
     )
+
+
+def _config(path: str, options: CheckOptions) -> Any:
+    """The project file for ``check``: ``options.config`` (a path, or each
+    drawing's nearest when None), as a resolved Config with
+    ``options.skeleton_from`` over its ``[infer] skeleton_from`` when given."""
+    if options.skeleton_from is None:
+        return options.config
+    from dxfcheck.pipeline import resolve_config
+
+    cfg = resolve_config(path, options.config)
+    return replace(cfg, infer=replace(cfg.infer, skeleton_from=options.skeleton_from))
 
 
 def _watch_parent(parent_pid: int) -> None:
@@ -1049,6 +1066,17 @@ def check_inputs(options: CheckOptions, *, jobs: int | None, timeout_each_s: flo
     worker_count(jobs)
     _check_timeout_each(timeout_each_s)
     _check_project(options)
+    _check_skeleton_from(options)
+
+
+def _check_skeleton_from(options: CheckOptions) -> None:
+    from dxfcheck.core.config import SKELETON_SOURCES
+    from dxfcheck.core.errors import ConfigError
+
+    if options.skeleton_from is not None and options.skeleton_from not in SKELETON_SOURCES:
+        raise ConfigError(
+            f"--skeleton-from must be one of {', '.join(SKELETON_SOURCES)}, got {options.skeleton_from!r}"
+        )
 
 
 def _check_timeout_each(seconds: float) -> None:

@@ -293,6 +293,12 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
     b.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
     b.add_argument(
+        "--skeleton-from",
+        choices=("auto", "layers", "geometry"),
+        default=None,
+        help="as for solve, for every drawing (default: each one's [infer] skeleton_from)",
+    )
+    b.add_argument(
         "--records",
         default=None,
         metavar="DIR",
@@ -724,6 +730,7 @@ def _batch_options(args: argparse.Namespace) -> Any:
         tolerance_mm=_tolerance(args),
         max_bytes=_max_bytes(args),
         records_dir=_records_dir(args.records),
+        skeleton_from=args.skeleton_from,
     )
 
 

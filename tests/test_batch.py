@@ -181,6 +181,8 @@ def test_cache_key_covers_every_input_of_the_verdict(demos, tmp_path):
         "tolerance": cache_key(winch, CheckOptions(tolerance_mm=0.05)),
         "max size": cache_key(winch, CheckOptions(max_bytes=10**7)),
         "config": cache_key(winch, CheckOptions(config=str(demos / "dxfcheck.toml"))),
+        "skeleton from layers": cache_key(winch, CheckOptions(skeleton_from="layers")),
+        "skeleton from geometry": cache_key(winch, CheckOptions(skeleton_from="geometry")),
     }
     (demos / "winch_two_shoe.toml").write_text("[spec]\nmu = 0.3\n")
     keys["sidecar"] = cache_key(winch, CheckOptions())
@@ -209,6 +211,46 @@ def test_same_bytes_under_another_name_keeps_its_own_verdict(demos, tmp_path):
         rc, doc = _batch_json(str(demos / "winch_two_shoe.dxf"), "--cache-dir", cache)
         assert rc == 1 and _verdicts(doc)["winch_two_shoe.dxf"] == want
     assert doc["results"][0]["cached"] is True
+
+
+def test_skeleton_from_applies_to_every_drawing_and_keys_the_cache(tmp_path):
+    """``batch --skeleton-from``: a drafted drawing (no role layers) under a
+    project file that says ``skeleton_from = "layers"`` is an error read from
+    the layers, and with ``geometry`` gives the verdict of a direct ``check
+    --skeleton-from geometry``; each run is keyed by the option, so neither
+    answer comes from the other's cache record (a cache may only save time:
+    common practice)."""
+    d = tmp_path / "drafted"
+    d.mkdir()
+    shutil.copy(ROOT / "drawings" / "drafted" / "winch_outlines.dxf", d / "winch_outlines.dxf")
+    toml = ROOT / "drawings" / "dxfcheck.toml"
+    (d / "dxfcheck.toml").write_text(toml.read_text() + '\n[infer]\nskeleton_from = "layers"\n')
+    buf = io.StringIO()
+    with contextlib.redirect_stdout(buf):
+        cli.main(["check", str(d / "winch_outlines.dxf"), "--json", "--skeleton-from", "geometry"])
+    direct = output_json(buf.getvalue())
+    assert direct["skeleton"] == "geometry (outlines)"
+    want = (direct["verdict"], [r["rule"] for r in direct["rules"] if r["verdict"] == "fail"])
+    cache = str(tmp_path / "cache")
+    for cached in (False, True):
+        rc, doc = _batch_json(str(d), "--cache-dir", cache)  # the project file's "layers"
+        assert rc == 2 and doc["results"][0]["status"] == "error" and "M201" in doc["results"][0]["message"]
+        assert doc["results"][0]["cached"] is False  # errors are never cached
+        for option in ("geometry", "auto"):
+            rc, doc = _batch_json(str(d), "--cache-dir", cache, "--skeleton-from", option)
+            assert _verdicts(doc)["winch_outlines.dxf"] == want, option
+            assert doc["results"][0]["cached"] is cached, option
+        rc, doc = _batch_json(str(d), "--cache-dir", cache, "--skeleton-from", "layers")
+        assert doc["results"][0]["status"] == "error" and doc["results"][0]["cached"] is False
+
+
+def test_skeleton_from_is_checked_before_the_batch():
+    """A library call with an unknown source is refused naming the option."""
+    from dxfcheck.batch import check_inputs
+    from dxfcheck.core.errors import ConfigError
+
+    with pytest.raises(ConfigError, match="--skeleton-from must be one of auto, layers, geometry, got 'both'"):
+        check_inputs(CheckOptions(skeleton_from="both"), jobs=1, timeout_each_s=10.0)
 
 
 def test_batch_gives_the_verdicts_of_direct_checks(demos, tmp_path):

@@ -333,6 +333,27 @@ def _bulge_arcs(w: _Walk, verts: list[tuple[float, float, float]], last: int, m:
         w.arcs.append(RawArc(c, abs(radius) * scale, a0, a1, ink))
 
 
+def _arc_edge_points(edge: Any) -> list[tuple[float, float, float]]:
+    """A hatch boundary's arc edge as points in the boundary's order, from
+    its real start up to (not including) its real end, chords of at most
+    :data:`ARC_CHORD_DEG`.
+
+    ezdxf keeps an arc edge's angles in counter-clockwise order whatever its
+    direction; the edge runs from ``start_angle`` to ``end_angle`` when its
+    ``ccw`` flag is set (DXF group code 73, "is counterclockwise flag"),
+    else from ``end_angle`` back to ``start_angle``."""
+    c, r = edge.center, float(edge.radius)
+    a0, a1 = float(edge.start_angle), float(edge.end_angle)
+    span = (a1 - a0) % 360.0 or 360.0
+    start, sweep = (a0, span) if getattr(edge, "ccw", True) else (a1, -span)
+    n = max(1, math.ceil(span / ARC_CHORD_DEG))
+    out = []
+    for k in range(n):
+        t = math.radians(start + sweep * k / n)
+        out.append((float(c[0]) + r * math.cos(t), float(c[1]) + r * math.sin(t), 0.0))
+    return out
+
+
 def _take_hatch(w: _Walk, e: Any, m: Affine, ink: Ink) -> None:
     """Each boundary path of a hatch as a closed path (polyline paths with
     their bulges; edge paths of lines and arcs)."""
@@ -349,17 +370,7 @@ def _take_hatch(w: _Walk, e: Any, m: Affine, ink: Ink) -> None:
                 if hasattr(edge, "start") and hasattr(edge, "end") and not hasattr(edge, "radius"):
                     verts.append((float(edge.start[0]), float(edge.start[1]), 0.0))
                 elif hasattr(edge, "radius"):
-                    c, r = edge.center, float(edge.radius)
-                    a0, a1 = float(edge.start_angle), float(edge.end_angle)
-                    n = max(1, math.ceil(abs(a1 - a0) / ARC_CHORD_DEG))
-                    verts += [
-                        (
-                            float(c[0]) + r * math.cos(math.radians(a0 + (a1 - a0) * k / n)),
-                            float(c[1]) + r * math.sin(math.radians(a0 + (a1 - a0) * k / n)),
-                            0.0,
-                        )
-                        for k in range(n)
-                    ]
+                    verts += _arc_edge_points(edge)
         if len(verts) >= 3:
             before = len(w.paths)
             _add_polyline(w, verts, True, mm, ink, arcs=False)

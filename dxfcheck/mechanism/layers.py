@@ -41,6 +41,7 @@ from dataclasses import dataclass
 from dxfcheck.core.config import CONFIG_NAME, DEFAULT_LAYERS, Role, table_name, toml_layers_line
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross, dist, point_segment_distance
+from dxfcheck.infer.skeleton import SKELETON_ROLES
 from dxfcheck.mechanism.model import Mechanism, Mounting
 from dxfcheck.mechanism.plausibility import PIN_TO_DRUM
 from dxfcheck.read.drawing import ROLE_KINDS, ArcGeom, Drawing, LooseCircle, PathGeom
@@ -52,6 +53,8 @@ __all__ = [
     "PIN_LIKE_MAX_EXTENT",
     "TYPO_EXEMPT",
     "NearMiss",
+    "inference_json",
+    "inferred_style",
     "layer_findings",
     "layer_map",
     "layers_json",
@@ -137,8 +140,51 @@ def layer_map(drawing: Drawing) -> dict[Role, tuple[str, ...]]:
 
 
 def layers_json(drawing: Drawing) -> dict[str, list[str]]:
-    """The ``layers`` object of the JSON reports: role -> layer names."""
-    return {role.value: list(names) for role, names in layer_map(drawing).items()}
+    """The ``layers`` object of the JSON reports: role -> layer names (for
+    an inferred skeleton, only the roles still read from their layers; what
+    the inference used is :func:`inference_json`)."""
+    inferred = inferred_style(drawing) is not None
+    return {
+        role.value: list(names)
+        for role, names in layer_map(drawing).items()
+        if not (inferred and role in SKELETON_ROLES)
+    }
+
+
+def inferred_style(drawing: Drawing) -> str | None:
+    """The drafting style the skeleton was inferred in (``outlines``,
+    ``blocks``, ``centre lines``), or None when it came from the role
+    layers."""
+    src = drawing.skeleton_source
+    if src == "layers":
+        return None
+    return src.removeprefix("geometry (").removesuffix(")")
+
+
+def _inferred_from(drawing: Drawing) -> tuple[tuple[str, ...], Counter[Role]]:
+    """The layers of the entities the inferred skeleton was built from
+    (sorted), and the skeleton items inferred per role."""
+    layers: set[str] = set()
+    found: Counter[Role] = Counter()
+    for group in (drawing.circles, drawing.arcs, drawing.paths):
+        for g in group:
+            if g.role in SKELETON_ROLES:
+                layers.add(g.source.layer)
+                found[g.role] += 1
+    return tuple(sorted(layers)), found
+
+
+def inference_json(drawing: Drawing) -> dict[str, object] | None:
+    """The ``inference`` object of the JSON reports, the same as the
+    header's layers line: the style, the layers the skeleton was inferred
+    from and the items found per role; None for a skeleton read from the
+    role layers."""
+    style = inferred_style(drawing)
+    if style is None:
+        return None
+    layers, found = _inferred_from(drawing)
+    roles = [r for r in Role if r in SKELETON_ROLES]
+    return {"style": style, "layers": list(layers), "found": {r.value: found[r] for r in roles}}
 
 
 def _map_source(drawing: Drawing) -> str:
@@ -164,9 +210,17 @@ def searched_line(drawing: Drawing) -> str:
     """The report header's line: each role, its layers and what was read on
     them, e.g. ``layers: pivot ← PIVOT (2), pin ← PIN (none), ...``."""
     found = _found(drawing)
+    style = inferred_style(drawing)
     parts = [
-        f"{role} ← {', '.join(names) or '-'} ({found[role] or 'none'})" for role, names in layer_map(drawing).items()
+        f"{role} ← {', '.join(names) or '-'} ({found[role] or 'none'})"
+        for role, names in layer_map(drawing).items()
+        if style is None or role not in SKELETON_ROLES
     ]
+    if style is not None:
+        layers, counts = _inferred_from(drawing)
+        items = ", ".join(f"{r} {counts[r]}" for r in Role if r in SKELETON_ROLES)
+        on = f"layers {', '.join(layers)}" if len(layers) != 1 else f"layer {layers[0]}"
+        parts.insert(0, f"inferred from geometry (style: {style}) on {on or 'no layer'} ({items})")
     return f"layers: {', '.join(parts)}; {_map_source(drawing)}"
 
 

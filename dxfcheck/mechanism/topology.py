@@ -14,8 +14,9 @@ from __future__ import annotations
 import functools
 import itertools
 import math
-from collections.abc import Sequence
+from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, replace
+from typing import Any
 
 from dxfcheck.core.config import Role
 from dxfcheck.core.findings import Code, Finding, Severity
@@ -24,6 +25,7 @@ from dxfcheck.read.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source
 
 __all__ = [
     "ARC_SLACK_DEG",
+    "INDEX_MIN_PIECES",
     "INDEX_SLACK",
     "LIES_ON_MIN_MM",
     "LIES_ON_RTOL",
@@ -57,6 +59,13 @@ NEAR_MISS_FACTOR = 200.0
 #: the exact test (:func:`on_path`), so the answers are those of a search
 #: through every piece.
 INDEX_SLACK = 1e-6
+#: From this many centreline pieces on, :class:`LinkIndex` answers through
+#: shapely STRtrees; below it, by the search through every piece, which is
+#: faster there and leaves shapely unloaded.  Measured by
+#: ``tests/benchmarks/bench_topology.py`` (the topology and a question per
+#: piece end): the tree pays from about 28 pieces with shapely loaded, from
+#: about 56 when the command must also import it (12 ms).
+INDEX_MIN_PIECES = 48
 
 #: A centreline with more points than this whose first point is its last is
 #: a closed outline: its ends join nothing.
@@ -137,36 +146,56 @@ def path_ends(path: PathGeom) -> tuple[Point, Point]:
 
 
 class LinkIndex:
-    """The centreline pieces and pin centres in shapely STRtrees: which
-    pieces pass within ``tol`` of a point, and whether a pin centre lies
-    there, in about logarithmic time.  Every candidate is checked exactly."""
+    """Which centreline pieces pass within ``tol`` of a point, and whether a
+    pin centre lies there.
+
+    From :data:`INDEX_MIN_PIECES` pieces on, the pieces and pin centres sit
+    in shapely STRtrees (about logarithmic time per question) and every
+    candidate is checked exactly; below it, the search goes through every
+    piece and pin with the same exact tests, which is faster there and
+    leaves shapely unloaded (a small drawing's ``solve`` stays light).  Both
+    give the same answers."""
 
     def __init__(self, links: Sequence[PathGeom], pins: Sequence[CircleGeom], tol: float) -> None:
-        import shapely
-
         self.links, self.pins, self.tol = links, pins, tol
         self._reach = tol * (1.0 + INDEX_SLACK) + INDEX_SLACK * LIES_ON_MIN_MM
-        self._links = shapely.STRtree([shapely.LineString(p.points) for p in links])
-        self._pins = shapely.STRtree(shapely.points([g.center for g in pins])) if pins else None
+        self._links: Any = None
+        self._pins: Any = None
+        if len(links) >= INDEX_MIN_PIECES:
+            import shapely
+
+            self._links = shapely.STRtree([shapely.LineString(p.points) for p in links])
+            self._pins = shapely.STRtree(shapely.points([g.center for g in pins])) if pins else None
+
+    @property
+    def uses_tree(self) -> bool:
+        """Whether the questions go through the STRtrees."""
+        return self._links is not None
+
+    def _link_candidates(self, p: Point) -> Iterable[int]:
+        if self._links is None:
+            return range(len(self.links))
+        import shapely
+
+        return (int(i) for i in self._links.query(shapely.Point(p), predicate="dwithin", distance=self._reach))
+
+    def _pin_candidates(self, p: Point) -> Iterable[int]:
+        if self._links is None:
+            return range(len(self.pins))
+        if self._pins is None:
+            return ()
+        import shapely
+
+        return (int(i) for i in self._pins.query(shapely.Point(p), predicate="dwithin", distance=self._reach))
 
     def links_at(self, p: Point) -> list[int]:
         """The pieces (indices) whose centreline passes within ``tol`` of
         ``p``, in drawing order."""
-        import shapely
-
-        if not self.links:
-            return []
-        near = self._links.query(shapely.Point(p), predicate="dwithin", distance=self._reach)
-        return sorted(int(i) for i in near if on_path(p, self.links[int(i)], self.tol))
+        return sorted(i for i in self._link_candidates(p) if on_path(p, self.links[i], self.tol))
 
     def pin_at(self, p: Point) -> bool:
         """Whether a pin centre lies within ``tol`` of ``p``."""
-        import shapely
-
-        if self._pins is None:
-            return False
-        near = self._pins.query(shapely.Point(p), predicate="dwithin", distance=self._reach)
-        return any(dist(p, self.pins[int(i)].center) <= self.tol for i in near)
+        return any(dist(p, self.pins[i].center) <= self.tol for i in self._pin_candidates(p))
 
 
 @dataclass(frozen=True)

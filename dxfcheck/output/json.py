@@ -23,7 +23,7 @@ from dxfcheck.core.version import __version__
 from dxfcheck.gate.linings import Lining
 from dxfcheck.gate.rules import Judgement, RuleResult
 from dxfcheck.gate.spec import SpecValue
-from dxfcheck.mechanism.layers import layers_json
+from dxfcheck.mechanism.layers import inference_json, layers_json
 from dxfcheck.mechanism.model import Drum, Load, Mechanism, Pin, Shoe
 from dxfcheck.output.text import CAUTION
 from dxfcheck.revision.compare import Comparison, Thresholds, change_to_dict, required_torque
@@ -334,6 +334,7 @@ def skeleton_to_dict(mech: Mechanism, written: list[str]) -> dict[str, Any]:
         "tool": _tool(),
         "drawing": d.path,
         "skeleton": d.skeleton_source,
+        "inference": inference_json(d),
         "mechanism": _mechanism(mech),
         "written": written,
         "findings": [f.as_dict() for f in mech.findings],
@@ -355,6 +356,7 @@ def solution_to_dict(sol: Solution) -> dict[str, Any]:
         "units": {"name": d.units, "mm_per_unit": d.mm_per_unit, "source": d.units_source},
         "layers": layers_json(d),
         "skeleton": d.skeleton_source,
+        "inference": inference_json(d),
         "tolerance_mm": mech.tolerance_mm,
         "family": mech.family,
         "mechanism": _mechanism(mech),

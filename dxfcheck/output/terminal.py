@@ -129,6 +129,7 @@ def print_skeleton(mech: Mechanism, written: list[str], out: IO[str] | None = No
     d = mech.drawing
     console.print(f"[bold]dxfcheck skeleton[/]  {_esc(d.path)}")
     console.print(skeleton_line(d), markup=False)
+    console.print(searched_line(d), markup=False)
     console.print(
         f"{len(mech.parts)} parts, {len(mech.pins)} pins ({sum(p.grounded for p in mech.pins)} pivots), "
         f"{len(mech.shoes)} shoes, {len(mech.bands)} bands, {len(mech.loads)} loads"

@@ -26,6 +26,7 @@ import sys
 import ezdxf
 import pytest
 from common import CATALOGUE, ROOT, winch_two_shoe
+from schema_check import output_json
 from twins import assert_same_mechanism, assert_same_solution
 
 import dxfcheck
@@ -131,6 +132,47 @@ def test_cli_header_says_where_the_skeleton_came_from(tmp_path):
     assert "M201" in out.stderr
     out = _cli("solve", str(drafted), "--mu", "0.3", "--json")
     assert '"skeleton": "geometry (centre lines)"' in out.stdout
+
+
+#: The layers the drafter (dxfcheck.output.drafting) puts each style's part
+#: geometry on, read off its code: centre lines on CL and AXES (centre
+#: linetype) with pin circles, drum and linings on PARTS; outlines and holes
+#: on PARTS, lining arcs on LINING; blocks drawn on layer 0 and inserted on
+#: PARTS (an entity on layer 0 in a block takes the insert's layer, DXF
+#: Reference, "Blocks": common CAD practice).  Never the clutter's layers
+#: (BORDER, TITLE, DIM, HIDDEN, HATCH).
+DRAFTED_LAYERS = {"centrelines": ["AXES", "CL", "PARTS"], "outlines": ["LINING", "PARTS"], "blocks": ["PARTS"]}
+
+
+@pytest.mark.parametrize("style", sorted(DRAFTED_LAYERS))
+def test_layers_line_says_what_inference_used(tmp_path, style):
+    """An inferred skeleton's header shows the style and the layers the
+    inference used, with the items found per role, instead of counts under
+    role layers it did not read; the JSON ``inference`` says the same, and
+    the counts are those of the skeleton twin's role layers."""
+    from collections import Counter
+
+    from dxfcheck.pipeline import read_skeleton
+
+    drafted, skeleton = tmp_path / "drafted.dxf", tmp_path / "skeleton.dxf"
+    save_drafted(winch_two_shoe(), drafted, style)
+    winch_two_shoe().save(skeleton)
+    twin = read_skeleton(skeleton, Config())
+    want = Counter(g.role.value for group in (twin.circles, twin.arcs, twin.paths) for g in group)
+    doc = output_json(_cli("solve", str(drafted), "--mu", "0.3", "--json").stdout)
+    inf = doc["inference"]
+    assert inf["layers"] == DRAFTED_LAYERS[style]
+    assert inf["found"] == {r: want[r] for r in ("pivot", "pin", "link", "drum", "shoe")}
+    assert inf["style"] == doc["skeleton"].removeprefix("geometry (").removesuffix(")")
+    assert sorted(doc["layers"]) == ["band", "label", "load", "spring"]
+    text = _cli("solve", str(drafted), "--mu", "0.3").stdout
+    flat = " ".join(text.split())  # the report wraps at its width
+    where = ("layer " if len(inf["layers"]) == 1 else "layers ") + ", ".join(inf["layers"])
+    items = ", ".join(f"{r} {n}" for r, n in inf["found"].items())
+    assert f"layers: inferred from geometry (style: {inf['style']}) on {where} ({items}), load ← LOAD" in flat
+    assert "pivot ←" not in text and "drum ←" not in text
+    twin_doc = output_json(_cli("solve", str(skeleton), "--mu", "0.3", "--json").stdout)
+    assert twin_doc["inference"] is None and len(twin_doc["layers"]) == 9
 
 
 def test_project_file_forces_the_source(tmp_path):

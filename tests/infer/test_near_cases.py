@@ -325,3 +325,96 @@ def test_blocks_holes_belong_to_the_part_that_draws_them(tmp_path):
     assert len(lever_link.points) == 3  # P, Q and the lining's middle
     assert {tuple(round(v, 9) for v in q) for q in arm_link.points} == {Q, (300.0, 400.0)}  # Q and the load
     assert Code.HOLE_ONE_PART in {f.code for f in d.findings}  # the arm's eye is in the arm alone
+
+
+def _rounded_bracket(msp, c, *, clockwise, half=20.0):
+    """A frame bracket round the hole at ``c``: a 2·half wide block under a
+    half-circle of radius ``half`` centred on the hole, drawn as a closed
+    polyline (bulge 1 over the top) and hatched by an edge path of lines and
+    one arc edge.  With ``clockwise`` the hatch's boundary runs up the left
+    side, over the top from 180° to 0° (a clockwise arc edge) and down the
+    right side; otherwise the other way round (a counter-clockwise arc edge,
+    0° to 180°)."""
+    x, y = c
+    bl, br, tr, tl = (x - half, y - half), (x + half, y - half), (x + half, y), (x - half, y)
+    msp.add_lwpolyline([(*bl, 0), (*br, 0), (*tr, 1.0), (*tl, 0)], format="xyb", close=True)
+    edges = msp.add_hatch().paths.add_edge_path()
+    if clockwise:
+        edges.add_line(bl, tl)
+        edges.add_arc(c, half, 0.0, 180.0, ccw=False)  # ezdxf: angles in ccw order, run from 180° to 0°
+        edges.add_line(tr, br)
+        edges.add_line(br, bl)
+    else:
+        edges.add_line(bl, br)
+        edges.add_line(br, tr)
+        edges.add_arc(c, half, 0.0, 180.0, ccw=True)
+        edges.add_line(tl, bl)
+
+
+def _hatch_arc_flags(path):
+    """The (72 edge type, 73 flag) of every arc edge in the file's HATCH
+    entities, read from the group codes as written (DXF Reference, HATCH
+    boundary path data: edge type 72 = 2 for an arc, whose group 73 is the
+    "is counterclockwise flag")."""
+    lines = path.read_text().splitlines()
+    pairs = [(a.strip(), b.strip()) for a, b in zip(lines[::2], lines[1::2], strict=False)]
+    flags, in_hatch, arc = [], False, False
+    for code, value in pairs:
+        if code == "0":
+            in_hatch, arc = value == "HATCH", False
+        elif in_hatch and code == "72":
+            arc = value == "2"
+        elif in_hatch and arc and code == "73":
+            flags.append(int(value))
+            arc = False
+    return flags
+
+
+@pytest.mark.parametrize("clockwise", [True, False])
+def test_hatch_boundary_arc_runs_in_its_own_direction(tmp_path, clockwise):
+    """The hatch boundary of a rounded bracket is read in its own order: the
+    arc edge starts where the edge before it ends (a clockwise edge at its
+    end angle), so the boundary is a simple polygon whose area is the
+    block's plus the inscribed half-circle's.  Hand calculation: the block
+    40 × 20 = 800 mm²; the half circle in n = 180°/5° = 36 chords of 5°
+    (ARC_CHORD_DEG), each a triangle of ½ r² sin 5° with r = 20:
+    36 · ½ · 400 · sin 5° = 627.52 mm² (area of an inscribed polygon,
+    elementary geometry)."""
+    import math
+
+    from shapely import Polygon
+
+    from dxfcheck.infer.linework import ARC_CHORD_DEG, read_linework
+
+    doc = _doc()
+    _rounded_bracket(doc.modelspace(), R, clockwise=clockwise)
+    path = tmp_path / "bracket.dxf"
+    doc.saveas(path)
+    assert _hatch_arc_flags(path) == [0 if clockwise else 1]
+    lw = read_linework(ezdxf.readfile(path), 1.0, str(path))
+    (boundary,) = [p for p in lw.paths if p.hatch]
+    n = round(180.0 / ARC_CHORD_DEG)
+    want = 40.0 * 20.0 + n * 0.5 * 20.0**2 * math.sin(math.radians(ARC_CHORD_DEG))
+    poly = Polygon(boundary.points)
+    assert poly.is_valid and poly.exterior.is_simple
+    assert poly.area == pytest.approx(want, rel=1e-9)
+    assert boundary.closed and len(boundary.points) == n + 3 + 1  # 36 chords, 3 line starts, closed
+    # the boundary keeps its drawn order: clockwise overall when the arc edge is
+    assert poly.exterior.is_ccw is (not clockwise)
+    top = max(boundary.points, key=lambda p: p[1])
+    assert top == pytest.approx((R[0], R[1] + 20.0), abs=1e-9)
+
+
+def test_frame_bracket_hatched_with_a_clockwise_arc_holds_its_pivot(tmp_path):
+    """The outlined drawing with R's square bracket replaced by a rounded
+    one whose hatch boundary has a clockwise arc edge: R is still a pivot
+    (a hole the hatched frame holds), as in the hand-labelled drawing."""
+    doc = _doc()
+    msp = _outlined(doc, frame=False)
+    _bracket(msp, P)
+    _rounded_bracket(msp, R, clockwise=True)
+    d = _read(tmp_path, doc)
+    assert d.skeleton_source == "geometry (outlines)"
+    assert _roles(d, Role.PIVOT) == [(P, 10.0), (R, 8.0)]
+    assert _roles(d, Role.PIN) == [(Q, 8.0)]
+    assert Code.HOLE_ONE_PART not in {f.code for f in d.findings}

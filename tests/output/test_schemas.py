@@ -104,9 +104,7 @@ def test_compare_batch_and_sensitivity_meet_their_schemas(tmp_path):
     assert output_json(compared.stdout)["schema"] == COMPARE_SCHEMA
     batch = run("batch", DEMOS, "--json", "--no-cache", "--jobs", "1")
     assert batch.returncode in (0, 1), batch.stderr
-    assert len(output_json(batch.stdout)["results"]) == len(
-        list(DEMOS.rglob("*.dxf"))
-    )  # the demos and the drafted winch
+    assert len(output_json(batch.stdout)["results"]) == len(list((ROOT / "drawings").rglob("*.dxf")))  # drafted/ too
     sampled = run("solve", WINCH, "--mu", "0.3..0.4", "--samples", "200", "--pin-tolerance", "0.2mm", "--json")
     assert sampled.returncode == 0, sampled.stderr
     assert output_json(sampled.stdout)["schema"] == SENSITIVITY_SCHEMA
