@@ -475,27 +475,35 @@ def _duty(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min
                     f"({governing.basis})",
                 )
             )
+    return out + _hoist(spec, sol_min, required, mu_min)
+
+
+def _hoist(spec: Spec, sol_min: Solution, required: tuple[Direction, ...], mu_min: float) -> list[RuleResult]:
+    """Braking torque at mu_min against the hoist holding torque times the
+    factor its control braking and brake count call for (:data:`SRC_HOIST`)."""
     hoist = spec.num("hoist_torque")
-    if hoist is not None:
-        cb = spec.get("control_braking")
-        factor, why = hoist_factor(None if cb is None else str(cb.value), spec.num("holding_brakes"))
-        for d in required:
-            c = sol_min.case(d)
-            out.append(
-                _ratio_rule(
-                    f"hoist.{d}",
-                    f"hoist holding torque, {d}",
-                    c.torque_Nm,
-                    factor * hoist,
-                    "N*m",
-                    SRC_HOIST,
-                    {"hoist_torque_Nm": hoist, "factor": factor, "basis": why, "mu_min": mu_min, "direction": str(d)},
-                    at_most=False,
-                    formula="T(μ_min) ≥ k·T_hoist",
-                    substituted=f"T = {_g(c.torque_Nm)} N·m at μ_min = {mu_min:g}; limit {factor:g} × {_g(hoist)} N·m "
-                    f"= {_g(factor * hoist)} N·m",
-                )
+    if hoist is None:
+        return []
+    cb = spec.get("control_braking")
+    factor, why = hoist_factor(None if cb is None else str(cb.value), spec.num("holding_brakes"))
+    out = []
+    for d in required:
+        c = sol_min.case(d)
+        out.append(
+            _ratio_rule(
+                f"hoist.{d}",
+                f"hoist holding torque, {d}",
+                c.torque_Nm,
+                factor * hoist,
+                "N*m",
+                SRC_HOIST,
+                {"hoist_torque_Nm": hoist, "factor": factor, "basis": why, "mu_min": mu_min, "direction": str(d)},
+                at_most=False,
+                formula="T(μ_min) ≥ k·T_hoist",
+                substituted=f"T = {_g(c.torque_Nm)} N·m at μ_min = {mu_min:g}; limit {factor:g} × {_g(hoist)} N·m "
+                f"= {_g(factor * hoist)} N·m",
             )
+        )
     return out
 
 

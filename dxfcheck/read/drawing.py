@@ -1056,7 +1056,6 @@ def load_document(
         When the file is missing, a folder, unreadable, empty, too large,
         DWG or another format, cut off, or damaged beyond repair.
     """
-    from ezdxf import recover
     from ezdxf.filemanagement import readfile
 
     spath = str(path)
@@ -1071,29 +1070,38 @@ def load_document(
         raise
     except _unreadable():  # a failure of the strict parser: try the recovering one
         deadline.check("reading the drawing")
-        try:
-            doc, auditor = recover.readfile(spath)
-        except DxfcheckError:  # a refusal of ours is never a damaged entity
-            raise
-        except _unreadable() as exc:  # beyond both of ezdxf's readers
-            raise DrawingReadError(
-                f"is not a readable DXF drawing ({type(exc).__name__}: {exc}); open and re-save it in the CAD program",
-                path=spath,
-            ) from exc
-        if len(doc.modelspace()) == 0 and size > EMPTY_RECOVERY_BYTES:
-            raise DrawingReadError(
-                "is damaged beyond repair: nothing could be recovered from it; re-export the drawing", path=spath
-            ) from None
-        findings.append(
-            _finding(
-                Code.REPAIRED,
-                f"the file is damaged; ezdxf's recover mode read it ({len(auditor.errors)} "
-                f"errors, {len(auditor.fixes)} fixes): check the results against the drawing",
-            )
-        )
-        for err in list(auditor.errors)[:MAX_REPAIR_FINDINGS]:
-            findings.append(_finding(Code.REPAIRED, f"repaired on reading: {err.message}"))
+        doc = _recover(spath, size, findings)
     return doc, findings
+
+
+def _recover(spath: str, size: int, findings: list[Finding]) -> Any:
+    """The document as ezdxf's recover mode reads a damaged file, with a
+    finding for what it repaired (appended to ``findings``)."""
+    from ezdxf import recover
+
+    try:
+        doc, auditor = recover.readfile(spath)
+    except DxfcheckError:  # a refusal of ours is never a damaged entity
+        raise
+    except _unreadable() as exc:  # beyond both of ezdxf's readers
+        raise DrawingReadError(
+            f"is not a readable DXF drawing ({type(exc).__name__}: {exc}); open and re-save it in the CAD program",
+            path=spath,
+        ) from exc
+    if len(doc.modelspace()) == 0 and size > EMPTY_RECOVERY_BYTES:
+        raise DrawingReadError(
+            "is damaged beyond repair: nothing could be recovered from it; re-export the drawing", path=spath
+        ) from None
+    findings.append(
+        _finding(
+            Code.REPAIRED,
+            f"the file is damaged; ezdxf's recover mode read it ({len(auditor.errors)} "
+            f"errors, {len(auditor.fixes)} fixes): check the results against the drawing",
+        )
+    )
+    for err in list(auditor.errors)[:MAX_REPAIR_FINDINGS]:
+        findings.append(_finding(Code.REPAIRED, f"repaired on reading: {err.message}"))
+    return doc
 
 
 def _unreadable() -> tuple[type[BaseException], ...]:

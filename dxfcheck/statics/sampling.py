@@ -342,6 +342,35 @@ def _solve_chunks(
         pool.shutdown(wait=done, cancel_futures=True)
 
 
+def _check_inputs(
+    mu_range: tuple[float, float], samples: int, pin_tolerance_mm: float, spring_tolerance: float
+) -> None:
+    """Refuse a range, sample count or tolerance the sampler cannot use."""
+    lo, hi = mu_range
+    if not 0.0 <= spring_tolerance < 1.0:
+        raise ConfigError(f"the spring force tolerance must be a fraction from 0 to below 1, got {spring_tolerance:g}")
+    if not (0 <= lo <= hi < math.inf) or not 1 <= samples <= MAX_SAMPLES or not 0 <= pin_tolerance_mm < math.inf:
+        raise ConfigError(
+            f"sampling needs 0 ≤ mu_min ≤ mu_max, 1 to {MAX_SAMPLES:,} samples and a tolerance ≥ 0 "
+            f"(got μ {lo:g}..{hi:g}, {samples} samples, tolerance {pin_tolerance_mm:g} mm)"
+        )
+
+
+def _direction_stats(
+    mech: Mechanism,
+    direction: Direction,
+    results: list[tuple[NDArray[np.float64], NDArray[np.float64]]],
+    required_torque_Nm: float | None,
+) -> DirectionStats:
+    """The distributions of one direction's samples: torque [N·m], the
+    governing pin's force [N] (highest 95th percentile), P(T < required)."""
+    torque = np.concatenate([t for t, _ in results])
+    force = np.concatenate([f for _, f in results])
+    worst = int(np.argmax(np.percentile(force, GOVERNING_PERCENTILE, axis=0)))
+    below = None if required_torque_Nm is None else float(np.mean(torque < required_torque_Nm))
+    return DirectionStats(str(direction), _stats(torque), _stats(force[:, worst]), mech.pins[worst].name, below)
+
+
 def sample_design(
     mech: Mechanism,
     mu_range: tuple[float, float],
@@ -364,13 +393,7 @@ def sample_design(
         On a bad range or sample count, or a linkage that cannot be sampled.
     """
     lo, hi = mu_range
-    if not 0.0 <= spring_tolerance < 1.0:
-        raise ConfigError(f"the spring force tolerance must be a fraction from 0 to below 1, got {spring_tolerance:g}")
-    if not (0 <= lo <= hi < math.inf) or not 1 <= samples <= MAX_SAMPLES or not 0 <= pin_tolerance_mm < math.inf:
-        raise ConfigError(
-            f"sampling needs 0 ≤ mu_min ≤ mu_max, 1 to {MAX_SAMPLES:,} samples and a tolerance ≥ 0 "
-            f"(got μ {lo:g}..{hi:g}, {samples} samples, tolerance {pin_tolerance_mm:g} mm)"
-        )
+    _check_inputs(mu_range, samples, pin_tolerance_mm, spring_tolerance)
     rng = np.random.default_rng(seed)
     t0 = time.perf_counter()
     stats = []
@@ -385,13 +408,7 @@ def sample_design(
         if spring_tolerance > 0 and mech.springs:  # drawn only then: a seed's other samples stay as they were
             springs_all = rng.uniform(1 - spring_tolerance, 1 + spring_tolerance, (samples, len(mech.springs)))
         results = _solve_chunks(parts, mu_all, dpin_all, chunk, springs_all)
-        torque = np.concatenate([t for t, _ in results])
-        force = np.concatenate([f for _, f in results])
-        worst = int(np.argmax(np.percentile(force, GOVERNING_PERCENTILE, axis=0)))
-        below = None if required_torque_Nm is None else float(np.mean(torque < required_torque_Nm))
-        stats.append(
-            DirectionStats(str(direction), _stats(torque), _stats(force[:, worst]), mech.pins[worst].name, below)
-        )
+        stats.append(_direction_stats(mech, direction, results, required_torque_Nm))
         grid = np.linspace(lo, hi, CURVE_POINTS)
         t_grid, _ = parts.solve(grid, np.zeros((grid.size, len(mech.pins), 2)))
         curve[str(direction)] = [(float(m), float(t)) for m, t in zip(grid, t_grid, strict=True)]
