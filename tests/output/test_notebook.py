@@ -1,5 +1,5 @@
 """The results in a notebook (``dxfcheck/output/notebook.py``) and the
-example notebook ``docs/brake_review.ipynb``, executed headless by nbclient
+example notebook ``drawings/brake_review.ipynb``, executed headless by nbclient
 in a kernel of this interpreter, so that it stays true.
 
 The scenario is the demo conveyor brake (``drawings/build.py``,
@@ -35,7 +35,7 @@ import dxfcheck
 from dxfcheck.output import notebook
 from dxfcheck.output.text import CAUTION
 
-NOTEBOOK = ROOT / "docs" / "brake_review.ipynb"
+NOTEBOOK = ROOT / "drawings" / "brake_review.ipynb"
 #: The notebook's scenario (its spec and the two set weights) [N·m, -, N].
 REQUIRED_NM, MU, WEIGHT_A_N, WEIGHT_B_N = 60.0, 0.35, 420.0, 380.0
 #: The conveyor demo's lever [mm]: the weight's arm, the normal's, the friction's; the drum radius.
@@ -115,7 +115,7 @@ class _Display(HTMLParser):
 @pytest.fixture(scope="module")
 def executed():
     """The example notebook run top to bottom in a fresh kernel (this
-    interpreter, with this checkout on its path), from ``docs/``: the
+    interpreter, with this checkout on its path), from ``drawings/``: the
     outputs of each code cell."""
     import nbclient
     import nbformat
@@ -299,4 +299,4 @@ def test_enable_registers_every_display_with_a_shell():
 
 
 def test_the_readme_points_to_the_notebook():
-    assert NOTEBOOK.is_file() and "docs/brake_review.ipynb" in (ROOT / "README.md").read_text(encoding="utf-8")
+    assert NOTEBOOK.is_file() and "drawings/brake_review.ipynb" in (ROOT / "README.md").read_text(encoding="utf-8")
