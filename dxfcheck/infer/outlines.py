@@ -21,6 +21,13 @@ parts as blocks, whose outlines arrive here placed in the world).
   lining arc on its outline, placed last; in the shortest order (every
   order is tried up to :data:`MAX_ORDERED_POINTS` points, else nearest
   neighbour), so an L-shaped crank reads as its two arms.
+* Separately drawn outlines are never joined rigidly.  Where a piece would
+  end on another part's piece away from a hole (a pull rod through a lever,
+  the spring's end on the lever where the rod crosses it), the piece runs on
+  through that point, straight, to its own outline's edge: the two pieces
+  cross there, as a skeleton draws a rod through a lever, and crossing
+  pieces do not join (:mod:`dxfcheck.mechanism.topology`; the springs step
+  gives that spring end to the lever).
 * A part with two pins and nothing else is a two-force member in the
   statics; when most of its outline lies off the bar between the pins
   (:data:`BROAD_PART_FRACTION`), it may be a lever whose other attachment
@@ -267,7 +274,7 @@ def infer_from_parts(
         *(h.geom(Role.PIVOT) for h in pivots),
         *(h.geom(Role.PIN) for h in pins),
     )
-    links = _links(parts, members)
+    links = _links(parts, members, [h.center for h in (*pivots, *pins)], tol)
     findings += _broad_two_pin_parts(parts, members)
     return Inferred(style, out_circles, tuple(shoes), links, tuple(findings))
 
@@ -382,12 +389,75 @@ def _note(code: Code, hole: Hole, what: str) -> Finding:
     return infer_finding(code, f"hole of diameter {2 * c.radius_mm:.6g} mm at {fmt(c.center)} {what}", [c.ink.source])
 
 
-def _links(parts: Sequence[Contour], members: _Members) -> tuple[PathGeom, ...]:
-    """One centreline piece per part through its key points."""
-    out = []
-    for gi, part in enumerate(parts):
+def _links(parts: Sequence[Contour], members: _Members, pins: Sequence[Point], tol: float) -> tuple[PathGeom, ...]:
+    """One centreline piece per part through its key points, each run on
+    through an end that lies on another part's piece (:func:`_crossing`)."""
+    pieces: list[tuple[int, list[Point]]] = []
+    for gi in range(len(parts)):
         pts = list(dict.fromkeys([h.center for h in members.holes.get(gi, [])] + members.points.get(gi, [])))
         seq = _order(pts, members.arcs.get(gi, []))
         if len(seq) >= 2:
-            out.append(PathGeom(Role.LINK, tuple(seq), part.ink.source))
-    return tuple(out)
+            pieces.append((gi, seq))
+    crossing = _Crossing(pieces, PointIndex(pins), tol)
+    return tuple(
+        PathGeom(Role.LINK, tuple(crossing.through(k, parts[gi].polygon)), parts[gi].ink.source)
+        for k, (gi, _) in enumerate(pieces)
+    )
+
+
+class _Crossing:
+    """The pieces as first ordered, in an STRtree, to tell where one would
+    end on another away from a pin."""
+
+    def __init__(self, pieces: Sequence[tuple[int, list[Point]]], pins: PointIndex, tol: float) -> None:
+        import shapely
+
+        self.seqs = [seq for _, seq in pieces]
+        self.pins, self.tol = pins, tol
+        self.tree = shapely.STRtree([shapely.LineString(seq) for seq in self.seqs])
+
+    def on_other(self, k: int, p: Point) -> bool:
+        """Whether ``p`` lies within the tolerance of a piece other than
+        ``k``."""
+        import shapely
+
+        hits = self.tree.query(shapely.Point(p), predicate="dwithin", distance=self.tol)
+        return any(int(j) != k for j in hits)
+
+    def through(self, k: int, polygon: Any) -> list[Point]:
+        """Piece ``k``, run on at each end that lies on another piece away
+        from a pin: straight on to its outline's edge (unchanged where the
+        edge is no farther than the tolerance, or that end would lie on
+        another piece too)."""
+        seq = list(self.seqs[k])
+        for first in (True, False):
+            end, prev = (seq[0], seq[1]) if first else (seq[-1], seq[-2])
+            if self.pins.near(end, self.tol) or not self.on_other(k, end):
+                continue
+            beyond = _edge_beyond(end, prev, polygon, self.tol)
+            if beyond is None or self.on_other(k, beyond):
+                continue
+            seq = [beyond, *seq] if first else [*seq, beyond]
+        return seq
+
+
+def _edge_beyond(end: Point, prev: Point, polygon: Any, tol: float) -> Point | None:
+    """Where the line from ``prev`` through ``end``, run on past ``end``,
+    leaves ``polygon`` (the edge of the stretch inside it that starts at
+    ``end``); None when there is no such stretch longer than ``tol`` [mm]."""
+    import shapely
+
+    length = dist(prev, end)
+    if length <= tol:
+        return None
+    x0, y0, x1, y1 = polygon.bounds
+    reach = math.hypot(x1 - x0, y1 - y0)
+    u = ((end[0] - prev[0]) / length, (end[1] - prev[1]) / length)
+    ray = shapely.LineString([end, (end[0] + reach * u[0], end[1] + reach * u[1])])
+    start = shapely.Point(end)
+    for piece in shapely.get_parts(ray.intersection(polygon)):
+        if piece.geom_type != "LineString" or piece.distance(start) > tol:
+            continue
+        far = max(((float(x), float(y)) for x, y in piece.coords), key=lambda q: dist(q, end))
+        return far if dist(far, end) > tol else None
+    return None

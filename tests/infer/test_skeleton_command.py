@@ -5,13 +5,13 @@ own invariant, ``twins.py``; no published source)."""
 
 from __future__ import annotations
 
-import json
 import subprocess
 import sys
 
 import ezdxf
 import pytest
 from common import CATALOGUE, ROOT
+from schema_check import output_json
 from twins import assert_same_mechanism, assert_same_solution
 
 import dxfcheck
@@ -62,7 +62,7 @@ def test_skeleton_json_and_refusals(tmp_path):
     save_drafted(CATALOGUE["conveyor block"][0](), drafted, "outlines")
     res = _cli("skeleton", str(drafted), "-o", str(out), "--json")
     assert res.returncode == 0, res.stderr
-    doc = json.loads(res.stdout)
+    doc = output_json(res.stdout)  # validated against its schema
     assert doc["schema"] == "dxfcheck.skeleton/1" and doc["skeleton"] == "geometry (outlines)"
     assert doc["written"] == [str(out)] and "caution" in doc
     again = _cli("skeleton", str(drafted), "-o", str(out))  # exists: refused without --force

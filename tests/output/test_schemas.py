@@ -28,6 +28,7 @@ from dxfcheck.output.json import (
     COMPARE_SCHEMA,
     LININGS_SCHEMA,
     SENSITIVITY_SCHEMA,
+    SKELETON_SCHEMA,
     SOLVE_SCHEMA,
     linings_to_dict,
 )
@@ -47,7 +48,16 @@ def test_every_schema_is_valid_draft_2020_12_and_names_its_document():
     """Each file passes the draft 2020-12 meta-schema; the document's
     versioned name in the schema is the one the code writes, so that a new
     document version needs a new schema."""
-    assert set(SCHEMA_NAMES) == {"solve", "check", "compare", "batch", "sensitivity", "linings", "error"}
+    assert set(SCHEMA_NAMES) == {
+        "solve",
+        "check",
+        "compare",
+        "batch",
+        "sensitivity",
+        "linings",
+        "skeleton",
+        "error",
+    }
     written = {
         "solve": SOLVE_SCHEMA,
         "check": CHECK_SCHEMA,
@@ -55,6 +65,7 @@ def test_every_schema_is_valid_draft_2020_12_and_names_its_document():
         "batch": BATCH_SCHEMA,
         "sensitivity": SENSITIVITY_SCHEMA,
         "linings": LININGS_SCHEMA,
+        "skeleton": SKELETON_SCHEMA,
     }
     assert written == DOCUMENTS
     for name in SCHEMA_NAMES:
@@ -231,3 +242,71 @@ def test_schema_command_lists_and_prints():
     assert run("schema", "dxfcheck.check/2").stdout == schema_text("check")
     unknown = run("schema", "drawing")
     assert unknown.returncode == 2 and "no schema named 'drawing'" in unknown.stderr
+
+
+def _skeleton_doc(drawing, out, *more):
+    r = run("skeleton", drawing, "-o", out, "--json", *more)
+    return r.returncode, output_json(r.stdout)
+
+
+@pytest.mark.parametrize("style", ["centrelines", "outlines", "blocks"])
+def test_skeleton_documents_of_drafted_drawings_meet_their_schema(tmp_path, style):
+    """``skeleton --json`` on a drafted drawing: inferred, the inference
+    described, the files written listed in order (drawing, then SVG)."""
+    out, svg = tmp_path / "out.dxf", tmp_path / "out.svg"
+    code, doc = _skeleton_doc(DEMOS / "drafted" / f"winch_{style}.dxf", out, "--svg", svg)
+    assert code == 0
+    assert doc["schema"] == SKELETON_SCHEMA and doc["written"] == [str(out), str(svg)]
+    assert doc["skeleton"] == f"geometry ({doc['inference']['style']})"
+
+
+def test_skeleton_documents_from_layers_and_of_a_broken_mechanism_meet_the_schema(tmp_path):
+    """From the role layers the document has no inference; a mechanism that
+    cannot be built (a lever with no load: M212) still gets its document,
+    with the error among its findings, and exit 2."""
+    code, doc = _skeleton_doc(WINCH, tmp_path / "winch.dxf")
+    assert code == 0 and doc["skeleton"] == "layers" and doc["inference"] is None
+    from dxfcheck.output.sketch import Sketch
+
+    sk = Sketch()
+    sk.drum(0, 0, 150)
+    sk.pivot(-200, -100, 20, label="O")
+    sk.link((-200, -100), (-200, 200))
+    sk.link((-200, 0), (-150, 0))
+    sk.shoe(0, 0, 150, 160, 200)
+    sk.save(tmp_path / "no_load.dxf")
+    code, doc = _skeleton_doc(tmp_path / "no_load.dxf", tmp_path / "no_load-out.dxf")
+    assert code == 2 and "error" not in doc
+    assert "M212" in {f["code"] for f in doc["findings"] if f["severity"] == "error"}
+
+
+SKELETON_MUTATIONS = {
+    "unknown top-level key": lambda d: d.__setitem__("cases", []),
+    "missing caution": lambda d: d.pop("caution"),
+    "missing inference": lambda d: d.pop("inference"),
+    "nothing written": lambda d: d.__setitem__("written", []),
+    "written path not text": lambda d: d["written"].__setitem__(0, 1),
+    "source out of pattern": lambda d: d.__setitem__("skeleton", "geometry (sketch)"),
+    "inference style unknown": lambda d: d["inference"].__setitem__("style", "hand"),
+    "inference count negative": lambda d: d["inference"]["found"].__setitem__("pin", -1),
+    "pin without pivot": lambda d: d["mechanism"]["pins"][0].pop("pivot"),
+    "unknown part key": lambda d: d["mechanism"]["parts"][0].__setitem__("mass_kg", 3.0),
+    "finding code out of pattern": lambda d: d["findings"][0].__setitem__("code", "X1"),
+    "schema of another document": lambda d: d.__setitem__("schema", "dxfcheck.solve/2"),
+}
+
+
+@pytest.fixture(scope="module")
+def skeleton_doc(tmp_path_factory):
+    out = tmp_path_factory.mktemp("skeleton") / "out.dxf"
+    return _skeleton_doc(DEMOS / "drafted" / "winch_outlines.dxf", out)[1]
+
+
+@pytest.mark.parametrize("mutation", sorted(SKELETON_MUTATIONS))
+def test_a_mutated_skeleton_document_fails(skeleton_doc, mutation):
+    validate_document(skeleton_doc, "skeleton")
+    assert skeleton_doc["inference"] and skeleton_doc["findings"] and skeleton_doc["mechanism"]["pins"]
+    bad = copy.deepcopy(skeleton_doc)
+    SKELETON_MUTATIONS[mutation](bad)
+    with pytest.raises(jsonschema.ValidationError):
+        validate_document(bad, "skeleton")

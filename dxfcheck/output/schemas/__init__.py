@@ -5,7 +5,8 @@ One file per document, shipped with the package and printed by
 document's versioned name (:data:`DOCUMENTS`), so that a document's version
 and its schema's change together.  ``solve``, ``check`` and ``compare`` also
 accept the error document (``error.json``) they print with ``--json`` when
-they refuse a drawing; ``check`` builds on ``solve`` by ``$ref``.
+they refuse a drawing; ``check`` builds on ``solve`` by ``$ref``, and so
+do ``linings`` and ``skeleton`` for the parts they share.
 """
 
 from __future__ import annotations
@@ -25,6 +26,7 @@ DOCUMENTS: dict[str, str] = {
     "batch": "dxfcheck.batch/2",
     "sensitivity": "dxfcheck.statics.sampling/1",
     "linings": "dxfcheck.linings/1",
+    "skeleton": "dxfcheck.skeleton/1",
 }
 #: The names ``dxfcheck schema`` takes, in the order it lists them: the
 #: documents', then ``error`` (the refusal document of ``solve``, ``check``
