@@ -26,12 +26,13 @@ from common import CATALOGUE, ROOT, TITLES, block_brake
 from schema_check import output_json
 
 from dxfcheck import cli
+from dxfcheck.core.files import is_dxfcheck_output
 from dxfcheck.output.figure import boxes_overlap, plan_figure, svg_element
 from dxfcheck.output.record import SECTIONS
 from dxfcheck.output.text import CAUTION
 from dxfcheck.pipeline import analyse
 
-DEMOS = sorted((ROOT / "drawings").glob("*.dxf"))
+DEMOS = sorted(p for p in (ROOT / "drawings").glob("*.dxf") if not is_dxfcheck_output(p))  # not a marked-up copy
 #: Relative tolerance of a balance read back from the record's tables [-]
 #: (the solver's own check is tighter; the cells keep the exact values).
 BALANCE_RTOL = 1e-7
