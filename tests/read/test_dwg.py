@@ -15,9 +15,11 @@ references decide agreement, neither of them our adapter:
   with the same handles and layers, the same findings.
 
 The small twins are kept gzipped in ``tests/data/dwg``; ACadSharp's full
-samples (1 MB DWG, 2.6 MB DXF each) are read from the shared sample folder
-when it is there (``DXFCHECK_DWG_SAMPLES`` or ``../shared/dwg-samples`` above
-the clone) and skipped otherwise.
+samples (1 MB DWG, 2.6 MB DXF each): R14, R2000 and R2018 with their twins
+are in the repository (gzipped, MIT, provenance in tests/references.md); the
+other versions are read from the shared sample folder when it is there
+(``DXFCHECK_DWG_SAMPLES`` or ``../shared/dwg-samples`` above the clone) and
+skipped otherwise.
 """
 
 from __future__ import annotations
@@ -92,11 +94,20 @@ def samples(tmp_path_factory: pytest.TempPathFactory) -> Path:
 
 def _pair(samples: Path, name: str) -> Path:
     if name.startswith("sample_"):
-        shared = _shared()
-        if shared is None:
-            pytest.skip("ACadSharp's samples are in the shared sample folder, which is not here")
-        return shared / "acadsharp" / name
+        return _acadsharp(samples, name)
     return samples / name
+
+
+def _acadsharp(samples: Path, name: str) -> Path:
+    """One of ACadSharp's samples: from the repository's test data (R14,
+    R2000 and R2018 with their twins, gzipped), else from the shared sample
+    folder (every version), else skipped."""
+    if (samples / name).is_file():
+        return samples / name
+    shared = _shared()
+    if shared is None:
+        pytest.skip(f"{name}: only R14, R2000 and R2018 of ACadSharp's samples are in the repository")
+    return shared / "acadsharp" / name
 
 
 # ---------------------------------------------------------------- references
@@ -361,20 +372,18 @@ def test_r14_acadsharp_agrees_but_for_layer_names(samples: Path) -> None:
     layer names follow R14's rules (no spaces or '@': the CAD program wrote
     '0 @ 1' as '0___1'), the unit is assumed (no $INSUNITS in R14) and D120
     says what may be missing."""
-    shared = _shared()
-    if shared is None:
-        pytest.skip("ACadSharp's samples are in the shared sample folder, which is not here")
-    dd = _load_dwg(shared / "acadsharp" / "sample_AC1014.dwg", Config(), None)
+    r14 = _acadsharp(samples, "sample_AC1014.dwg")
+    dd = _load_dwg(r14, Config(), None)
     assert dd.version == "AC1014"
     assert [f.code for f in dd.findings][:1] == [Code.DWG_OLD_VERSION]
-    twin = ezdxf.readfile(str(shared / "acadsharp" / "sample_AC1015_ascii.dxf"))
+    twin = ezdxf.readfile(str(_acadsharp(samples, "sample_AC1015_ascii.dxf")))
     mine = [(k, "", s) for k, _, s in _flat(dd.doc)]
     theirs = [(k, "", s) for k, _, s in _flat(twin)]
     _assert_same(
         sorted(mine, key=lambda r: (r[0], [round(v, 3) for v in r[2]])),
         sorted(theirs, key=lambda r: (r[0], [round(v, 3) for v in r[2]])),
     )
-    d = read_drawing(shared / "acadsharp" / "sample_AC1014.dwg")
+    d = read_drawing(r14)
     assert d.units_source == "default" and Code.UNITS_ASSUMED in {f.code for f in d.findings}
 
 
