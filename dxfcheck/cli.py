@@ -461,7 +461,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 
 
 def _solve(args: argparse.Namespace) -> int:
-    from dxfcheck.output.json import solution_to_dict, write_json
+    from dxfcheck.output.solve_json import solution_to_dict, write_json
     from dxfcheck.pipeline import DEFAULT_MU, analyse
 
     mu_value, mu_range = _mu_arg(args.mu)
@@ -625,7 +625,7 @@ def _skeleton(args: argparse.Namespace) -> int:
     )
     written = write_skeleton(mech, out, config=cfg, over=args.over, svg=args.svg, force=args.force)
     if args.json:
-        from dxfcheck.output.json import skeleton_to_dict, write_json
+        from dxfcheck.output.solve_json import skeleton_to_dict, write_json
 
         write_json(skeleton_to_dict(mech, written))
     else:
@@ -880,7 +880,7 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
     """With ``--json``, a refusal still prints one JSON document on stdout."""
     if not getattr(args, "json", False) or args.command not in ("solve", "check", "compare"):
         return
-    from dxfcheck.output.json import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
+    from dxfcheck.output.solve_json import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
 
     schema = {"check": CHECK_SCHEMA, "compare": COMPARE_SCHEMA}.get(args.command, SOLVE_SCHEMA)
     drawing = str(args.drawing) if getattr(args, "drawing", None) else None
