@@ -108,10 +108,10 @@ def provenance(path: str | os.PathLike[str] | None) -> dict[str, Any]:
 
 
 def write_json(doc: dict[str, Any], out: IO[str] | None = None) -> None:
-    """Write one JSON document followed by a newline."""
+    """Write one JSON document followed by a newline, in one write (not one
+    per token, as :func:`json.dump` writes)."""
     out = out or sys.stdout
-    json.dump(doc, out, indent=2, allow_nan=False, default=str)
-    out.write("\n")
+    out.write(json.dumps(doc, indent=2, allow_nan=False, default=str) + "\n")
 
 
 # --- one solved direction: one function per result kind --------------------
