@@ -17,7 +17,7 @@ import itertools
 import json
 import logging
 import sys
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import replace
 from typing import TYPE_CHECKING, Any
 
@@ -165,14 +165,8 @@ def _shoe_options(s: argparse.ArgumentParser) -> None:
     )
 
 
-def _parser() -> argparse.ArgumentParser:
-    from dxfcheck.core.version import __version__
-
-    p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF (or DWG).")
-    p.add_argument("--version", action="version", version=f"dxfcheck {__version__}")
-    sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
-
-    s = sub.add_parser("solve", help="solve the pin forces, shoe forces and braking torque of a drawing")
+def _add_solve_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck solve``."""
     _common(s)
     s.add_argument("--mu", default=None, help="friction coefficient (default 0.35), or a range 0.30..0.45 to sample")
     s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
@@ -194,26 +188,28 @@ def _parser() -> argparse.ArgumentParser:
     _shoe_options(s)
     _annotate_shortcut(s)
 
-    c = sub.add_parser("check", help="solve a drawing and judge it against the brake's spec (release gate)")
-    _common(c)
-    c.add_argument("--mu", default=None, help="nominal friction coefficient (spec key mu)")
-    c.add_argument("--mu-min", default=None, help="lowest friction coefficient (spec key mu_min)")
-    c.add_argument("--mu-max", default=None, help="highest friction coefficient (spec key mu_max)")
-    c.add_argument("--required-torque", default=None, help="duty torque, e.g. '450 N*m' (spec key required_torque)")
-    c.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (spec key effort)")
-    c.add_argument(
+
+def _add_check_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck check``."""
+    _common(s)
+    s.add_argument("--mu", default=None, help="nominal friction coefficient (spec key mu)")
+    s.add_argument("--mu-min", default=None, help="lowest friction coefficient (spec key mu_min)")
+    s.add_argument("--mu-max", default=None, help="highest friction coefficient (spec key mu_max)")
+    s.add_argument("--required-torque", default=None, help="duty torque, e.g. '450 N*m' (spec key required_torque)")
+    s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (spec key effort)")
+    s.add_argument(
         "--set",
         action="append",
         default=[],
         metavar="KEY=VALUE",
         help="any spec value, e.g. --set pin_shear_allow=50MPa --set pins.S1.pin_length=40mm (repeatable)",
     )
-    c.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
-    c.add_argument("--strict", action="store_true", help="warnings fail the gate too")
-    c.add_argument(
+    s.add_argument("--junit", default=None, metavar="FILE", help="also write JUnit XML, one test case per rule")
+    s.add_argument("--strict", action="store_true", help="warnings fail the gate too")
+    s.add_argument(
         "--record", default=None, metavar="OUT.html", help="also write the calculation record (HTML, self-contained)"
     )
-    c.add_argument(
+    s.add_argument(
         "--signoff",
         action="append",
         default=[],
@@ -221,118 +217,171 @@ def _parser() -> argparse.ArgumentParser:
         help="a sign-off field of the record: prepared_by, prepared_on, checked_by, checked_on, approved_by, "
         "approved_on (repeatable; left blank otherwise)",
     )
-    _shoe_options(c)
-    _annotate_shortcut(c)
+    _shoe_options(s)
+    _annotate_shortcut(s)
 
-    a = sub.add_parser("annotate", help="write a copy of the drawing with the force vectors on a new layer")
-    _common(a)
-    a.add_argument(
+
+def _add_annotate_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck annotate``."""
+    _common(s)
+    s.add_argument(
         "-o", "--output", default=None, metavar="OUT.dxf", help="marked-up copy (default DRAWING-forces.dxf)"
     )
-    a.add_argument("--svg", default=None, metavar="OUT.svg", help="also write a picture as SVG")
-    a.add_argument("--png", default=None, metavar="OUT.png", help="also write a picture as PNG (extra 'png')")
-    a.add_argument("--direction", choices=("cw", "ccw"), default=None, help="drum direction (default: the weaker)")
-    a.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
-    a.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
-    a.add_argument("--force", action="store_true", help="replace existing output files")
-    _shoe_options(a)
+    s.add_argument("--svg", default=None, metavar="OUT.svg", help="also write a picture as SVG")
+    s.add_argument("--png", default=None, metavar="OUT.png", help="also write a picture as PNG (extra 'png')")
+    s.add_argument("--direction", choices=("cw", "ccw"), default=None, help="drum direction (default: the weaker)")
+    s.add_argument("--mu", type=float, default=None, help="lining-drum friction coefficient (default 0.35)")
+    s.add_argument("--effort", default=None, help="magnitude of every load, e.g. '1.2kN' (default: the texts)")
+    s.add_argument("--force", action="store_true", help="replace existing output files")
+    _shoe_options(s)
 
-    k = sub.add_parser(
-        "skeleton", help="write the skeleton dxfcheck reads (inferred or from the layers) on the role layers"
-    )
-    _common(k)
-    k.add_argument(
+
+def _add_skeleton_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck skeleton``."""
+    _common(s)
+    s.add_argument(
         "-o", "--output", default=None, metavar="OUT.dxf", help="skeleton drawing (default DRAWING-skeleton.dxf)"
     )
-    k.add_argument("--over", action="store_true", help="write it over a faded copy of the drawing (default: alone)")
-    k.add_argument("--svg", default=None, metavar="OUT.svg", help="also draw the skeleton as SVG")
-    k.add_argument("--force", action="store_true", help="replace existing output files")
+    s.add_argument("--over", action="store_true", help="write it over a faded copy of the drawing (default: alone)")
+    s.add_argument("--svg", default=None, metavar="OUT.svg", help="also draw the skeleton as SVG")
+    s.add_argument("--force", action="store_true", help="replace existing output files")
 
-    m = sub.add_parser("compare", help="compare revisions of a drawing: what the change did to the loads")
-    m.add_argument("drawings", nargs="+", help="OLD.dxf NEW.dxf [MORE.dxf ...] or a folder (sorted by name)")
-    m.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
-    m.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS")
-    m.add_argument(
+
+def _add_compare_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck compare``."""
+    s.add_argument("drawings", nargs="+", help="OLD.dxf NEW.dxf [MORE.dxf ...] or a folder (sorted by name)")
+    s.add_argument("--config", default=None, help="project file (default: the nearest dxfcheck.toml)")
+    s.add_argument("--units", default=None, help="drawing unit, overriding $INSUNITS")
+    s.add_argument(
         "--max-torque-drop", default=None, metavar="PCT", help="fail when torque drops more (default 5%%; 'none': off)"
     )
-    m.add_argument(
+    s.add_argument(
         "--max-force-rise", default=None, metavar="PCT", help="fail when a force rises more (default 10%%; 'none': off)"
     )
-    m.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every revision")
-    m.add_argument("--annotate", default=None, metavar="OUT.dxf", help="mark moved pins and grown forces on NEW")
-    m.add_argument("--svg", default=None, metavar="OUT.svg", help="plot the trend across revisions")
-    m.add_argument("--force", action="store_true", help="replace existing output files")
-    m.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
-    m.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
-    m.add_argument("--timeout", type=_seconds, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
-    m.add_argument("--skeleton-from", choices=("auto", "layers", "geometry"), default=None, help="as for solve")
+    s.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every revision")
+    s.add_argument("--annotate", default=None, metavar="OUT.dxf", help="mark moved pins and grown forces on NEW")
+    s.add_argument("--svg", default=None, metavar="OUT.svg", help="plot the trend across revisions")
+    s.add_argument("--force", action="store_true", help="replace existing output files")
+    s.add_argument("--json", action="store_true", help="print one JSON document instead of tables")
+    s.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
+    s.add_argument("--timeout", type=_seconds, default=DEFAULT_TIMEOUT_S, metavar="S", help="give up after S seconds")
+    s.add_argument("--skeleton-from", choices=("auto", "layers", "geometry"), default=None, help="as for solve")
 
-    ln = sub.add_parser("linings", help="list the lining library (lining = NAME in the spec) with its sources")
-    ln.add_argument("--json", action="store_true", help="print one JSON document instead of a table")
-    ln.set_defaults(timeout=None)
 
-    b = sub.add_parser("batch", help="check every drawing in folders or globs, in parallel, with a cache")
-    b.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
-    b.add_argument(
+def _add_linings_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck linings``."""
+    s.add_argument("--json", action="store_true", help="print one JSON document instead of a table")
+    s.set_defaults(timeout=None)
+
+
+def _add_batch_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck batch``."""
+    s.add_argument("paths", nargs="+", help="drawings, folders (searched recursively) or glob patterns")
+    s.add_argument(
         "--jobs", type=int, default=None, help="worker processes (default: the CPU cores; at most 4 per core)"
     )
-    b.add_argument(
+    s.add_argument(
         "--timeout-each",
         type=float,
         default=None,
         metavar="S",
         help="time limit of each drawing; over it the drawing is stopped and reported 'timeout' (default 120)",
     )
-    b.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
-    b.add_argument("--units", default=None, help="drawing unit for every drawing, overriding $INSUNITS")
-    b.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
-    b.add_argument("--strict", action="store_true", help="warnings fail the batch too (exit 1)")
-    b.add_argument(
+    s.add_argument("--max-size", default=None, metavar="MB", help="refuse larger drawings (default 200 MB)")
+    s.add_argument("--units", default=None, help="drawing unit for every drawing, overriding $INSUNITS")
+    s.add_argument("--tolerance", default=None, help="'lies on' tolerance, e.g. '0.05mm' (default: scaled)")
+    s.add_argument("--strict", action="store_true", help="warnings fail the batch too (exit 1)")
+    s.add_argument(
         "--follow-symlinks", action="store_true", help="follow symbolic links that lead out of the folders given"
     )
-    b.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
-    b.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
-    b.add_argument(
+    s.add_argument("--config", default=None, help="project file for every drawing (default: each one's nearest)")
+    s.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    s.add_argument(
         "--skeleton-from",
         choices=("auto", "layers", "geometry"),
         default=None,
         help="as for solve, for every drawing (default: each one's [infer] skeleton_from)",
     )
-    b.add_argument(
+    s.add_argument(
         "--records",
         default=None,
         metavar="DIR",
         help="write the calculation record of each drawing into DIR, with an index page (index.html)",
     )
-    b.add_argument("--no-cache", action="store_true", help="check every drawing again")
-    b.add_argument("--cache-dir", default=None, help="cache folder (default ~/.cache/dxfcheck)")
-    b.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
-    b.add_argument("--csv", action="store_true", help="print the per-drawing results as CSV")
-    b.add_argument(
+    s.add_argument("--no-cache", action="store_true", help="check every drawing again")
+    s.add_argument("--cache-dir", default=None, help="cache folder (default ~/.cache/dxfcheck)")
+    s.add_argument("--json", action="store_true", help="print the per-drawing results as JSON")
+    s.add_argument("--csv", action="store_true", help="print the per-drawing results as CSV")
+    s.add_argument(
         "--timeout", type=_seconds, default=None, metavar="S", help="give up after S seconds (default: none)"
     )
-    b.add_argument(
+    s.add_argument(
         "--scheduler",
         default=None,
         metavar="ADDRESS",
         help="run on a Dask distributed cluster, e.g. tcp://10.0.0.5:8786 (extra 'cluster')",
     )
-    h = sub.add_parser(
-        "hook", help="for pre-commit: check each drawing named, or compare it with its committed revision"
-    )
-    h.add_argument("mode", choices=("check", "compare"), help="check: the release gate; compare: against --rev")
-    h.add_argument("drawings", nargs="+", help="the DXF files (pre-commit passes the changed ones)")
-    h.add_argument("--rev", default="HEAD", help="compare: the committed revision (default HEAD)")
-    h.add_argument("--config", default=None, help="project file (default: each drawing's nearest)")
-    h.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
-    h.add_argument("--strict", action="store_true", help="check: warnings fail too")
-    h.add_argument("--max-torque-drop", default=None, metavar="PCT", help="compare: as for compare")
-    h.add_argument("--max-force-rise", default=None, metavar="PCT", help="compare: as for compare")
-    h.set_defaults(timeout=None)
 
-    k = sub.add_parser("schema", help="print the JSON Schema of a --json document (without NAME: list the names)")
-    k.add_argument("name", nargs="?", default=None, help="solve, check, compare, batch, sensitivity or error")
-    k.set_defaults(timeout=None)
+
+def _add_hook_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck hook``."""
+    s.add_argument("mode", choices=("check", "compare"), help="check: the release gate; compare: against --rev")
+    s.add_argument("drawings", nargs="+", help="the DXF files (pre-commit passes the changed ones)")
+    s.add_argument("--rev", default="HEAD", help="compare: the committed revision (default HEAD)")
+    s.add_argument("--config", default=None, help="project file (default: each drawing's nearest)")
+    s.add_argument("--set", action="append", default=[], metavar="KEY=VALUE", help="spec value for every drawing")
+    s.add_argument("--strict", action="store_true", help="check: warnings fail too")
+    s.add_argument("--max-torque-drop", default=None, metavar="PCT", help="compare: as for compare")
+    s.add_argument("--max-force-rise", default=None, metavar="PCT", help="compare: as for compare")
+    s.set_defaults(timeout=None)
+
+
+def _add_schema_options(s: argparse.ArgumentParser) -> None:
+    """The options of ``dxfcheck schema``."""
+    s.add_argument("name", nargs="?", default=None, help="solve, check, compare, batch, sensitivity or error")
+    s.set_defaults(timeout=None)
+
+
+#: Each sub-command: its line in ``dxfcheck --help`` and the function that
+#: adds its options (only the chosen one's are added: a command line builds
+#: one sub-command's options, not all of them).
+_COMMANDS: dict[str, tuple[str, Callable[[argparse.ArgumentParser], None]]] = {
+    "solve": ("solve the pin forces, shoe forces and braking torque of a drawing", _add_solve_options),
+    "check": ("solve a drawing and judge it against the brake's spec (release gate)", _add_check_options),
+    "annotate": ("write a copy of the drawing with the force vectors on a new layer", _add_annotate_options),
+    "skeleton": (
+        "write the skeleton dxfcheck reads (inferred or from the layers) on the role layers",
+        _add_skeleton_options,
+    ),
+    "compare": ("compare revisions of a drawing: what the change did to the loads", _add_compare_options),
+    "linings": ("list the lining library (lining = NAME in the spec) with its sources", _add_linings_options),
+    "batch": ("check every drawing in folders or globs, in parallel, with a cache", _add_batch_options),
+    "hook": ("for pre-commit: check each drawing named, or compare it with its committed revision", _add_hook_options),
+    "schema": ("print the JSON Schema of a --json document (without NAME: list the names)", _add_schema_options),
+}
+
+
+def _chosen(argv: Sequence[str] | None) -> str | None:
+    """The sub-command named on the command line (the first word that is no
+    option: the top level has only ``--help`` and ``--version``), or None."""
+    words = sys.argv[1:] if argv is None else argv
+    return next((w for w in words if not w.startswith("-")), None)
+
+
+def _parser(argv: Sequence[str] | None = None) -> argparse.ArgumentParser:
+    """The command line's parser; with ``argv``, only the sub-command it
+    names gets its options (every one when it names none it knows)."""
+    from dxfcheck.core.version import __version__
+
+    p = _Parser(prog="dxfcheck", description="Check the statics of drum-brake linkages drawn in DXF (or DWG).")
+    p.add_argument("--version", action="version", version=f"dxfcheck {__version__}")
+    sub = p.add_subparsers(dest="command", required=True, parser_class=_Parser)
+    chosen = _chosen(argv)
+    everyone = chosen not in _COMMANDS
+    for name, (summary, add_options) in _COMMANDS.items():
+        s = sub.add_parser(name, help=summary)
+        if everyone or name == chosen:
+            add_options(s)
     return p
 
 
@@ -461,7 +510,7 @@ def _sensitivity(args: argparse.Namespace, mu_range: tuple[float, float]) -> int
 
 
 def _solve(args: argparse.Namespace) -> int:
-    from dxfcheck.output.json import solution_to_dict, write_json
+    from dxfcheck.output.solve_json import solution_to_dict, write_json
     from dxfcheck.pipeline import DEFAULT_MU, analyse
 
     mu_value, mu_range = _mu_arg(args.mu)
@@ -625,7 +674,7 @@ def _skeleton(args: argparse.Namespace) -> int:
     )
     written = write_skeleton(mech, out, config=cfg, over=args.over, svg=args.svg, force=args.force)
     if args.json:
-        from dxfcheck.output.json import skeleton_to_dict, write_json
+        from dxfcheck.output.solve_json import skeleton_to_dict, write_json
 
         write_json(skeleton_to_dict(mech, written))
     else:
@@ -880,7 +929,7 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
     """With ``--json``, a refusal still prints one JSON document on stdout."""
     if not getattr(args, "json", False) or args.command not in ("solve", "check", "compare"):
         return
-    from dxfcheck.output.json import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
+    from dxfcheck.output.solve_json import CHECK_SCHEMA, COMPARE_SCHEMA, SOLVE_SCHEMA, error_document
 
     schema = {"check": CHECK_SCHEMA, "compare": COMPARE_SCHEMA}.get(args.command, SOLVE_SCHEMA)
     drawing = str(args.drawing) if getattr(args, "drawing", None) else None
@@ -950,7 +999,7 @@ def _print_error(exc: DxfcheckError) -> None:
 
 
 def _main(argv: Sequence[str] | None) -> int:
-    args = _parser().parse_args(argv)
+    args = _parser(argv).parse_args(argv)
     _route_library_logs()
     commands = {
         "solve": _solve,

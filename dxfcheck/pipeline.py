@@ -12,7 +12,7 @@ from typing import TYPE_CHECKING, Any
 from dxfcheck.core.config import Config, config_for_drawing
 from dxfcheck.core.errors import ConfigError, MechanismError
 from dxfcheck.core.findings import Severity, has_errors
-from dxfcheck.infer import skeleton_drawing
+from dxfcheck.infer.choice import infers_skeleton
 from dxfcheck.mechanism import Mechanism, build_mechanism
 from dxfcheck.read.drawing import Drawing, read_drawing
 from dxfcheck.statics import Solution, solve, solve_for_torque
@@ -76,8 +76,12 @@ def read_skeleton(
 ) -> Drawing:
     """Read a drawing; its skeleton from the role layers, or inferred from
     the geometry when they hold none (``config.infer.skeleton_from``:
-    :func:`dxfcheck.infer.skeleton_drawing`)."""
+    :func:`dxfcheck.infer.skeleton.skeleton_drawing`, loaded only then)."""
     drawing = read_drawing(path, config, units=units, max_bytes=max_bytes)
+    if not infers_skeleton(drawing, config):
+        return drawing
+    from dxfcheck.infer.skeleton import skeleton_drawing
+
     return skeleton_drawing(drawing, config, max_bytes=max_bytes)
 
 

@@ -201,7 +201,21 @@ _LOADED = (
     "    runpy.run_module('dxfcheck', run_name='__main__', alter_sys=True)\n"
     "except SystemExit:\n"
     "    pass\n"
-    "sys.stderr.write(' '.join(sorted(m for m in ('ezdxf', 'rich', 'matplotlib', 'shapely') if m in sys.modules)))\n"
+    "heavy = ('ezdxf', 'rich', 'matplotlib', 'shapely', 'numpy.typing', *HEAVY_STAGES)\n"
+    "sys.stderr.write(' '.join(sorted(m for m in heavy if m in sys.modules)))\n"
+)
+#: The stages ``solve --json`` on a drawing drawn on the role layers never
+#: needs: the release gate, the revision comparison, the skeleton inference,
+#: the terminal tables, the release kinematics.
+HEAVY_STAGES = (
+    "dxfcheck.gate.rules",
+    "dxfcheck.gate.spec",
+    "dxfcheck.gate.linings",
+    "dxfcheck.revision.compare",
+    "dxfcheck.infer.skeleton",
+    "dxfcheck.output.json",
+    "dxfcheck.output.terminal",
+    "dxfcheck.statics.kinematics",
 )
 
 
@@ -209,9 +223,47 @@ _LOADED = (
 def test_solve_json_loads_neither_ezdxf_nor_rich(demo):
     """A small ASCII drawing is read by the fast reader and printed as JSON:
     neither the DXF library nor the terminal tables are loaded (the
-    project's own speed goal; no published source)."""
+    project's own speed goal; no published source), nor the stages that
+    solve does not print (:data:`HEAVY_STAGES`), nor numpy.typing (annotations only)."""
     r = subprocess.run(
-        [sys.executable, "-c", _LOADED, str(ROOT / "drawings" / demo)], capture_output=True, text=True, timeout=120
+        [sys.executable, "-c", f"HEAVY_STAGES = {HEAVY_STAGES!r}\n" + _LOADED, str(ROOT / "drawings" / demo)],
+        capture_output=True,
+        text=True,
+        timeout=120,
     )
     assert output_json(r.stdout)["drawing"].endswith(demo)
     assert r.stderr.strip() == ""
+
+
+def test_help_lists_every_subcommand():
+    """``dxfcheck --help`` names each sub-command with its line, although a
+    command line builds only its own sub-command's options."""
+    from dxfcheck.cli import _COMMANDS
+
+    r = run("--help")
+    assert r.returncode == 0, r.stderr
+    text = " ".join(r.stdout.split())
+    for name, (summary, _) in _COMMANDS.items():
+        assert name in text and " ".join(summary.split()) in text
+
+
+@pytest.mark.parametrize(
+    "command", ["solve", "check", "annotate", "skeleton", "compare", "linings", "batch", "hook", "schema"]
+)
+def test_subcommand_help_shows_its_options(command):
+    """Each sub-command's ``--help`` shows the options the full parser (every
+    sub-command built) gives it: building only the chosen one loses none."""
+    import argparse
+
+    from dxfcheck.cli import _parser
+
+    def options(parser: argparse.ArgumentParser) -> list[str]:
+        sub = next(a for a in parser._actions if isinstance(a, argparse._SubParsersAction))
+        return [o for a in sub.choices[command]._actions for o in a.option_strings or [a.dest]]
+
+    full, lazy = options(_parser([])), options(_parser([command, "--help"]))
+    assert lazy == full and "--help" in full
+    r = run(command, "--help")
+    assert r.returncode == 0, r.stderr
+    assert f"usage: dxfcheck {command}" in r.stdout
+    assert all(o in r.stdout for o in full if o.startswith("--"))

@@ -1,6 +1,7 @@
 """Infer the skeleton of a drafted drawing (no role layers) from its
-geometry: :func:`skeleton_drawing`."""
+geometry: :func:`dxfcheck.infer.skeleton.skeleton_drawing`;
+:func:`dxfcheck.infer.choice.infers_skeleton` says whether a drawing needs
+it.  The package itself imports nothing, so that a drawing on the role
+layers never loads the inference."""
 
-from dxfcheck.infer.skeleton import has_role_skeleton, skeleton_drawing
-
-__all__ = ["has_role_skeleton", "skeleton_drawing"]
+__all__: list[str] = []

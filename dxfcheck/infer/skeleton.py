@@ -13,29 +13,17 @@ from __future__ import annotations
 from dataclasses import replace
 from pathlib import Path
 
-from dxfcheck.core.config import SKELETON_SOURCES, Config, Role
-from dxfcheck.core.errors import ConfigError
+from dxfcheck.core.config import Config, Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.infer.blocks import infer_blocks
 from dxfcheck.infer.centrelines import Inferred, infer_centrelines, part_centre_lines, usable
+from dxfcheck.infer.choice import KEPT_ROLES, SKELETON_ROLES, has_role_skeleton, infers_skeleton
 from dxfcheck.infer.linework import Linework, read_linework
 from dxfcheck.infer.outlines import infer_outlines
 from dxfcheck.infer.roles import infer_finding
 from dxfcheck.read.drawing import Drawing, load_document
 
 __all__ = ["KEPT_ROLES", "SKELETON_ROLES", "has_role_skeleton", "infer_from_linework", "skeleton_drawing"]
-
-#: The roles inferred from the geometry.
-SKELETON_ROLES = frozenset({Role.PIVOT, Role.PIN, Role.LINK, Role.DRUM, Role.SHOE})
-#: The roles still read from their layers when the skeleton is inferred.
-KEPT_ROLES = frozenset(set(Role) - SKELETON_ROLES)
-
-
-def has_role_skeleton(drawing: Drawing) -> bool:
-    """Whether the role layers hold any of the skeleton (a pivot, pin,
-    drum, centreline or shoe arc)."""
-    roles = [c.role for c in drawing.circles] + [p.role for p in drawing.paths] + [a.role for a in drawing.arcs]
-    return any(r in SKELETON_ROLES for r in roles)
 
 
 def skeleton_drawing(
@@ -52,10 +40,7 @@ def skeleton_drawing(
     DrawingReadError
         When the file cannot be read again for its linework.
     """
-    mode = skeleton_from or config.infer.skeleton_from
-    if mode not in SKELETON_SOURCES:
-        raise ConfigError(f"--skeleton-from must be one of {', '.join(SKELETON_SOURCES)}, got {mode!r}")
-    if mode == "layers" or (mode == "auto" and has_role_skeleton(drawing)):
+    if not infers_skeleton(drawing, config, skeleton_from):
         return drawing
     doc, _ = load_document(Path(drawing.path), max_bytes=max_bytes)  # its repairs were reported by the first read
     kept = [name for role in KEPT_ROLES for name in config.layers.get(role, ())]

@@ -41,7 +41,7 @@ from dataclasses import dataclass
 from dxfcheck.core.config import CONFIG_NAME, DEFAULT_LAYERS, Role, table_name, toml_layers_line
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross, dist, point_segment_distance
-from dxfcheck.infer.skeleton import SKELETON_ROLES
+from dxfcheck.infer.choice import SKELETON_ROLES
 from dxfcheck.mechanism.model import Mechanism, Mounting
 from dxfcheck.mechanism.plausibility import PIN_TO_DRUM
 from dxfcheck.read.drawing import ROLE_KINDS, ArcGeom, Drawing, LooseCircle, PathGeom

@@ -44,6 +44,8 @@ __all__ = [
     "row_owners",
     "solve_system",
     "tight_at_end",
+    "with_band_columns",
+    "zero_rows",
 ]
 
 #: Default shoe theory: long-shoe theory above 60° of contact.
@@ -239,10 +241,29 @@ def assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direct
     findings = _shoe_columns(mech, a, cols, index, refs, bases)
     _band_columns(mech, a, cols, index, mu, direction)
     b = _applied(mech, len(rows), index, refs)
-    # drop identities 0 = 0 (a pivoted shoe's moment about its own pin)
+    return System(a, b, rows, cols, bases, zero_rows(a), findings)
+
+
+def zero_rows(a: NDArray[np.float64]) -> list[int]:
+    """The rows of ``a`` that are identities 0 = 0 (a pivoted shoe's moment
+    about its own pin): dropped from the solve."""
     scale = float(np.abs(a).max()) if a.size else 1.0
-    dropped = [i for i in range(len(rows)) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
-    return System(a, b, rows, cols, bases, dropped, findings)
+    return [i for i in range(a.shape[0]) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
+
+
+def with_band_columns(
+    sys_: System, mech: Mechanism, mu: float, direction: Direction, index: dict[RowOwner, int]
+) -> NDArray[np.float64]:
+    """``sys_``'s matrix with its band columns set as :func:`assemble` sets
+    them at ``mu`` (``index``: ``sys_.row_index``).  On a mechanism without
+    shoes they are the only entries that move with μ, so this is the matrix
+    :func:`assemble` makes at ``mu``, entry for entry, without assembling
+    the rest again."""
+    a = sys_.a.copy()
+    for j, _ in sys_.columns(ColumnKind.BAND):
+        a[:, j] = 0.0
+    _band_columns(mech, a, sys_.col_owner, index, mu, direction)
+    return a
 
 
 def row_owners(mech: Mechanism) -> list[RowOwner]:

@@ -50,9 +50,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.core.geometry import Point, dist
@@ -66,6 +66,9 @@ from dxfcheck.statics.equations import (
     contact_models,
     reference_points,
 )
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = [
     "BandTravel",

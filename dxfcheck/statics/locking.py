@@ -6,7 +6,7 @@ from __future__ import annotations
 
 import functools
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Sequence
 from typing import TYPE_CHECKING
 
 import numpy as np
@@ -15,7 +15,15 @@ from dxfcheck.core.directions import Direction
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.statics.contact import ContactModel, ContactOptions
 from dxfcheck.statics.diagnosis import MODE_SHARE
-from dxfcheck.statics.equations import DEFAULT_OPTIONS, ColumnKind, System, assemble, contact_models
+from dxfcheck.statics.equations import (
+    DEFAULT_OPTIONS,
+    ColumnKind,
+    System,
+    assemble,
+    contact_models,
+    with_band_columns,
+    zero_rows,
+)
 
 if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
     from numpy.typing import NDArray
@@ -64,14 +72,31 @@ def _square_det_sign(mech: Mechanism, models: dict[str, ContactModel], mu: float
     return _sign(_kept(mech, models, mu, direction)[1])
 
 
-def _det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: Direction) -> Callable[[float], float]:
-    """The determinant's sign as a function of μ.  With every lining in full
-    contact, each contact force is a normal part plus μ times a friction
-    part, so the kept equations are usually affine in μ, A(μ) = A0 + μ·A1:
-    checked at :data:`AFFINE_PROBES`, the sign then comes from A0 and A1
-    without assembling the equations again (one assembly instead of one per
-    step of the scan and the bisection); otherwise each μ is assembled."""
-    slow = functools.partial(_square_det_sign, mech, models, direction=direction)
+#: The determinant's sign at each of a sequence of friction coefficients.
+SignScan = Callable[[Sequence[float]], list[float]]
+
+
+def _signs(stack: NDArray[np.float64]) -> list[float]:
+    """The signs of a stack of square matrices' determinants (one LAPACK
+    factorisation each, as :func:`_sign` makes them, in one call)."""
+    signs, _ = np.linalg.slogdet(stack)
+    return [float(x) for x in signs]
+
+
+def _det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: Direction) -> SignScan:
+    """The determinant's sign as a function of μ (at each μ of a sequence).
+    With every lining in full contact, each contact force is a normal part
+    plus μ times a friction part, so the kept equations are usually affine
+    in μ, A(μ) = A0 + μ·A1: checked at :data:`AFFINE_PROBES`, the signs then
+    come from A0 and A1 without assembling the equations again (one
+    assembly instead of one per step of the scan and the bisection, and the
+    scan's determinants in one call).  A band's tight end grows as e^(μθ):
+    on a mechanism without shoes only the band columns move with μ, and
+    they alone are set again at each μ (:func:`_band_det_sign`); otherwise
+    each μ is assembled."""
+    if mech.bands and not mech.shoes:
+        return _band_det_sign(mech, models, direction)
+    slow = _assembled_scan(mech, models, direction)
     rows, a0 = _kept(mech, models, 0.0, direction)
     rows_1, at_1 = _kept(mech, models, 1.0, direction)
     if rows_1 != rows:
@@ -82,7 +107,31 @@ def _det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: Direc
         rows_mu, probe = _kept(mech, models, mu, direction)
         if rows_mu != rows or float(np.abs(probe - (a0 + mu * a1)).max(initial=0.0)) > AFFINE_RTOL * scale:
             return slow
-    return lambda mu: _sign(a0 + mu * a1)
+    if a0.shape[0] != a0.shape[1]:
+        return lambda mus: [math.nan for _ in mus]
+    # a0 + μ·a1 entry for entry as at one μ: the same products and sums
+    return lambda mus: _signs(a0 + np.asarray(mus, dtype=np.float64)[:, None, None] * a1)
+
+
+def _assembled_scan(mech: Mechanism, models: dict[str, ContactModel], direction: Direction) -> SignScan:
+    """The determinant's sign with the equations assembled at each μ (the
+    reference the faster scans are checked against)."""
+    return lambda mus: [_square_det_sign(mech, models, mu, direction) for mu in mus]
+
+
+def _band_det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: Direction) -> SignScan:
+    """The determinant's sign at each μ of a sequence for a mechanism with
+    bands and no shoes: the equations assembled once, their band columns
+    set again at each μ (the very entries :func:`assemble` makes there)."""
+    base = assemble(mech, models, 0.0, direction)
+    index = base.row_index
+
+    def sign(mu: float) -> float:
+        a = with_band_columns(base, mech, mu, direction, index)
+        dropped = zero_rows(a)
+        return _sign(a[[i for i in range(a.shape[0]) if i not in dropped]])
+
+    return lambda mus: [sign(mu) for mu in mus]
 
 
 @functools.lru_cache(maxsize=64)
@@ -103,9 +152,9 @@ def critical_mu(
     it is computed once per mechanism, direction and shoe model (cached).
     """
     models, _ = contact_models(mech, options)
-    det_sign = _det_sign(mech, models, direction)
+    det_signs = _det_sign(mech, models, direction)
     grid = [mu_max * k / MU_SCAN_STEPS for k in range(MU_SCAN_STEPS + 1)]
-    signs = [det_sign(mu) for mu in grid]
+    signs = det_signs(grid)
     if any(math.isnan(s) for s in signs):
         return None
     for k in range(MU_SCAN_STEPS):
@@ -116,7 +165,7 @@ def critical_mu(
             continue
         while hi - lo > MU_TOL:
             mid = 0.5 * (lo + hi)
-            sm = det_sign(mid)
+            (sm,) = det_signs([mid])
             if sm * slo > 0:
                 lo = mid
             else:

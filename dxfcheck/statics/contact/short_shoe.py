@@ -32,14 +32,17 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass, replace
+from typing import TYPE_CHECKING
 
 import numpy as np
-from numpy.typing import NDArray
 
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross
 from dxfcheck.mechanism import Drum, Mounting, Shoe
 from dxfcheck.statics.contact.base import ContactModelName, ContactWrench, Direction, WholeLining, surface_tangent
+
+if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
+    from numpy.typing import NDArray
 
 __all__ = ["ShortFixedShoe", "ShortPivotedShoe", "friction_circle_contact", "short_shoe_model"]
 
