@@ -227,28 +227,68 @@ def contact_models(
     return out, notes
 
 
+class _Frame(NamedTuple):
+    """What the equations take from the mechanism alone (not from μ, the
+    direction or the contact models): the rows, the reference points, the
+    pin and band columns, the pin columns' entries, the right-hand side."""
+
+    rows: list[RowOwner]
+    row_index: dict[RowOwner, int]
+    refs: dict[str, Point]
+    pin_cols: list[ColumnOwner]
+    band_cols: list[ColumnOwner]
+    pin_block: NDArray[np.float64]
+    b: NDArray[np.float64]
+
+
+#: The last mechanism's frame, by identity (the model is frozen): the solves
+#: of one drawing (each μ, each direction, the self-locking scan) assemble
+#: the same mechanism again and again.
+_LAST_FRAME: list[tuple[Mechanism, _Frame]] = []
+
+
+def _frame(mech: Mechanism) -> _Frame:
+    """The mechanism's frame, computed once per mechanism object."""
+    last = _LAST_FRAME[0] if _LAST_FRAME else None
+    if last is not None and last[0] is mech:
+        return last[1]
+    rows = row_owners(mech)
+    index = {o: i for i, o in enumerate(rows)}
+    refs = reference_points(mech)
+    pin_cols = [
+        ColumnOwner(ColumnKind.PIN, p.name, body, axis) for p in mech.pins for body in p.bodies for axis in Axis
+    ]
+    pin_block = np.zeros((len(rows), len(pin_cols)))
+    _pin_columns(mech, pin_block, pin_cols, index, refs)
+    band_cols = [ColumnOwner(ColumnKind.BAND, band.name) for band in mech.bands]
+    frame = _Frame(rows, index, refs, pin_cols, band_cols, pin_block, _applied(mech, len(rows), index, refs))
+    _LAST_FRAME[:] = [(mech, frame)]
+    return frame
+
+
 def assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direction: Direction) -> System:
     """The equilibrium equations of ``mech`` at friction coefficient ``mu``
     with the drum turning in ``direction``: the moment rows are divided by
     the mechanism's length scale so that every row is in newtons."""
-    rows = row_owners(mech)
+    fr = _frame(mech)
+    rows, index, refs = fr.rows, fr.row_index, fr.refs
     bases = {sh.name: models[sh.name].basis(mu, direction) for sh in mech.shoes}
-    cols = column_owners(mech, bases)
-    index = {o: i for i, o in enumerate(rows)}
-    refs = reference_points(mech)
+    shoe_cols = [ColumnOwner(ColumnKind.SHOE, s.name, basis=k) for s in mech.shoes for k in range(len(bases[s.name]))]
+    cols = fr.pin_cols + shoe_cols + fr.band_cols  # the order of column_owners
     a = np.zeros((len(rows), len(cols)))
-    _pin_columns(mech, a, cols, index, refs)
+    a[:, : len(fr.pin_cols)] = fr.pin_block
     findings = _shoe_columns(mech, a, cols, index, refs, bases)
     _band_columns(mech, a, cols, index, mu, direction)
-    b = _applied(mech, len(rows), index, refs)
-    return System(a, b, rows, cols, bases, zero_rows(a), findings)
+    b = fr.b.copy()
+    return System(a, b, list(rows), cols, bases, zero_rows(a), findings)
 
 
 def zero_rows(a: NDArray[np.float64]) -> list[int]:
     """The rows of ``a`` that are identities 0 = 0 (a pivoted shoe's moment
     about its own pin): dropped from the solve."""
     scale = float(np.abs(a).max()) if a.size else 1.0
-    return [i for i in range(a.shape[0]) if float(np.abs(a[i]).max(initial=0.0)) <= ZERO_ROW_RTOL * scale]
+    row_max = np.abs(a).max(axis=1, initial=0.0)
+    return [int(i) for i in np.flatnonzero(row_max <= ZERO_ROW_RTOL * scale)]
 
 
 def with_band_columns(
@@ -293,6 +333,7 @@ def _pin_columns(
     """Each pin force: on the pin (its own force balance) and on the body
     (force and moment balance about the body's reference point)."""
     L = mech.length_scale_mm
+    centers = {p.name: p.center for p in mech.pins}
     for c, o in enumerate(cols):
         if o.kind is not ColumnKind.PIN:
             continue
@@ -300,7 +341,7 @@ def _pin_columns(
         a[index[RowOwner(RowKind.PIN, o.name, bal)], c] = 1.0
         if o.body == FRAME:
             continue
-        px, py = mech.pin(o.name).center
+        px, py = centers[o.name]
         rx, ry = px - refs[o.body][0], py - refs[o.body][1]
         a[index[RowOwner(RowKind.BODY, o.body, bal)], c] = 1.0
         a[index[RowOwner(RowKind.BODY, o.body, Balance.MOMENT)], c] = -ry / L if o.axis is Axis.X else rx / L

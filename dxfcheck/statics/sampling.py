@@ -14,6 +14,17 @@ end, and a short pivoted shoe's contact point follows the friction-circle
 construction from its (moved) pin.  So the matrices are assembled once as
 parts and the samples are solved as stacked numpy systems, chunk by chunk.
 
+Only a few rows move with the samples (the moment rows of parts with a pin,
+the rows of shoes and band ends), so the solve is reduced to them: the fixed
+rows F are solved once, every solution as x = x_p + N·z (x_p a particular
+solution of F·x = b_F, N an orthonormal basis of F's null space, from one
+SVD), and each sample only solves the k × k system (A_R(s)·N)·z = b_R −
+A_R(s)·x_p of the k moving rows.  A_R(s) is linear in a handful of per-sample
+coefficients (1, μ, e^(μθ), the pin offsets, a pivoted shoe's contact
+column), so A_R(s)·N and A_R(s)·x_p are those coefficients times matrices
+worked out once.  It is the same linear system, solved exactly; the full
+stacked solve remains for a linkage where most rows move.
+
 Part reference points for the moment equations stay where the drawing puts
 them (equilibrium holds about any point).  Loads keep their points.  A long
 pivoted shoe must be in full contact at the nominal geometry (the patch
@@ -71,6 +82,12 @@ GOVERNING_PERCENTILE = 95.0
 CURVE_POINTS = 41
 #: N·mm per N·m.
 NMM_PER_NM = 1000.0
+#: The reduced system is solved when its moving rows are at most this share
+#: of the system's (a k × k batched solve costs about (k/n)² of the full one).
+REDUCED_SHARE = 0.75
+#: Smallest over largest singular value of the fixed rows below which they are
+#: taken as rank deficient (then the full stacked solve is used) [-].
+RANK_TOLERANCE = 1e-12
 
 
 class _Pivoted(NamedTuple):
@@ -80,6 +97,18 @@ class _Pivoted(NamedTuple):
     shoe: Shoe
     pin_center: Point
     body: str
+
+
+class _Reduced(NamedTuple):
+    """The samples' system reduced to its k moving rows R (see the module
+    docstring).  Q coefficients per sample, S = 1 + springs right-hand sides
+    (the springless one, then each spring's share)."""
+
+    null: NDArray[np.float64]  # n × k: orthonormal basis of the fixed rows' null space
+    x_part: NDArray[np.float64]  # S × n: particular solutions of the fixed rows
+    reduced: NDArray[np.float64]  # Q × k·k: each coefficient's share of A_R·N
+    moved: NDArray[np.float64]  # Q × S·k: each coefficient's share of A_R·x_p
+    b_rows: NDArray[np.float64]  # S × k: the right-hand sides of the moving rows
 
 
 class _PinTerm(NamedTuple):
@@ -208,7 +237,8 @@ class _Parts:
         self._rows = s0.row_index
 
     def prepare(self) -> None:
-        """Keep only the rows that are solved, and the columns that vary."""
+        """Keep only the rows that are solved, and the columns that vary;
+        reduce the system to its moving rows where that pays."""
         rows = {orig: new for new, orig in enumerate(self.keep)}
         self.fixed_k = np.ascontiguousarray(self.fixed[self.keep])
         self.mu_cols = [j for j in range(self.fixed.shape[1]) if np.any(self.mu_part[:, j])]
@@ -227,6 +257,62 @@ class _Parts:
             for pv in self.pivoted
         ]
         self._local = threading.local()  # one work buffer per thread
+        self.reduced = _reduce(self.fixed_k, self._coefficient_matrices(), self.b_bare, self.b_springs)
+
+    def _coefficient_matrices(self) -> NDArray[np.float64]:
+        """The system as Q matrices (Q × n × n), in the order of
+        :meth:`_coefficients`: A(s) = Σ_q c_q(s)·M_q."""
+        n = self.fixed_k.shape[0]
+        mats = [self.fixed_k]
+        mu = np.zeros((n, n))
+        for j in self.mu_cols:
+            mu[:, j] = self.mu_k[j]
+        mats.append(mu)
+        for j in self.exp_theta:
+            m = np.zeros((n, n))
+            m[:, j] = self.exp_k[j]
+            mats.append(m)
+        for k in range(len(self.mech.pins)):
+            dx, dy = np.zeros((n, n)), np.zeros((n, n))
+            for t in self.pin_terms_k:
+                if t.pin == k and t.axis is Axis.X:
+                    dy[t.row, t.column] -= 1.0 / self.L
+                elif t.pin == k:
+                    dx[t.row, t.column] += 1.0 / self.L
+            mats += [dx, dy]
+        for pv, _, *pv_rows in self.pivoted_k:
+            for r in pv_rows:
+                if r is not None:
+                    m = np.zeros((n, n))
+                    m[r, pv.column] = 1.0
+                    mats.append(m)
+        return np.array(mats)
+
+    def _coefficients(self, mu: NDArray[np.float64], dpin: NDArray[np.float64]) -> NDArray[np.float64]:
+        """Each sample's coefficients (samples × Q): 1, μ, e^(μθ) per band
+        column, each pin's offset (x, y) [mm], each pivoted shoe's contact
+        column entries."""
+        cols = [np.ones_like(mu), mu, *(np.exp(mu * theta) for theta in self.exp_theta.values())]
+        cols += [dpin[:, k, a] for k in range(len(self.mech.pins)) for a in (0, 1)]
+        for entries in self._pivoted_entries(mu, dpin):
+            cols += [v for _, _, v in entries]
+        return np.stack(cols, axis=1)
+
+    def _pivoted_entries(
+        self, mu: NDArray[np.float64], dpin: NDArray[np.float64]
+    ) -> list[list[tuple[int, int, NDArray[np.float64]]]]:
+        """Per pivoted shoe: its column's (row, column, values) in the Fx, Fy
+        and (when kept) moment rows of its part, per sample."""
+        assert self.mech.drum is not None
+        out = []
+        for pv, k, r0, r1, r2 in self.pivoted_k:
+            fx, fy, px_c, py_c = _pivoted_contact(pv, self.mech.drum, mu, dpin[:, k, :], self.direction)
+            entries = [(r0, pv.column, fx), (r1, pv.column, fy)]
+            if r2 is not None:
+                ref = self.mech.pins[k].center
+                entries.append((r2, pv.column, ((px_c - ref[0]) * fy - (py_c - ref[1]) * fx) / self.L))
+            out.append(entries)
+        return out
 
     def solve(
         self, mu: NDArray[np.float64], dpin: NDArray[np.float64], springs: NDArray[np.float64] | None = None
@@ -235,6 +321,36 @@ class _Parts:
         sample; ``springs`` (samples × springs) scales each spring's force."""
         if not hasattr(self, "fixed_k"):
             self.prepare()
+        if self.reduced is not None:
+            return self._results(mu, self.solve_reduced(mu, dpin, springs))
+        return self._results(mu, self.solve_full(mu, dpin, springs))
+
+    def solve_reduced(
+        self, mu: NDArray[np.float64], dpin: NDArray[np.float64], springs: NDArray[np.float64] | None = None
+    ) -> NDArray[np.float64]:
+        """Every sample's unknowns (samples × n) from its k × k reduced
+        system (needs :attr:`reduced`)."""
+        red = self.reduced
+        assert red is not None
+        n, k = mu.shape[0], red.null.shape[1]
+        c = self._coefficients(mu, dpin)
+        sig = np.ones((n, red.x_part.shape[0]))
+        if springs is not None:
+            sig[:, 1:] = springs
+        # numpy's own loops (einsum), not BLAS: a threaded BLAS spins on the
+        # chunks' small products, which already run one per core
+        m = np.einsum("nq,qm->nm", c, red.reduced).reshape(n, k, k)
+        moved = np.einsum("nq,qm->nm", c, red.moved).reshape(n, sig.shape[1], k)
+        rhs = np.einsum("ns,sk->nk", sig, red.b_rows) - np.einsum("ns,nsk->nk", sig, moved)
+        z = np.linalg.solve(m, rhs[..., None])[..., 0]
+        x: NDArray[np.float64] = np.einsum("ns,sc->nc", sig, red.x_part) + np.einsum("nk,ck->nc", z, red.null)
+        return x
+
+    def solve_full(
+        self, mu: NDArray[np.float64], dpin: NDArray[np.float64], springs: NDArray[np.float64] | None = None
+    ) -> NDArray[np.float64]:
+        """Every sample's unknowns (samples × n) from its whole system,
+        assembled and solved as a stack."""
         n = mu.shape[0]
         buf = getattr(self._local, "buf", None)
         if buf is None or buf.shape[0] < n:
@@ -250,26 +366,53 @@ class _Parts:
                 a[:, t.row, t.column] -= dpin[:, t.pin, 1] / self.L
             else:
                 a[:, t.row, t.column] += dpin[:, t.pin, 0] / self.L
-        pins = self.mech.pins
-        assert self.mech.drum is not None
-        for pv, k, r0, r1, r2 in self.pivoted_k:
-            fx, fy, px_c, py_c = _pivoted_contact(pv, self.mech.drum, mu, dpin[:, k, :], self.direction)
-            j = pv.column
-            a[:, r0, j] = fx
-            a[:, r1, j] = fy
-            if r2 is not None:
-                ref = pins[k].center
-                a[:, r2, j] = ((px_c - ref[0]) * fy - (py_c - ref[1]) * fx) / self.L
+        for entries in self._pivoted_entries(mu, dpin):
+            for r, j, v in entries:
+                a[:, r, j] = v
         if springs is None:
             b = np.broadcast_to(self.b, (n, self.b.shape[0]))
         else:
             b = self.b_bare[None, :] + springs @ self.b_springs
-        x = np.linalg.solve(a, b[..., None])[..., 0]
-        torque = x @ self.torque0 + (mu[:, None] * x) @ self.torque_mu
+        return np.asarray(np.linalg.solve(a, b[..., None])[..., 0])
+
+    def _results(
+        self, mu: NDArray[np.float64], x: NDArray[np.float64]
+    ) -> tuple[NDArray[np.float64], NDArray[np.float64]]:
+        """Torque [N·m] and every pin's force [N] from the unknowns."""
+        torque = np.einsum("nc,c->n", x, self.torque0) + mu * np.einsum("nc,c->n", x, self.torque_mu)
         for j, theta in self.exp_theta.items():
             torque += x[:, j] * np.exp(mu * theta) * self.torque_exp[j]
         forces = np.stack([np.hypot(x[:, c], x[:, c + 1]) for _, c in self.pin_cols], axis=1)
         return torque / NMM_PER_NM, forces
+
+
+def _reduce(
+    fixed: NDArray[np.float64], mats: NDArray[np.float64], b_bare: NDArray[np.float64], b_springs: NDArray[np.float64]
+) -> _Reduced | None:
+    """The reduced system of the moving rows (rows where a coefficient other
+    than the constant has an entry), or None where it does not pay or the
+    fixed rows are rank deficient."""
+    n = fixed.shape[0]
+    moving = np.any(mats[1:] != 0.0, axis=(0, 2))
+    r_rows, f_rows = np.flatnonzero(moving), np.flatnonzero(~moving)
+    k = r_rows.size
+    if k > REDUCED_SHARE * n or f_rows.size == 0:
+        return None
+    u, sv, vt = np.linalg.svd(fixed[f_rows])
+    if sv[-1] <= RANK_TOLERANCE * sv[0]:
+        return None
+    null = vt[f_rows.size :].T
+    b_all = np.vstack([b_bare[None, :], b_springs])
+    x_part = (vt[: f_rows.size].T @ ((u.T @ b_all[:, f_rows].T) / sv[:, None])).T
+    q = mats.shape[0]
+    on_rows = mats[:, r_rows, :]
+    return _Reduced(
+        null=null,
+        x_part=x_part,
+        reduced=(on_rows @ null).reshape(q, k * k),
+        moved=np.einsum("qrc,sc->qsr", on_rows, x_part).reshape(q, -1),
+        b_rows=b_all[:, r_rows],
+    )
 
 
 def _pivoted_contact(

@@ -215,10 +215,12 @@ def _with_warnings(mech: Mechanism, exc: SolveError) -> SolveError:
 
 
 def _solve_case(
-    mech: Mechanism, mu: float, direction: Direction, options: ContactOptions, locking: bool
+    mech: Mechanism, mu: float, direction: Direction, options: ContactOptions, locking: bool, *, strength: bool = True
 ) -> CaseSolution:
     """One drum direction: the checks that refuse a solve, the contact
-    settled, the residual, the results, and their verification."""
+    settled, the residual, the results, and their verification; with
+    ``strength`` False, without the parts' force diagrams and the drum's
+    shaft load (a solve whose torque alone is wanted)."""
     _refuse_bad_input(mech, mu)
     models, notes = contact_models(mech, options)
     sys_ = assemble(mech, models, mu, direction)
@@ -245,6 +247,8 @@ def _solve_case(
         findings.append(Finding(Code.RESIDUAL, f"{direction}: equilibrium residual {residual:.3g} is too large"))
     case = _results(mech, models, sys_, x, mu, direction, residual, cond, findings, options if locking else None)
     verify_case(mech, case)
+    if not strength:
+        return case
     return replace(case, parts=part_diagrams(mech, case), drum_load_N=drum_load(case))
 
 
@@ -329,10 +333,11 @@ def _shoe_result(
 def _line_load(ws: tuple[ContactWrench, ...], coeffs: list[float]) -> tuple[tuple[float, float], ...]:
     """The line load's samples ``(polar angle [degrees], q [N/mm])`` of
     ``Σ coeffs[i]·ws[i]``."""
-    return tuple(
-        (ws[0].line_load[k][0], sum(c * w.line_load[k][1] for c, w in zip(coeffs, ws, strict=True)))
-        for k in range(len(ws[0].line_load))
-    )
+    angles = [deg for deg, _ in ws[0].line_load]
+    q = [0.0] * len(angles)  # summed in the wrenches' order: the same floats as sum(c·q) per sample
+    for c, w in zip(coeffs, ws, strict=True):
+        q = [acc + c * qk for acc, (_, qk) in zip(q, w.line_load, strict=True)]
+    return tuple(zip(angles, q, strict=True))
 
 
 def _foot_of_line(center: Point, force: Point, moment: float, fallback: Point) -> Point:
@@ -600,7 +605,8 @@ def _beside_short(mech: Mechanism, case: CaseSolution, options: ContactOptions) 
         return case
     short = ContactOptions(ShoeModelChoice.SHORT, options.long_threshold_deg)
     try:
-        other = solve_case(mech, case.mu, case.direction, short, locking=False)
+        # only its torque is kept: no force diagrams (a fifth of a solve)
+        other = _solve_case(mech, case.mu, Direction(case.direction), short, False, strength=False)
     except SolveError:
         return case
     return replace(case, short_shoe_torque_Nm=other.torque_Nm)
