@@ -17,17 +17,46 @@ def output_json():
     return output_json
 
 
+#: Counts gathered from the xdist workers (``-n auto``), merged by name.
+_FROM_WORKERS: dict[str, dict[str, int]] = {"tried": {}, "validated": {}}
+
+
+def _counts() -> dict[str, dict[str, int]]:
+    """What this process counted: the bad drawings tried, the JSON
+    documents validated against their schemas."""
+    tried = getattr(sys.modules.get("test_bad_drawings"), "TRIED", None) or {}
+    validated = getattr(sys.modules.get("schema_check"), "VALIDATED", None) or {}
+    return {"tried": {str(k): int(v) for k, v in tried.items()}, "validated": dict(validated)}
+
+
+def pytest_sessionfinish(session):
+    """A worker hands its counts to the controller."""
+    out = getattr(session.config, "workeroutput", None)
+    if out is not None:
+        out["dxfcheck_counts"] = _counts()
+
+
+def pytest_testnodedown(node, error):
+    """The controller adds up each worker's counts."""
+    counts = getattr(node, "workeroutput", {}).get("dxfcheck_counts", {})
+    for kind, table in counts.items():
+        merged = _FROM_WORKERS.setdefault(kind, {})
+        for key, n in table.items():
+            merged[key] = merged.get(key, 0) + n
+
+
 def pytest_terminal_summary(terminalreporter):
     """Report what the bad-drawing tests tried and the JSON documents
-    validated against their schemas."""
-    mod = sys.modules.get("test_bad_drawings")
-    tried = getattr(mod, "TRIED", None)
-    if tried:
-        terminalreporter.write_sep("-", "bad drawings tried")
-        for key in sorted(tried):
-            terminalreporter.write_line(f"{key}: {tried[key]}")
-    validated = getattr(sys.modules.get("schema_check"), "VALIDATED", None)
-    if validated:
-        terminalreporter.write_sep("-", "JSON documents validated against their schemas")
-        for key in sorted(validated):
-            terminalreporter.write_line(f"{key}: {validated[key]}")
+    validated against their schemas (in this process and in the workers)."""
+    mine = _counts()
+    for kind, title in (
+        ("tried", "bad drawings tried"),
+        ("validated", "JSON documents validated against their schemas"),
+    ):
+        table = dict(_FROM_WORKERS.get(kind, {}))
+        for key, n in mine[kind].items():
+            table[key] = table.get(key, 0) + n
+        if table:
+            terminalreporter.write_sep("-", title)
+            for key in sorted(table):
+                terminalreporter.write_line(f"{key}: {table[key]}")
