@@ -66,7 +66,8 @@ def on_cluster(folder: Path) -> tuple[float, dict[str, str]]:
     from dask.distributed import LocalCluster
 
     os.environ["PYTHONPATH"] = str(ROOT)  # the workers import this worktree's dxfcheck
-    with LocalCluster(n_workers=2, threads_per_worker=1, processes=True, dashboard_address=None) as cluster:
+    cluster = LocalCluster(n_workers=2, threads_per_worker=1, processes=True, dashboard_address=None)  # type: ignore[no-untyped-call]
+    with cluster:
         return run(folder, "--no-cache", "--scheduler", cluster.scheduler_address)
 
 
