@@ -9,13 +9,55 @@ from __future__ import annotations
 import math
 
 import pytest
-from common import pivoted_long_shoes
+from common import block_brake, pivoted_long_shoes
 
 import dxfcheck
 from dxfcheck.core.directions import Direction
+from dxfcheck.pipeline import check
 from dxfcheck.statics.contact.long_shoe import pivot_distance
 
-__all__ = ["check_symmetric_pivoted_shoe", "hinged_shoe_closed_form", "simple_band_effort", "symmetric_normal_N"]
+__all__ = [
+    "BLOCK_A",
+    "BLOCK_CONTACT_DEG",
+    "BLOCK_L",
+    "BLOCK_MU",
+    "BLOCK_P",
+    "BLOCK_R",
+    "BLOCK_X",
+    "block_lever_N",
+    "check_symmetric_pivoted_shoe",
+    "hinged_shoe_closed_form",
+    "run_rules",
+    "save_block_brake",
+    "simple_band_effort",
+    "symmetric_normal_N",
+]
+
+#: The gate tests' block brake: block_brake(r=200, l=500, x=200, a=50),
+#: P = 1000 N, μ = 0.35, a 20° block [mm, N, -, degrees].
+BLOCK_R, BLOCK_L, BLOCK_X, BLOCK_A, BLOCK_P, BLOCK_MU = 200.0, 500.0, 200.0, 50.0, 1000.0, 0.35
+BLOCK_CONTACT_DEG = 20.0
+
+
+def block_lever_N(mu: float, energising: bool) -> float:
+    """P·l = N(x ∓ μa) (Khurmi & Gupta, *Theory of Machines*, brakes; from memory)."""
+    return BLOCK_P * BLOCK_L / (BLOCK_X - mu * BLOCK_A if energising else BLOCK_X + mu * BLOCK_A)
+
+
+def save_block_brake(path):
+    """The gate tests' block brake drawn at ``path``."""
+    block_brake(r=BLOCK_R, l=BLOCK_L, x=BLOCK_X, a=BLOCK_A, effort=f"{BLOCK_P} N", contact_deg=BLOCK_CONTACT_DEG).save(
+        path
+    )
+    return path
+
+
+def run_rules(path, **spec):
+    """The judgement of ``path`` with ``spec`` given as command-line texts,
+    and its rules by name."""
+    overrides = [(k, str(v)) for k, v in spec.items()]
+    j = check(path, overrides=overrides)
+    return {r.rule: r for r in j.rules}, j
 
 
 def simple_band_effort(t1, mu, wrap_deg, r, anchor_run, arm):

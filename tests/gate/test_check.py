@@ -11,21 +11,31 @@ import xml.etree.ElementTree as ET
 
 import pytest
 from common import block_brake, push_rod_block
+from handcalc import (
+    BLOCK_A,
+    BLOCK_CONTACT_DEG,
+    BLOCK_L,
+    BLOCK_MU,
+    BLOCK_P,
+    BLOCK_R,
+    BLOCK_X,
+    block_lever_N,
+    run_rules,
+    save_block_brake,
+)
 from schema_check import output_json
 
 import dxfcheck
 from dxfcheck.gate.rules import Verdict
 from dxfcheck.pipeline import check
 
-# The test brake: block_brake(r=200, l=500, x=200, a=50), P = 1000 N.
-R, L, X, A, P, MU = 200.0, 500.0, 200.0, 50.0, 1000.0, 0.35
+# The test brake (handcalc.save_block_brake): r=200, l=500, x=200, a=50, P = 1000 N.
+R, L, X, A, P, MU = BLOCK_R, BLOCK_L, BLOCK_X, BLOCK_A, BLOCK_P, BLOCK_MU
 PIVOT_D = 20.0
-CONTACT_DEG = 20.0
+CONTACT_DEG = BLOCK_CONTACT_DEG
 
 
-def lever_N(mu: float, energising: bool) -> float:
-    """P·l = N(x ∓ μa) (Khurmi & Gupta, *Theory of Machines*, brakes; from memory)."""
-    return P * L / (X - mu * A if energising else X + mu * A)
+lever_N = block_lever_N  # P·l = N(x ∓ μa) (Khurmi & Gupta, *Theory of Machines*, brakes; from memory)
 
 
 def pivot_force(mu: float, energising: bool) -> float:
@@ -37,15 +47,7 @@ def pivot_force(mu: float, energising: bool) -> float:
 
 @pytest.fixture
 def brake(tmp_path):
-    path = tmp_path / "block.dxf"
-    block_brake(r=R, l=L, x=X, a=A, effort=f"{P} N", contact_deg=CONTACT_DEG).save(path)
-    return path
-
-
-def run_rules(path, **spec):
-    overrides = [(k, str(v)) for k, v in spec.items()]
-    j = check(path, overrides=overrides)
-    return {r.rule: r for r in j.rules}, j
+    return save_block_brake(tmp_path / "block.dxf")
 
 
 def verdict_at(path, rule, key, limit_value, unit, **spec):

@@ -22,32 +22,32 @@ the counter-clockwise one passes.
 from __future__ import annotations
 
 import pytest
-from common import block_brake
+from handcalc import (
+    BLOCK_A,
+    BLOCK_CONTACT_DEG,
+    BLOCK_L,
+    BLOCK_MU,
+    BLOCK_P,
+    BLOCK_R,
+    BLOCK_X,
+    block_lever_N,
+    run_rules,
+    save_block_brake,
+)
 
 from dxfcheck.gate.rules import Verdict, hoist_factor
-from dxfcheck.pipeline import check
 
-# The test brake: block_brake(r=200, l=500, x=200, a=50), P = 1000 N.
-R, L, X, A, P, MU = 200.0, 500.0, 200.0, 50.0, 1000.0, 0.35
-CONTACT_DEG = 20.0
+# The test brake (handcalc.save_block_brake): r=200, l=500, x=200, a=50, P = 1000 N.
+R, L, X, A, P, MU = BLOCK_R, BLOCK_L, BLOCK_X, BLOCK_A, BLOCK_P, BLOCK_MU
+CONTACT_DEG = BLOCK_CONTACT_DEG
 
 
-def lever_N(mu: float, energising: bool) -> float:
-    """P·l = N(x ∓ μa) (Khurmi & Gupta, *Theory of Machines*, brakes; from memory)."""
-    return P * L / (X - mu * A if energising else X + mu * A)
+lever_N = block_lever_N  # P·l = N(x ∓ μa) (Khurmi & Gupta, *Theory of Machines*, brakes; from memory)
 
 
 @pytest.fixture
 def brake(tmp_path):
-    path = tmp_path / "block.dxf"
-    block_brake(r=R, l=L, x=X, a=A, effort=f"{P} N", contact_deg=CONTACT_DEG).save(path)
-    return path
-
-
-def run_rules(path, **spec):
-    overrides = [(k, str(v)) for k, v in spec.items()]
-    j = check(path, overrides=overrides)
-    return {r.rule: r for r in j.rules}, j
+    return save_block_brake(tmp_path / "block.dxf")
 
 
 @pytest.mark.parametrize(
