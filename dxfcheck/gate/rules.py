@@ -608,27 +608,42 @@ def _asymmetry(spec: Spec, nominal: Solution) -> list[RuleResult]:
     ]
 
 
+def _stays_positive(
+    rule: str, title: str, value_N: float, case: CaseSolution, symbol: str, source: str, if_not: str
+) -> RuleResult:
+    """A force that can only push or only pull [N]: its least value over
+    every case (``case``: where it is least) must stay above zero."""
+    return RuleResult(
+        rule,
+        title,
+        Verdict.PASS if value_N > 0 else Verdict.FAIL,
+        value_N,
+        0.0,
+        "N",
+        None,
+        {"case": _where(case)},
+        source,
+        "" if value_N > 0 else if_not,
+        f"{symbol} > 0 in every case",
+        f"least {symbol} = {_g(value_N)} N ({_where(case)}); needs > 0",
+    )
+
+
 def _shoe_contact(mech: Mechanism, solutions: dict[float, Solution]) -> list[RuleResult]:
+    """Each shoe presses on the drum in every case: its least normal force is positive."""
+    cases = [c for sol in solutions.values() for c in sol.cases]
     out = []
     for s in mech.shoes:
-        cases = [c for sol in solutions.values() for c in sol.cases]
         worst = min(cases, key=lambda c: c.shoe(s.name).normal_N)
-        n = worst.shoe(s.name).normal_N
-        verdict = Verdict.PASS if n > 0 else Verdict.FAIL
         out.append(
-            RuleResult(
+            _stays_positive(
                 f"shoe.contact.{s.name}",
                 f"shoe {s.name} presses on the drum",
-                verdict,
-                n,
-                0.0,
+                worst.shoe(s.name).normal_N,
+                worst,
                 "N",
-                None,
-                {"case": _where(worst)},
                 "normal force must be positive (a shoe cannot pull on the drum)",
-                "" if n > 0 else "the shoe lifts off or the brake self-locks in this case",
-                "N > 0 in every case",
-                f"least N = {_g(n)} N ({_where(worst)}); needs > 0",
+                "the shoe lifts off or the brake self-locks in this case",
             )
         )
     return out
@@ -720,20 +735,14 @@ def _band_taut(band: Band, every: list[CaseSolution]) -> RuleResult:
     Source: a band can only pull (common practice).
     """
     worst = min(every, key=lambda c: _band_result(c, band.name).slack_N)
-    slack = _band_result(worst, band.name).slack_N
-    return RuleResult(
+    return _stays_positive(
         f"band.taut.{band.name}",
         f"band {band.name} stays taut",
-        Verdict.PASS if slack > 0 else Verdict.FAIL,
-        slack,
-        0.0,
-        "N",
-        None,
-        {"case": _where(worst)},
+        _band_result(worst, band.name).slack_N,
+        worst,
+        "T2",
         "a band can only pull: slack-side tension must be positive",
-        "" if slack > 0 else "the band goes slack or the brake self-locks in this case",
-        "T2 > 0 in every case",
-        f"least T2 = {_g(slack)} N ({_where(worst)}); needs > 0",
+        "the band goes slack or the brake self-locks in this case",
     )
 
 
