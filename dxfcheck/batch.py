@@ -48,6 +48,8 @@ from dataclasses import asdict, dataclass, field, replace
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from dxfcheck.core.records import record
+
 if TYPE_CHECKING:
     from multiprocessing.connection import Connection
     from multiprocessing.process import BaseProcess
@@ -106,7 +108,7 @@ _KEY_BYTES = 32
 _TEST_SLOW_ENV = "DXFCHECK_TEST_SLOW"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class CheckOptions:
     """Everything besides the drawing that goes into its check (and so into
     its cache key).
@@ -141,7 +143,7 @@ class CheckOptions:
     skeleton_from: str | None = None
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class DrawingResult:
     """The outcome for one drawing.
 
@@ -171,7 +173,7 @@ class DrawingResult:
     cached: bool = False
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Skipped:
     """A path a batch did not check, and why (it was never opened)."""
 
@@ -179,7 +181,7 @@ class Skipped:
     reason: str
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Found:
     """What discovery found: drawings to check, and paths skipped."""
 

@@ -16,6 +16,7 @@ import argparse
 import itertools
 import json
 import logging
+import os
 import sys
 from collections.abc import Callable, Sequence
 from dataclasses import replace
@@ -936,14 +937,36 @@ def _json_error(args: argparse.Namespace, exc: DxfcheckError, *, internal: bool 
     print(json.dumps(error_document(exc, schema, drawing, internal=internal), indent=2, allow_nan=False))
 
 
+#: The BLAS libraries numpy's wheels and distributions link, and the
+#: variable each reads its thread count from when it is loaded.
+BLAS_THREAD_VARIABLES = ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS")
+
+
+def _one_blas_thread() -> None:
+    """Let numpy's BLAS run on one thread in this process and the workers it starts.
+
+    dxfcheck's matrices have tens of rows: a BLAS thread pool only costs
+    (starting it is a third of numpy's import in CPU time, and ``batch
+    --jobs N`` would start N pools on N cores).  A value the user set is
+    kept; once numpy is loaded, nothing is changed."""
+    if "numpy" in sys.modules:
+        return
+    for name in BLAS_THREAD_VARIABLES:
+        os.environ.setdefault(name, "1")
+
+
 def main(argv: Sequence[str] | None = None) -> int:
     """Run the command line; returns the exit code.
+
+    numpy's BLAS runs on one thread unless the user says otherwise
+    (:func:`_one_blas_thread`).
 
     Standard output and error are guarded (:func:`dxfcheck.core.files.guarded_streams`):
     symbols their encoding cannot show are written as ASCII stand-ins; a
     closed pipe (``| head -1``) ends the output quietly and the run still
     returns its own exit code; a write that fails otherwise (a full disk, a
     closed descriptor) is exit 2 with a line naming the stream."""
+    _one_blas_thread()
     from dxfcheck.core.files import guarded_streams
 
     with guarded_streams() as stdout:

@@ -35,11 +35,12 @@ import os
 import stat
 import tomllib
 from collections.abc import Sequence
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from pathlib import Path
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError
+from dxfcheck.core.records import record
 
 __all__ = [
     "CONFIG_NAME",
@@ -99,7 +100,7 @@ DEFAULT_FRAME_LAYERS = ("FRAME",)
 _INFER_LISTS = ("frame_layers", "frame_blocks", "centre_layers", "outline_layers", "ignore_layers")
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class InferSettings:
     """The ``[infer]`` table: how a skeleton is inferred from a drafted
     drawing (see :mod:`dxfcheck.infer`).
@@ -132,7 +133,7 @@ DEFAULT_NOTE_LAYER = "DXFCHECK_NOTES"
 _MARKUP_KEYS = {"force_layer", "note_layer"}
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Config:
     """Settings read from a project file (or the defaults).
 

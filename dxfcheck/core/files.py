@@ -32,11 +32,11 @@ import stat
 import sys
 import threading
 from collections.abc import Iterable, Iterator
-from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError, OutputError
+from dxfcheck.core.records import record
 from dxfcheck.core.textsafe import degrade_stream
 
 __all__ = [
@@ -75,7 +75,7 @@ _BINARY_SENTINEL = b"AutoCAD Binary DXF"
 _CLEANUP_SIGNALS = ("SIGTERM", "SIGHUP")
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Target:
     """One output of a command.
 

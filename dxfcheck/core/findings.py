@@ -13,7 +13,9 @@ README; its number tells the stage that reports it:
 from __future__ import annotations
 
 import enum
-from dataclasses import dataclass, field
+from dataclasses import field
+
+from dxfcheck.core.records import record
 
 __all__ = ["Code", "Finding", "Severity", "has_errors"]
 
@@ -118,7 +120,7 @@ class Code(enum.Enum):
         return self.value[2]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Finding:
     """One problem found in a drawing.
 

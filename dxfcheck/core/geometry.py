@@ -8,7 +8,8 @@ mirrored and non-uniformly scaled block references compose exactly.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+
+from dxfcheck.core.records import record
 
 __all__ = [
     "Affine",
@@ -24,7 +25,7 @@ __all__ = [
 Point = tuple[float, float]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Affine:
     """The plane map ``(x, y) -> (a·x + b·y + c, d·x + e·y + f)``."""
 

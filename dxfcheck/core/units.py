@@ -36,8 +36,9 @@ from __future__ import annotations
 import functools
 import math
 import re
-from dataclasses import dataclass
 from typing import Any
+
+from dxfcheck.core.records import record
 
 __all__ = [
     "FORCE_N",
@@ -347,7 +348,7 @@ class AmbiguousTextError(UnitError):
     decimal or a thousands mark), or a text holding more than one value."""
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Quantity:
     """A value converted to dxfcheck's internal unit of its dimension.
 

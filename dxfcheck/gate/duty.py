@@ -39,10 +39,10 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError
+from dxfcheck.core.records import record
 from dxfcheck.gate import heat
 from dxfcheck.gate.spec import Spec, SpecValue
 from dxfcheck.gate.verdicts import RuleResult, Verdict, incomplete, missing, skip
@@ -110,7 +110,7 @@ SRC_STEADY = (
 STOP_AGREEMENT_REL = 0.01
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Stop:
     """One stop of the duty as the spec describes it.
 

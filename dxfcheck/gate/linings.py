@@ -19,9 +19,10 @@ References
 from __future__ import annotations
 
 import tomllib
-from dataclasses import dataclass
 from importlib import resources
 from typing import Any
+
+from dxfcheck.core.records import record
 
 __all__ = ["LININGS", "LINING_FILE", "MU_SPREAD", "Lining", "LiningValue", "lining_values", "load_linings"]
 
@@ -33,7 +34,7 @@ LINING_FILE = "linings.toml"
 MU_SPREAD = 0.15
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Lining:
     """One lining material (one row of the library).
 
@@ -80,7 +81,7 @@ class Lining:
         return self.mu * (1.0 + MU_SPREAD)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class LiningValue:
     """A spec value a lining gives: key, value [internal unit], unit, the
     text shown, and its source."""

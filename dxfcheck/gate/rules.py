@@ -30,11 +30,12 @@ from __future__ import annotations
 import difflib
 import math
 from collections.abc import Iterable
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code, Finding, Severity
+from dxfcheck.core.records import record
 from dxfcheck.core.units import length_unit_factor
 from dxfcheck.gate.duty import SRC_STOP, heat_rules, rubbing_speed, stop_of
 from dxfcheck.gate.spec import Spec, SpecValue
@@ -58,7 +59,7 @@ from dxfcheck.statics.contact import DEFAULT_MU, LONG_SHOE_THRESHOLD_DEG, Contac
 __all__ = ["Duty", "Judgement", "RuleResult", "Verdict", "check_subjects", "duties", "hoist_factor", "judge"]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Judgement:
     """The release gate's result for one drawing."""
 
@@ -345,7 +346,7 @@ def _hygiene(findings: list[Finding]) -> list[RuleResult]:
     ]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Duty:
     """One braking-torque duty the spec sets.
 

@@ -37,6 +37,7 @@ from typing import Any
 
 from dxfcheck.core.config import read_toml, sidecar_of, table_name
 from dxfcheck.core.errors import ConfigError
+from dxfcheck.core.records import record
 from dxfcheck.core.units import DIMENSIONS, Quantity, UnitError, parse_quantity
 from dxfcheck.gate.linings import LININGS, lining_values
 
@@ -114,7 +115,7 @@ class Kind(enum.Enum):
     NAME = "name"  # the name of something in the drawing (a load, a spring)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Key:
     """A spec key: how it is written and what it means."""
 
@@ -290,7 +291,7 @@ DEFAULTS: dict[str, tuple[Any, str]] = {
 _SUBTABLES = ("pins", "members", "parts")
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class SpecValue:
     """One spec value in dxfcheck's internal unit of its dimension.
 
@@ -321,7 +322,7 @@ class SpecValue:
         return self.source.endswith(")") and LINING_MARK in self.source
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Spec:
     """The merged spec of one drawing."""
 

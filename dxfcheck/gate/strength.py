@@ -28,12 +28,13 @@ from __future__ import annotations
 
 import difflib
 import math
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Code
 from dxfcheck.core.geometry import dist
+from dxfcheck.core.records import record
 from dxfcheck.gate.rules import Judgement
 from dxfcheck.gate.spec import Spec
 from dxfcheck.gate.verdicts import RuleResult
@@ -58,7 +59,7 @@ SRC_HOLE = (
 SRC_SHAFT = "resultant of every force the shoes and bands put on the drum (its shaft's load)"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Section:
     """A part's cross-section: area ``area_mm2`` [mm²] (None: unknown, the
     axial stress is left out), section modulus ``modulus_mm3`` [mm³], and

@@ -7,9 +7,10 @@ from __future__ import annotations
 import enum
 import math
 from collections.abc import Iterable
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import Any
 
+from dxfcheck.core.records import record
 from dxfcheck.gate.spec import Spec
 
 __all__ = [
@@ -49,7 +50,7 @@ class Verdict(enum.StrEnum):
     SKIP = "skip"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class RuleResult:
     """One rule's verdict.
 

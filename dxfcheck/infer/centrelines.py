@@ -15,12 +15,12 @@ end reaches is no pin (M234).
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import dataclass
 from typing import Any
 
 from dxfcheck.core.config import InferSettings, Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, dist
+from dxfcheck.core.records import record
 from dxfcheck.infer.linework import Ink, Linework, RawCircle, RawPath
 from dxfcheck.infer.roles import (
     BOSS_RATIO,
@@ -78,7 +78,7 @@ def usable(lw: Linework, settings: InferSettings) -> Linework:
     )
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Inferred:
     """A skeleton inferred from linework, in the role reader's terms."""
 

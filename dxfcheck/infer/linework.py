@@ -22,6 +22,7 @@ from typing import Any
 from dxfcheck.core import deadline
 from dxfcheck.core.errors import DrawingReadError
 from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.core.records import record
 from dxfcheck.read.drawing import (
     MAX_BLOCK_DEPTH,
     MAX_BLOCK_VISITS,
@@ -40,7 +41,7 @@ __all__ = ["ARC_CHORD_DEG", "Ink", "Linework", "RawArc", "RawCircle", "RawPath",
 ARC_CHORD_DEG = 5.0
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Ink:
     """How a piece of linework was drawn: its effective ``layer`` and
     ``linetype`` (upper case), the ``block`` it was drawn in (None: model
@@ -59,7 +60,7 @@ class Ink:
         return "/".join(self.source.via)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class RawCircle:
     """A circle: ``center`` [mm], ``radius_mm``."""
 
@@ -72,7 +73,7 @@ class RawCircle:
         return self.ink.source.ref
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class RawArc:
     """An arc counter-clockwise from ``start_deg`` to ``end_deg`` [degrees,
     world frame] about ``center`` [mm]."""
@@ -84,7 +85,7 @@ class RawArc:
     ink: Ink
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class RawPath:
     """A line or polyline through ``points`` [mm]; ``closed`` when its last
     point joins its first; ``bulged`` when arc segments were replaced by
@@ -97,7 +98,7 @@ class RawPath:
     hatch: bool = False
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Linework:
     """Every piece of linework of a drawing, in drawing order."""
 

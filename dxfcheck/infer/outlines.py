@@ -45,6 +45,7 @@ from typing import Any
 from dxfcheck.core.config import InferSettings, Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, dist
+from dxfcheck.core.records import record
 from dxfcheck.infer.centrelines import Inferred, hole_sizes, is_centre
 from dxfcheck.infer.linework import ARC_CHORD_DEG, Ink, Linework, RawArc
 from dxfcheck.infer.roles import (
@@ -82,7 +83,7 @@ BAR_WIDTH_FACTOR = 2.5
 BROAD_PART_FRACTION = 0.5
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Contour:
     """A closed outline: its ``polygon`` (shapely), the ``ink`` of its first
     entity, whether it is ``frame``; ``placement``: for a part inserted as a
@@ -306,7 +307,7 @@ def _broad_two_pin_parts(parts: Sequence[Contour], members: _Members) -> list[Fi
     return out
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Owners:
     """Who holds a hole: block-placed parts by their own circles, other
     parts by containment; the frame by its own circles or by containment."""

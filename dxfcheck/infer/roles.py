@@ -19,11 +19,11 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
 
 from dxfcheck.core.config import Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, dist
+from dxfcheck.core.records import record
 from dxfcheck.infer.linework import RawArc, RawCircle, RawPath
 from dxfcheck.read.drawing import ArcGeom, CircleGeom, Source
 
@@ -151,7 +151,7 @@ def shoe_arcs(drum: RawCircle, arcs: Sequence[RawArc], tol: float) -> tuple[ArcG
     return tuple(out)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Hole:
     """Concentric circles at one place: ``circles`` smallest first (every
     circle drawn there, in whichever part or block)."""

@@ -6,11 +6,11 @@ from __future__ import annotations
 
 import math
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass
 
 from dxfcheck.core.config import Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, dist
+from dxfcheck.core.records import record
 from dxfcheck.mechanism.model import Band, BandKind, Drum, Pin
 from dxfcheck.mechanism.topology import ARC_SLACK_DEG, Topology, finding, fmt_point
 from dxfcheck.read.drawing import ArcGeom, Drawing, PathGeom, Source
@@ -21,7 +21,7 @@ __all__ = ["band_kind", "build_bands"]
 _FULL_TURN_DEG = 360.0
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _BandEnd:
     """Where a wrap's end goes: the pin and the unit vector from the pin
     towards the drum (the band's pull on the pin)."""

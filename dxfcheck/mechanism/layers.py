@@ -36,11 +36,11 @@ import math
 import re
 from collections import Counter
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
 
 from dxfcheck.core.config import CONFIG_NAME, DEFAULT_LAYERS, Role, table_name, toml_layers_line
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross, dist, point_segment_distance
+from dxfcheck.core.records import record
 from dxfcheck.infer.choice import SKELETON_ROLES
 from dxfcheck.mechanism.model import Mechanism, Mounting
 from dxfcheck.mechanism.plausibility import PIN_TO_DRUM
@@ -96,7 +96,7 @@ _LOST = {
 }
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class NearMiss:
     """A layer with no role that looks like ``role``'s.
 
@@ -120,7 +120,7 @@ class NearMiss:
     at: Point | None = None
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Spot:
     """A place where a pin or pivot would be expected but none was read."""
 

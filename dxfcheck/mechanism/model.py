@@ -7,10 +7,11 @@ Built by :mod:`dxfcheck.mechanism.build`; every length in mm, every force in N.
 from __future__ import annotations
 
 import enum
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 
 from dxfcheck.core.findings import Finding
 from dxfcheck.core.geometry import Point, dist, point_segment_distance
+from dxfcheck.core.records import record
 from dxfcheck.read.drawing import ArcGeom, Drawing, Source
 
 __all__ = ["FRAME", "Band", "BandKind", "Drum", "Load", "Mechanism", "Mounting", "Part", "Pin", "Shoe", "Spring"]
@@ -34,7 +35,7 @@ class BandKind(enum.StrEnum):
     TWO_LEVER = "two-lever"  # each end on its own lever
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Drum:
     """The brake drum: ``center`` [mm] (the drum axis, on the frame) and
     braking-surface radius ``radius_mm`` [mm]."""
@@ -44,7 +45,7 @@ class Drum:
     source: Source
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Pin:
     """A pin joint.
 
@@ -75,7 +76,7 @@ class Pin:
         return (*self.parts, FRAME) if self.grounded else self.parts
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Part:
     """A rigid part: its centreline ``segments`` [mm] and the pins on it."""
 
@@ -93,7 +94,7 @@ class Part:
         return tuple(dict.fromkeys(q for s in self.segments for q in s))
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Shoe:
     """A brake shoe: the lining arc on the drum and the part that carries it.
 
@@ -124,7 +125,7 @@ class Shoe:
         return self.arc.span_deg
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Load:
     """An applied force.
 
@@ -159,7 +160,7 @@ class Load:
         return (m * self.direction[0], m * self.direction[1])
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Spring:
     """A spring between two points: an internal pair of equal and opposite
     forces along its line.
@@ -197,7 +198,7 @@ class Spring:
         return (s * ux, s * uy)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Band:
     """A flexible band wrapped on the drum.
 
@@ -239,7 +240,7 @@ class Band:
         return 360.0 if span == 0.0 else span
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Mechanism:
     """Everything the statics needs, inferred from one drawing.
 

@@ -5,11 +5,11 @@ pin and carries no load, otherwise it is *fixed* to its lever."""
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence, Set
-from dataclasses import dataclass
 
 from dxfcheck.core.config import Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import dist
+from dxfcheck.core.records import record
 from dxfcheck.mechanism.layers import missing_role_note, searched
 from dxfcheck.mechanism.model import Drum, Mounting, Shoe
 from dxfcheck.mechanism.naming import Namer, Target
@@ -19,7 +19,7 @@ from dxfcheck.read.drawing import ArcGeom, Drawing
 __all__ = ["ShoeParts", "build_shoes"]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ShoeParts:
     """What the shoes step needs to know about the parts: their names (by
     topology index), the pins on each, and the parts a load or spring acts

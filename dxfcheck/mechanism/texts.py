@@ -3,9 +3,8 @@ that give none."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass
-
 from dxfcheck.core.findings import Code, Finding, Severity
+from dxfcheck.core.records import record
 from dxfcheck.core.units import AmbiguousTextError, UnitError, quantity_in_text
 from dxfcheck.mechanism.topology import finding
 from dxfcheck.read.drawing import TextGeom
@@ -13,7 +12,7 @@ from dxfcheck.read.drawing import TextGeom
 __all__ = ["Magnitudes", "TextForce", "no_magnitude", "text_finding", "text_force"]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Magnitudes:
     """The caller's forces: ``effort_N`` [N] replaces every load's and
     spring's text; ``default_N`` [N] stands in where a text gives none."""
@@ -39,7 +38,7 @@ def text_finding(code: Code, msg: str, t: TextGeom, used: bool) -> Finding:
     return finding(code, msg, [t.source], t.position, severity=Severity.WARNING if demote else None)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class TextForce:
     """What a load's or spring's text gave: the force [N], or why not (and
     the finding that says so)."""

@@ -15,12 +15,13 @@ import functools
 import itertools
 import math
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import Any
 
 from dxfcheck.core.config import Role
 from dxfcheck.core.findings import Code, Finding, Severity
 from dxfcheck.core.geometry import Point, angle_in_arc, dist, point_segment_distance
+from dxfcheck.core.records import record
 from dxfcheck.read.drawing import ArcGeom, CircleGeom, Drawing, PathGeom, Source
 
 __all__ = [
@@ -198,7 +199,7 @@ class LinkIndex:
         return any(dist(p, self.pins[i].center) <= self.tol for i in self._pin_candidates(p))
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Topology:
     """The rigid parts the centrelines form, with the pin circles and shoe
     arcs they meet.

@@ -39,6 +39,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.core.records import record
 from dxfcheck.mechanism import build_mechanism
 from dxfcheck.output.sketch import Sketch, _write_arc, _write_circle, _write_path, _write_text
 from dxfcheck.read.drawing import read_drawing
@@ -348,7 +349,7 @@ def _bracket(sh: _Sheet, c: Point, half: float) -> None:
 BLOCK_TURN_DEG = (17.0, 31.0)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _PartDraft:
     """A part's world geometry: outline points, holes (centre, radius), the
     lining face arc (centre, radius, start, end) or None."""

@@ -44,6 +44,7 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 
 from dxfcheck.core.geometry import Point
+from dxfcheck.core.records import record
 from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.statics import CaseSolution, Station
@@ -109,7 +110,7 @@ def force_text(f_N: float) -> str:
     return f"{f_N / 1000:.3g} kN" if abs(f_N) >= 1000 else f"{f_N:.3g} N"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Arrow:
     """One force arrow: ``ref`` names the result field it draws
     (``shoe/NAME/normal``, ``shoe/NAME/friction``, ``pin/NAME``,
@@ -247,7 +248,7 @@ def _rotation_mm(mech: Mechanism, case: CaseSolution) -> list[Point]:
     ]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Frame:
     """Model [mm] to picture [px]: x right, y down."""
 

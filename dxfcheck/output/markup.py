@@ -33,6 +33,7 @@ from dxfcheck.core.config import Config
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.files import MARKER, atomic_target
 from dxfcheck.core.geometry import Point
+from dxfcheck.core.records import record
 from dxfcheck.core.textsafe import one_line
 from dxfcheck.core.version import __version__
 from dxfcheck.mechanism.model import Mechanism
@@ -96,7 +97,7 @@ MEMBER_TEXT_OFFSET = 1.2
 R12 = "AC1009"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Arrow:
     """A force drawn as an arrow, in world [mm].
 
@@ -125,7 +126,7 @@ class Arrow:
         return math.hypot(*self.force)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class MemberNote:
     """A two-force member's axial force written along it."""
 
@@ -135,7 +136,7 @@ class MemberNote:
     label: str
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Markup:
     """Everything a marked-up copy adds, in world [mm].
 
@@ -491,7 +492,7 @@ def _head(tail: Point, head: Point, length: float) -> tuple[Point, Point, Point]
     return head, (bx - hw * uy, by + hw * ux), (bx + hw * uy, by - hw * ux)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Pen:
     """Where and how the markup draws: the modelspace, world [mm] to drawing
     units, the text height [mm], the two layers' attributes, the label placer."""

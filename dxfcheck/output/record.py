@@ -28,11 +28,11 @@ import math
 import os
 import xml.etree.ElementTree as ET
 from collections.abc import Iterable, Sequence
-from dataclasses import dataclass
 from pathlib import Path
 from typing import Protocol
 
 from dxfcheck.core.files import write_atomic
+from dxfcheck.core.records import record
 from dxfcheck.core.textsafe import printable, xml_text
 from dxfcheck.core.version import __version__
 from dxfcheck.gate.rules import Judgement, RuleResult
@@ -107,7 +107,7 @@ svg.moment { width: 9cm; height: auto; flex: none; } .internal { flex-direction:
 """
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Signoff:
     """Names and dates of the sign-off block; blank ones are filled by hand."""
 
@@ -119,7 +119,7 @@ class Signoff:
     approved_on: str = ""
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Num:
     """A number cell: the exact value kept in ``data-value``."""
 

@@ -24,6 +24,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.core.records import record
 
 __all__ = ["BlockWrap", "Sketch"]
 
@@ -33,7 +34,7 @@ _BLOCK_PREFIX = "SKEL"  # wrap blocks are SKEL0 (outermost), SKEL1, ...
 _TEXT_HEIGHT = 6.0  # [drawing units] before the transform's scale
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class BlockWrap:
     """Place the sketch's entities inside a block referenced by an INSERT
     with these attributes (the outermost wrap comes first in a list)."""

@@ -38,6 +38,7 @@ from dxfcheck.core.config import Config, Role
 from dxfcheck.core.errors import ConfigError, DrawingReadError, DxfcheckError
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.core.records import record
 from dxfcheck.core.units import INSUNITS_MM, UnitError, length_unit_factor
 from dxfcheck.read import dwg, fast
 from dxfcheck.read.fast import MAX_LOOSE_CIRCLES_PER_LAYER, FastReadUnsupported
@@ -111,7 +112,7 @@ ROLE_KINDS: dict[Role, frozenset[str]] = {role: frozenset(kinds) for role, kinds
 _IGNORED_ANYWHERE = {"ATTDEF", "ATTRIB", "DIMENSION", "HATCH", "VIEWPORT", "POINT"}
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Source:
     """Where a piece of geometry came from.
 
@@ -135,7 +136,7 @@ class Source:
         return self.handle if not self.via else f"{self.handle}@{'/'.join(self.via)}"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class CircleGeom:
     """A circle: ``center`` [mm], ``radius_mm`` [mm]."""
 
@@ -145,7 +146,7 @@ class CircleGeom:
     source: Source
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class LooseCircle:
     """A circle on a layer that has no role: not skeleton, kept only to
     recognise a layer near miss (pins drawn on ``PINS``, the drum on
@@ -157,7 +158,7 @@ class LooseCircle:
     source: Source
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ArcGeom:
     """A circular arc running counter-clockwise from ``start_deg`` to
     ``end_deg`` [degrees, world frame] about ``center`` [mm]."""
@@ -185,7 +186,7 @@ class ArcGeom:
         return (self.center[0] + self.radius_mm * math.cos(t), self.center[1] + self.radius_mm * math.sin(t))
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class PathGeom:
     """A chain of straight segments through ``points`` [mm]."""
 
@@ -198,7 +199,7 @@ class PathGeom:
             yield self.points[i], self.points[i + 1]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class TextGeom:
     """A text string and its insertion point [mm]."""
 
@@ -208,7 +209,7 @@ class TextGeom:
     source: Source
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Drawing:
     """The skeleton geometry of one drawing, in world [mm].
 
@@ -322,6 +323,9 @@ def _finding(code: Code, message: str, src: Source | None = None, at: Point | No
 
 @dataclass
 class _Collector:
+    """What one reading of a drawing gathers: the skeleton's geometry on the
+    role layers, the findings, and the counts the limits are checked on."""
+
     path: str
     roles: dict[str, Role]
     circles: list[CircleGeom] = field(default_factory=list)

@@ -22,13 +22,13 @@ record escapes them (:mod:`dxfcheck.core.textsafe`).
 from __future__ import annotations
 
 import os
-from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from dxfcheck.core import deadline
 from dxfcheck.core.config import Config
 from dxfcheck.core.errors import DxfcheckError
+from dxfcheck.core.records import record
 from dxfcheck.read import dwg
 from dxfcheck.read.drawing import _damaged, _load_dwg, load_document
 
@@ -49,7 +49,7 @@ MAX_INSERTS = 20_000
 MAX_FIELD_CHARS = 200
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class TitleField:
     """One identity field: its ``value`` and where it was read (``source``:
     ``block attribute`` or ``custom property``; ``where``: the block, tag,
@@ -60,7 +60,7 @@ class TitleField:
     where: str
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class TitleBlock:
     """The drawing number, title and revision found (None where not found)."""
 

@@ -33,11 +33,12 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, field
+from dataclasses import field
 from typing import Any
 
 from dxfcheck.core.errors import ConfigError, DxfcheckError
 from dxfcheck.core.geometry import Affine, Point, dist, point_segment_distance
+from dxfcheck.core.records import record
 from dxfcheck.core.textsafe import xml_text
 from dxfcheck.gate.rules import Judgement, Verdict
 from dxfcheck.gate.spec import Spec
@@ -98,7 +99,7 @@ class RevisionMismatch(DxfcheckError):
     """The drawings share too little to be revisions of one brake."""
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Thresholds:
     """Limits on a revision [fractions]: ``max_torque_drop`` (0.05 is 5 %),
     ``max_force_rise`` for pins, members, shoes and bands; None switches a
@@ -164,7 +165,7 @@ def resolve_thresholds(torque_drop: str | None, force_rise: str | None, spec: Sp
     return Thresholds(drop, rise, drop_src, rise_src)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Change:
     """One quantity's change between revisions.
 
@@ -206,7 +207,7 @@ class Change:
     at_mm: Point | None = None
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Comparison:
     """The changes from ``old`` to ``new``."""
 
@@ -948,7 +949,7 @@ MAX_PLOT_W = 960.0
 COLOURS = ("#1f4e9c", "#b3261e", "#1e7b34", "#7a4fa0", "#a86b00")
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Frame:
     """The plot's layout [px]: margins, plot area, value range, steps."""
 

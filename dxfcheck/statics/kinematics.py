@@ -49,13 +49,14 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import TYPE_CHECKING
 
 import numpy as np
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.core.geometry import Point, dist
+from dxfcheck.core.records import record
 from dxfcheck.mechanism.model import FRAME, Mechanism, Shoe
 from dxfcheck.statics.equations import (
     Balance,
@@ -101,7 +102,7 @@ EQUAL_LIFT_RTOL = 1e-8
 STROKE_RTOL = 1e-9
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class PartMotion:
     """A part's small rigid motion: its reference point ``ref_mm`` [mm]
     shifts by ``shift_mm`` [mm] and it turns by ``turn_rad`` [rad],
@@ -113,7 +114,7 @@ class PartMotion:
     turn_rad: float
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class PinMotion:
     """A pin's small shift ``shift_mm`` [mm]."""
 
@@ -121,7 +122,7 @@ class PinMotion:
     shift_mm: Point
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Motion:
     """One small motion of the linkage, linear in its size: every part's
     rigid motion and every pin's shift."""
@@ -153,7 +154,7 @@ class Motion:
         )
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ShoeLift:
     """A shoe's lift away from the drum [mm]: at the lining's centre
     ``mid_mm``, the least ``least_mm`` and largest ``most_mm`` along the
@@ -166,7 +167,7 @@ class ShoeLift:
     most_mm: float
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class BandTravel:
     """A band's slackening: each end's pin travel towards the drum along its
     straight piece, ``start_mm`` and ``end_mm`` [mm] (positive: the band
@@ -180,7 +181,7 @@ class BandTravel:
     clearance_mm: float
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class EffortStroke:
     """An effort (a load or a spring) in a motion: its force ``force_N``
     [N], its ``stroke_mm`` [mm] against the force, and for a spring its
@@ -193,7 +194,7 @@ class EffortStroke:
     length_change_mm: float | None = None
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class MotionReport:
     """What a motion does at the drum and at the efforts."""
 
@@ -211,7 +212,7 @@ class MotionReport:
         return next(e for e in self.efforts if e.name == name)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class LiftShare:
     """How the actuator's stroke shares between the shoes and bands.
 
@@ -227,7 +228,7 @@ class LiftShare:
     share: float | None
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Release:
     """The release of the brake by its actuator.
 

@@ -6,11 +6,12 @@ docstrings.  Built by :mod:`dxfcheck.statics.solver`.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import field
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.core.findings import Finding, Severity
 from dxfcheck.core.geometry import Point
+from dxfcheck.core.records import record
 from dxfcheck.mechanism.model import Mechanism
 from dxfcheck.statics.contact.base import ContactOptions
 
@@ -31,7 +32,7 @@ __all__ = [
 ]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Attachment:
     """Force [N] a pin exerts on one body it joins."""
 
@@ -44,7 +45,7 @@ class Attachment:
         return math.hypot(self.fx_N, self.fy_N)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class PinResult:
     """Force through one pin.
 
@@ -66,7 +67,7 @@ class PinResult:
     attachments: tuple[Attachment, ...]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ShoeResult:
     """One shoe's forces.
 
@@ -148,7 +149,7 @@ class ShoeResult:
         return self.peak_line_load_N_per_mm / width_mm
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class BandEnd:
     """One end of a band as solved.
 
@@ -174,7 +175,7 @@ class BandEnd:
     pull_N: Point
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class BandResult:
     """One band's tensions.
 
@@ -208,7 +209,7 @@ class BandResult:
     ends: tuple[BandEnd, ...] = ()
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class SpringEnd:
     """The force ``force_N`` [N] a spring exerts at ``at_mm`` [mm] on ``part``
     (None: the frame)."""
@@ -218,7 +219,7 @@ class SpringEnd:
     force_N: Point
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class SpringResult:
     """A spring's force ``force_N`` [N] as used; ``state`` is tension or
     compression; ``ends`` the force at each end as applied."""
@@ -229,7 +230,7 @@ class SpringResult:
     ends: tuple[SpringEnd, ...] = ()
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class MemberResult:
     """A two-force member's axial force ``axial_N`` [N], tension positive,
     between ``ends`` (two pins, or a pin and a spring or load that acts on
@@ -247,7 +248,7 @@ class MemberResult:
         return "tension" if self.axial_N >= 0 else "compression"
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Station:
     """The internal forces at one section of a part's centreline.
 
@@ -269,7 +270,7 @@ class Station:
     moment_Nmm: float
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class PartDiagram:
     """A part's axial force, shear and bending moment along its centreline
     (its segments split where another segment or a force meets them), from
@@ -288,7 +289,7 @@ class PartDiagram:
         return max(self.stations, key=lambda s: abs(s.moment_Nmm), default=None)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class LoadResult:
     """An applied load as used: point [mm] and components [N]."""
 
@@ -304,7 +305,7 @@ class LoadResult:
         return math.hypot(self.fx_N, self.fy_N)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class CaseSolution:
     """The statics of one drum direction at one friction coefficient.
 
@@ -384,7 +385,7 @@ class CaseSolution:
         return next(p for p in self.parts if p.part == name)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class Solution:
     """Every solved case of a mechanism and all findings so far."""
 

@@ -40,7 +40,7 @@ import time
 from collections.abc import Sequence
 from concurrent.futures import ThreadPoolExecutor
 from concurrent.futures import TimeoutError as FuturesTimeout
-from dataclasses import dataclass, field, replace
+from dataclasses import field, replace
 from typing import TYPE_CHECKING, NamedTuple
 
 import numpy as np
@@ -48,6 +48,7 @@ import numpy as np
 from dxfcheck.core import deadline, progress
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.geometry import Point
+from dxfcheck.core.records import record
 from dxfcheck.mechanism import FRAME, Drum, Mechanism, Shoe
 from dxfcheck.statics.contact import ContactModel, ContactOptions, Direction
 from dxfcheck.statics.contact.short_shoe import friction_circle_contact
@@ -121,7 +122,7 @@ class _PinTerm(NamedTuple):
     axis: Axis
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class DirectionStats:
     """Distributions for one drum direction.
 
@@ -137,7 +138,7 @@ class DirectionStats:
     p_below_required: float | None
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class SensitivityResult:
     samples: int
     seed: int

@@ -28,17 +28,17 @@ from __future__ import annotations
 
 import math
 from collections import deque
-from dataclasses import dataclass
 from itertools import pairwise
 
 from dxfcheck.core.geometry import Point, dist
+from dxfcheck.core.records import record
 from dxfcheck.mechanism.model import Mechanism, Part
 from dxfcheck.statics.results import CaseSolution, PartDiagram, Station
 
 __all__ = ["drum_load", "part_diagrams"]
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class _Force:
     """A force ``f`` [N] and couple ``m`` [N·mm] at ``at`` [mm] on the
     centreline: at node ``node``, or inside edge ``edge`` at ``t``."""

@@ -12,13 +12,13 @@ from __future__ import annotations
 import enum
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass
 from typing import Protocol
 
 from dxfcheck.core.directions import Direction
 from dxfcheck.core.errors import ConfigError
 from dxfcheck.core.findings import Finding
 from dxfcheck.core.geometry import Point
+from dxfcheck.core.records import record
 from dxfcheck.mechanism.model import Shoe
 
 __all__ = [
@@ -65,7 +65,7 @@ class ContactModelName(enum.StrEnum):
 LONG_SHOE_THRESHOLD_DEG = 60.0
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ContactOptions:
     """How shoes are modelled.
 
@@ -111,7 +111,7 @@ def surface_tangent(angle_rad: float, direction: Direction) -> Point:
     return (-s * math.sin(angle_rad), s * math.cos(angle_rad))
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ContactWrench:
     """The drum's action on a shoe per unit of one of the shoe's unknowns.
 

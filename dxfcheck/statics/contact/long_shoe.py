@@ -51,6 +51,7 @@ import numpy as np
 
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point
+from dxfcheck.core.records import record
 from dxfcheck.mechanism import Drum, Shoe
 from dxfcheck.statics.contact.base import (
     ContactModelName,
@@ -201,7 +202,7 @@ def _arc_span(shoe: Shoe) -> tuple[float, float]:
     return a0, a0 + math.radians(shoe.arc.span_deg)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class LongHingedShoe(WholeLining):
     """Long shoe fixed to a lever that turns about a frame pivot ``hinge``:
     ``p = pa·sinθ/sinθa``; the unknown is the peak line load ``qa = pa·b``

@@ -31,13 +31,14 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, replace
+from dataclasses import replace
 from typing import TYPE_CHECKING
 
 import numpy as np
 
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Point, angle_in_arc, cross
+from dxfcheck.core.records import record
 from dxfcheck.mechanism import Drum, Mounting, Shoe
 from dxfcheck.statics.contact.base import ContactModelName, ContactWrench, Direction, WholeLining, surface_tangent
 
@@ -154,7 +155,7 @@ class _ShortBase(WholeLining):
         return ()
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ShortFixedShoe(_ShortBase):
     """Short shoe fixed to its lever: ``N`` radial at the lining's midpoint.
 
@@ -174,7 +175,7 @@ class ShortFixedShoe(_ShortBase):
         return (_wrench_at(self.name, self.shoe, self.drum, alpha, mu, direction),)
 
 
-@dataclass(frozen=True)
+@record(frozen=True)
 class ShortPivotedShoe(_ShortBase):
     """Short shoe on a pin: the resultant passes through the pin, tangent to
     the friction circle of radius ``r·sin(atan μ)``.
