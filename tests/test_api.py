@@ -15,14 +15,49 @@ def test_every_exported_name_resolves():
         assert getattr(dxfcheck, name) is not None, name
 
 
-def test_gate_output_and_revision_load_on_first_use():
+def test_import_loads_no_stage_and_no_numpy():
+    """``import dxfcheck`` loads only its version; every public name loads
+    its stage on first use (so that the command line can set numpy's
+    threads before numpy is loaded)."""
     code = (
         "import sys, dxfcheck; "
-        "print(sorted({m.split('.')[1] for m in sys.modules if m.startswith('dxfcheck.') and m.count('.') >= 1}))"
+        "print(sorted(m for m in sys.modules if m.startswith(('dxfcheck.', 'numpy')) and m != 'dxfcheck.core'))"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, timeout=60, check=True).stdout
-    loaded = eval(out)  # a printed list of stage names
-    assert not {"gate", "output", "revision"} & set(loaded), loaded
+    assert eval(out) == ["dxfcheck.core.version"]  # a printed list of module names
+
+
+def test_public_names_match_the_lazy_table():
+    assert sorted(dxfcheck.__all__) == sorted(["__version__", *dxfcheck._LAZY])
+    assert set(dxfcheck._LAZY) <= set(dir(dxfcheck))
+
+
+def test_the_command_line_runs_blas_on_one_thread_unless_told():
+    """The command sets OPENBLAS_NUM_THREADS=1 before numpy is loaded, keeps
+    a value the user set, and changes nothing once numpy is loaded."""
+    probe = (
+        "import os, sys\n{pre}"
+        "from dxfcheck import cli\n"
+        "cli._one_blas_thread()\n"
+        "print(os.environ.get('OPENBLAS_NUM_THREADS'))\n"
+    )
+
+    def run(pre: str, env_value: str | None) -> str:
+        import os
+
+        env = {k: v for k, v in os.environ.items() if k not in cli_vars}
+        if env_value is not None:
+            env["OPENBLAS_NUM_THREADS"] = env_value
+        r = subprocess.run(
+            [sys.executable, "-c", probe.format(pre=pre)], capture_output=True, text=True, timeout=60, env=env
+        )
+        return r.stdout.strip()
+
+    from dxfcheck.cli import BLAS_THREAD_VARIABLES as cli_vars
+
+    assert run("", None) == "1"
+    assert run("", "3") == "3"
+    assert run("import numpy\n", None) == "None"
 
 
 def test_the_gate_is_public(tmp_path):
