@@ -86,10 +86,10 @@ def _hash(self: Any) -> int:
 
 
 def _setattr(self: Any, name: str, value: object) -> None:
-    if name in self.__dataclass_fields__ and name not in self.__dict__:
-        object.__setattr__(self, name, value)  # the one assignment, by __init__
-        return
-    raise dataclasses.FrozenInstanceError(f"cannot assign to field {name!r}")
+    values = self.__dict__
+    if name in values or name not in self.__dataclass_fields__:
+        raise dataclasses.FrozenInstanceError(f"cannot assign to field {name!r}")
+    values[name] = value  # the one assignment, by __init__
 
 
 def _delattr(self: Any, name: str) -> None:

@@ -15,17 +15,14 @@ import copy
 import dataclasses
 import math
 import pickle
-import sys
 from collections.abc import Iterator
 from pathlib import Path
 from typing import Any
 
 import pytest
+from common import CATALOGUE, ROOT
 
-sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
-from common import CATALOGUE, ROOT  # noqa: E402
-
-from dxfcheck.core.records import record  # noqa: E402
+from dxfcheck.core.records import record
 
 #: Class bodies (after ``class C:``) covering the field options records use
 #: and some they do not; each is built twice, as a record and as the
