@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import enum
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
 from functools import cached_property
 from typing import TYPE_CHECKING, NamedTuple
@@ -36,6 +37,7 @@ __all__ = [
     "RowOwner",
     "System",
     "assemble",
+    "band_column_stack",
     "band_ratio",
     "coefficients",
     "column_owners",
@@ -306,6 +308,25 @@ def with_band_columns(
     return a
 
 
+def band_column_stack(
+    sys_: System, mech: Mechanism, mus: Sequence[float], direction: Direction, index: dict[RowOwner, int]
+) -> NDArray[np.float64]:
+    """:func:`with_band_columns` at each μ of ``mus``, as one stack of
+    matrices (shape ``(len(mus), rows, columns)``): the same entries, each
+    made by the same operations in the same order (each tension ratio by
+    :func:`band_ratio`), so the stack's matrix at each μ is
+    :func:`with_band_columns`'s, bit for bit."""
+    stack = np.repeat(sys_.a[np.newaxis], len(mus), axis=0)
+    for j, _ in sys_.columns(ColumnKind.BAND):
+        stack[:, :, j] = 0.0
+    ones = np.ones(len(mus))
+    for band, row_x, row_y, c, u, tight in _band_entries(mech, sys_.col_owner, index, direction):
+        share = np.array([band_ratio(band, mu) for mu in mus]) if tight else ones
+        stack[:, row_x, c] -= share * u[0]
+        stack[:, row_y, c] -= share * u[1]
+    return stack
+
+
 def row_owners(mech: Mechanism) -> list[RowOwner]:
     """Every part's three balances, then every pin's two."""
     return [RowOwner(RowKind.BODY, p.name, bal) for p in mech.parts for bal in Balance] + [
@@ -392,21 +413,34 @@ def _band_columns(
 ) -> None:
     """Each band's unknown slack-side tension: each end pulls its pin
     towards the drum, the tight end e^(μθ) times harder."""
+    for band, row_x, row_y, c, u, tight in _band_entries(mech, cols, index, direction):
+        share = band_ratio(band, mu) if tight else 1.0
+        # pin equilibrium: Σ (pin on bodies) − (band on pin) = 0
+        a[row_x, c] -= share * u[0]
+        a[row_y, c] -= share * u[1]
+
+
+def _band_entries(
+    mech: Mechanism, cols: list[ColumnOwner], index: dict[RowOwner, int], direction: Direction
+) -> list[tuple[Band, int, int, int, Point, bool]]:
+    """Where each band end enters the equations, in the order they are
+    entered: (band, its pin's x and y rows, the band's column, the end's
+    unit pull direction, whether it is the tight end)."""
     at_end = tight_at_end(direction)
     bands = {band.name: band for band in mech.bands}
+    out: list[tuple[Band, int, int, int, Point, bool]] = []
     for c, o in enumerate(cols):
         if o.kind is not ColumnKind.BAND:
             continue
         band = bands[o.name]
-        ratio = band_ratio(band, mu)
         for pin_name, u, tight in (
             (band.start_pin, band.start_dir, not at_end),
             (band.end_pin, band.end_dir, at_end),
         ):
-            share = ratio if tight else 1.0
-            # pin equilibrium: Σ (pin on bodies) − (band on pin) = 0
-            a[index[RowOwner(RowKind.PIN, pin_name, Balance.FX)], c] -= share * u[0]
-            a[index[RowOwner(RowKind.PIN, pin_name, Balance.FY)], c] -= share * u[1]
+            row_x = index[RowOwner(RowKind.PIN, pin_name, Balance.FX)]
+            row_y = index[RowOwner(RowKind.PIN, pin_name, Balance.FY)]
+            out.append((band, row_x, row_y, c, u, tight))
+    return out
 
 
 def _applied(mech: Mechanism, n_rows: int, index: dict[RowOwner, int], refs: dict[str, Point]) -> NDArray[np.float64]:

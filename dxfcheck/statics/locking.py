@@ -17,9 +17,11 @@ from dxfcheck.statics.contact import ContactModel, ContactOptions
 from dxfcheck.statics.diagnosis import MODE_SHARE
 from dxfcheck.statics.equations import (
     DEFAULT_OPTIONS,
+    ZERO_ROW_RTOL,
     ColumnKind,
     System,
     assemble,
+    band_column_stack,
     contact_models,
     with_band_columns,
     zero_rows,
@@ -131,7 +133,27 @@ def _band_det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: 
         dropped = zero_rows(a)
         return _sign(a[[i for i in range(a.shape[0]) if i not in dropped]])
 
-    return lambda mus: [sign(mu) for mu in mus]
+    def signs(mus: Sequence[float]) -> list[float]:
+        stack = band_column_stack(base, mech, mus, direction, index)
+        kept = _kept_rows(stack)
+        if kept is None:  # the identities 0 = 0 differ between the μ: one at a time
+            return [sign(mu) for mu in mus]
+        if len(kept) != stack.shape[2]:
+            return [math.nan for _ in mus]
+        return _signs(stack[:, kept, :])
+
+    return signs
+
+
+def _kept_rows(stack: NDArray[np.float64]) -> list[int] | None:
+    """The rows :func:`zero_rows` keeps in each matrix of a stack, if they
+    are the same in all (None otherwise)."""
+    size = stack.shape[1] * stack.shape[2]
+    scale = np.abs(stack).max(axis=(1, 2)) if size else np.ones(stack.shape[0])
+    zero = np.abs(stack).max(axis=2, initial=0.0) <= ZERO_ROW_RTOL * scale[:, np.newaxis]
+    if (zero != zero[0]).any():
+        return None
+    return [i for i in range(stack.shape[1]) if not zero[0, i]]
 
 
 @functools.lru_cache(maxsize=64)

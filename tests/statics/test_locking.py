@@ -62,6 +62,34 @@ def test_band_scan_is_the_assembled_matrix_at_every_mu(tmp_path, name):
         )
 
 
+@pytest.mark.parametrize("name", ["simple band", "differential band", "capstan band (spring-set)"])
+def test_band_stack_is_each_mu_matrix_bit_for_bit(tmp_path, monkeypatch, name):
+    """The band scan builds all its matrices at once; each is the matrix
+    with the band columns set at its μ (and so the assembled one), entry
+    for entry, and the signs are those of the one-μ-at-a-time scan, also
+    when the stack's identities 0 = 0 differ between the μ and it falls
+    back to one μ at a time."""
+    make, _ = CATALOGUE[name]
+    path = tmp_path / "band.dxf"
+    make().save(path)
+    mech = dxfcheck.build_mechanism(dxfcheck.read_drawing(path))
+    models, _ = locking.contact_models(mech, locking.DEFAULT_OPTIONS)
+    grid = [k / locking.MU_SCAN_STEPS for k in range(locking.MU_SCAN_STEPS + 1)] + [0.2773, 1.7]
+    for direction in Direction:
+        base = locking.assemble(mech, models, 0.0, direction)
+        stack = locking.band_column_stack(base, mech, grid, direction, base.row_index)
+        for k, mu in enumerate(grid):
+            assert (stack[k] == locking.with_band_columns(base, mech, mu, direction, base.row_index)).all()
+        if mech.shoes:
+            continue
+        scan = locking._det_sign(mech, models, direction)
+        one_at_a_time = locking._assembled_scan(mech, models, direction)(grid)
+        assert scan(grid) == one_at_a_time
+        with monkeypatch.context() as m:
+            m.setattr(locking, "_kept_rows", lambda stack: None)
+            assert scan(grid) == one_at_a_time
+
+
 def test_shoes_take_the_affine_scan(tmp_path):
     """Shoes' contact forces are affine in μ: the scan's signs from A0 + μ·A1
     in one call are those of the equations assembled at each μ."""
