@@ -17,6 +17,7 @@ import contextlib
 import csv
 import io
 import json
+import math
 import os
 import re
 import shutil
@@ -31,7 +32,7 @@ import pytest
 from common import ROOT, conveyor_block, winch_two_shoe
 from schema_check import output_json
 
-from dxfcheck import cli
+from dxfcheck import batch, cli
 from dxfcheck.batch import (
     KEY_FILE,
     MAX_JOBS_PER_CORE,
@@ -592,8 +593,21 @@ def test_dask_cluster_gives_the_local_results(folder, tmp_path):
     assert strip == [(r.drawing, r.status, r.torque_cw_Nm, r.torque_ccw_Nm, r.failed_rules) for r in remote.results]
 
 
-def test_unreachable_scheduler_is_a_clean_error(folder, capsys):
+def test_cluster_tasks_hold_every_drawing_once_in_order():
+    from dxfcheck.batch import CLUSTER_CHUNK_MAX, CLUSTER_TASKS_PER_WORKER, cluster_chunks
+
+    for n, workers in [(0, 2), (1, 2), (7, 2), (16, 2), (17, 2), (1000, 2), (10_000, 2), (50, 0), (3000, 64)]:
+        todo = list(range(n))
+        chunks = cluster_chunks(todo, workers)
+        assert [x for c in chunks for x in c] == todo
+        assert all(1 <= len(c) <= CLUSTER_CHUNK_MAX for c in chunks)
+        if n >= CLUSTER_TASKS_PER_WORKER * max(workers, 1):  # enough work: every worker gets several tasks
+            assert len(chunks) >= min(CLUSTER_TASKS_PER_WORKER * max(workers, 1), math.ceil(n / CLUSTER_CHUNK_MAX))
+
+
+def test_unreachable_scheduler_is_a_clean_error(folder, capsys, monkeypatch):
     pytest.importorskip("distributed")
+    monkeypatch.setattr(batch, "SCHEDULER_TIMEOUT_S", 1.0)  # refused at once; no need to wait the full time
     rc = cli.main(
         ["batch", str(folder / "winch_two_shoe.dxf"), "--scheduler", "tcp://127.0.0.1:1", "--no-cache", "--json"]
     )

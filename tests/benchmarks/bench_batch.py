@@ -91,7 +91,8 @@ def _warm_with_spec(folder: Path, n: int, makers: tuple[Any, ...]) -> dict[str, 
         maker = makers[k % 3]
         maker().save(sub / f"{maker.__name__}.dxf", transform=Affine.translation(17.0 * k, -3.0 * k))
     result = run_batch(discover([str(folder)]), jobs=1, use_cache=False)
-    assert len(result.results) == n and not any(r.status in ("error", "timeout") for r in result.results), result.results[:1]
+    bad = [r for r in result.results if r.status in ("error", "timeout")]
+    assert len(result.results) == n and not bad, bad[:1]
     warm: dict[str, list[float]] = {}
     for r in result.results[1:]:  # the worker's first drawing is not warm
         warm.setdefault(Path(r.drawing).stem, []).append(r.seconds)

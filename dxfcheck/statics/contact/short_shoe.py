@@ -83,9 +83,8 @@ def _wrench_at(
     # short shoe: the normal force spread evenly over the lining's chord
     chord = 2 * drum.radius_mm * math.sin(math.radians(shoe.arc.span_deg) / 2)
     q = 1.0 / chord if chord > 0 else 0.0
-    load = tuple(
-        (shoe.arc.start_deg + shoe.arc.span_deg * k / LINE_LOAD_SAMPLES, q) for k in range(LINE_LOAD_SAMPLES + 1)
-    )
+    start, span = shoe.arc.start_deg, shoe.arc.span_deg
+    load = tuple((start + span * k / LINE_LOAD_SAMPLES, q) for k in range(LINE_LOAD_SAMPLES + 1))
     return ContactWrench(model, point, force, n, t, 1.0, mu, torque, findings, n, (mu * t[0], mu * t[1]), load)
 
 
