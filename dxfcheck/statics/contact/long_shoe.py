@@ -43,7 +43,7 @@ from __future__ import annotations
 
 import functools
 import math
-from collections.abc import Callable, Sequence
+from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING
 
@@ -138,33 +138,103 @@ def _wrap(a: float) -> float:
     return math.remainder(a, 2 * math.pi)
 
 
+@record(frozen=True)
+class _CosLaw:
+    """q(φ) = cos(φ − φm) [per unit of A]: a pivoted long shoe's first basis load."""
+
+    mid: float
+
+    def __call__(self, phi: NDArray[np.float64]) -> NDArray[np.float64]:
+        return np.cos(phi - self.mid)
+
+
+@record(frozen=True)
+class _SinLaw:
+    """q(φ) = sin(φ − φm) [per unit of B]: a pivoted long shoe's second basis load."""
+
+    mid: float
+
+    def __call__(self, phi: NDArray[np.float64]) -> NDArray[np.float64]:
+        return np.sin(phi - self.mid)
+
+
+@record(frozen=True)
+class _HingeLaw:
+    """q(φ) = max(0, sin θ)/sin θa with θ = s·(φ − β) [per unit of qa]: a
+    hinged long shoe's load (negative where the lining would pull: none)."""
+
+    sense: float
+    beta: float
+    sin_a: float
+
+    def __call__(self, phi: NDArray[np.float64]) -> NDArray[np.float64]:
+        return np.maximum(0.0, np.sin(self.sense * (phi - self.beta))) / self.sin_a
+
+
+@record(frozen=True)
+class _NoLoad:
+    """q(φ) = 0: a lining with nothing left to press."""
+
+    def __call__(self, phi: NDArray[np.float64]) -> NDArray[np.float64]:
+        return np.zeros_like(phi)
+
+
+#: A basis line load as a value (so that its quadrature can be cached).
+LoadLaw = _CosLaw | _SinLaw | _HingeLaw | _NoLoad
+
+#: Line loads whose quadrature is kept ((law, lining, patch) each): a check
+#: solves at up to three μ, both directions, and scans for self-locking, all
+#: on the same few patches.
+QUADRATURE_CACHE = 256
+
+
+@functools.lru_cache(maxsize=QUADRATURE_CACHE)
+def _line_load(
+    law: LoadLaw, radius_mm: float, phi0: float, phi1: float, full: tuple[float, float]
+) -> tuple[NDArray[np.float64], NDArray[np.float64], NDArray[np.float64], float, tuple[tuple[float, float], ...]]:
+    """The part of a line load's quadrature that depends neither on μ nor on
+    the drum's direction: the force on each Gauss–Legendre element [N per
+    unit], cos φ and sin φ at the nodes, their sum, and the samples of the
+    load along the lining (degrees, value) for reports.  Read only."""
+    half = 0.5 * (phi1 - phi0)
+    mid = 0.5 * (phi1 + phi0)
+    nodes, weights = _gauss()
+    phi = mid + half * nodes
+    dq = law(phi) * (radius_mm * half) * weights  # force on each element [N per unit]
+    c, s_ = np.cos(phi), np.sin(phi)
+    total = float(np.sum(dq)) if half > 0 else 0.0
+    grid = full[0] + (full[1] - full[0]) * np.arange(LINE_LOAD_SAMPLES + 1) / LINE_LOAD_SAMPLES
+    inside = (grid >= phi0 - 1e-12) & (grid <= phi1 + 1e-12)
+    values = np.where(inside, law(grid), 0.0) if half > 0 else np.zeros_like(grid)
+    samples = tuple(zip((np.degrees(grid) % 360).tolist(), values.tolist(), strict=True))
+    for a in (dq, c, s_):
+        a.flags.writeable = False
+    return dq, c, s_, total, samples
+
+
 def _integrate(
     name: ContactModelName,
     shoe: Shoe,
     drum: Drum,
     phi0: float,
     phi1: float,
-    shape: Callable[[NDArray[np.float64]], NDArray[np.float64]],
+    law: LoadLaw,
     mu: float,
     direction: Direction,
     full: tuple[float, float],
     findings: tuple[Finding, ...] = (),
 ) -> ContactWrench:
-    """Wrench of the line load ``q(φ) = shape(φ)`` [N/mm per unit] over the
-    polar angles φ0..φ1 [rad, φ0 < φ1], by Gauss–Legendre quadrature."""
+    """Wrench of the line load ``q(φ) = law(φ)`` [N/mm per unit] over the
+    polar angles φ0..φ1 [rad, φ0 < φ1], by Gauss–Legendre quadrature (the
+    μ- and direction-free part from :func:`_line_load`)."""
     r = drum.radius_mm
     sgn_n = -1.0 if shoe.internal else 1.0
     sd = float(direction.sign)
     half = 0.5 * (phi1 - phi0)
-    mid = 0.5 * (phi1 + phi0)
-    nodes, weights = _gauss()
-    phi = mid + half * nodes
-    dq = shape(phi) * (r * half) * weights  # force on each element [N per unit]
-    c, s_ = np.cos(phi), np.sin(phi)
+    dq, c, s_, total, samples = _line_load(law, r, phi0, phi1, full)
     # normal n = sgn_n·e_r, surface motion t = sd·(-sin, cos)
     nx, ny = float(np.sum(dq * sgn_n * c)), float(np.sum(dq * sgn_n * s_))
     tx, ty = float(np.sum(dq * mu * -sd * s_)), float(np.sum(dq * mu * sd * c))
-    total = float(np.sum(dq)) if half > 0 else 0.0
     if half <= 0:
         nx = ny = tx = ty = 0.0
     fx, fy = nx + tx, ny + ty
@@ -176,10 +246,6 @@ def _integrate(
     at = math.radians(near)
     normal = (sgn_n * math.cos(at), sgn_n * math.sin(at))
     tangent = surface_tangent(at, direction)
-    grid = full[0] + (full[1] - full[0]) * np.arange(LINE_LOAD_SAMPLES + 1) / LINE_LOAD_SAMPLES
-    inside = (grid >= phi0 - 1e-12) & (grid <= phi1 + 1e-12)
-    values = np.where(inside, shape(grid), 0.0) if half > 0 else np.zeros_like(grid)
-    samples = tuple(zip((np.degrees(grid) % 360).tolist(), values.tolist(), strict=True))
     return ContactWrench(
         name,
         point,
@@ -260,19 +326,14 @@ class LongHingedShoe(WholeLining):
                     self.drum,
                     0.0,
                     0.0,
-                    np.zeros_like,
+                    _NoLoad(),
                     mu,
                     direction,
                     _arc_span(self.shoe),
                     findings,
                 ),
             )
-        sin_a = math.sin(_theta_a(lo, hi))
-
-        def shape(phi: NDArray[np.float64]) -> NDArray[np.float64]:
-            # sin θ with θ = s·(φ − β): negative where the lining would pull
-            return np.maximum(0.0, np.sin(s * (phi - beta))) / sin_a
-
+        law = _HingeLaw(s, beta, math.sin(_theta_a(lo, hi)))
         # polar angles of the loaded part: φ = β + s·θ
         ends = sorted((beta + s * lo, beta + s * hi))
         full = _arc_span(self.shoe)
@@ -280,7 +341,7 @@ class LongHingedShoe(WholeLining):
         shift = 2 * math.pi * round((0.5 * (full[0] + full[1]) - 0.5 * (ends[0] + ends[1])) / (2 * math.pi))
         return (
             _integrate(
-                self.name, self.shoe, self.drum, ends[0] + shift, ends[1] + shift, shape, mu, direction, full, findings
+                self.name, self.shoe, self.drum, ends[0] + shift, ends[1] + shift, law, mu, direction, full, findings
             ),
         )
 
@@ -333,10 +394,8 @@ class LongPivotedShoe:
         full = _arc_span(self.shoe)
         notes = self.notes()
         return (
-            _integrate(
-                self.name, self.shoe, self.drum, *self.patch, lambda p: np.cos(p - m), mu, direction, full, notes
-            ),
-            _integrate(self.name, self.shoe, self.drum, *self.patch, lambda p: np.sin(p - m), mu, direction, full, ()),
+            _integrate(self.name, self.shoe, self.drum, *self.patch, _CosLaw(m), mu, direction, full, notes),
+            _integrate(self.name, self.shoe, self.drum, *self.patch, _SinLaw(m), mu, direction, full, ()),
         )
 
     def refine(self, coeffs: Sequence[float], mu: float, direction: Direction) -> bool:
