@@ -38,3 +38,27 @@ def test_a_cosine_over_a_lining():
     half, mid = 0.5 * (hi - lo), 0.5 * (hi + lo)
     got = float(np.sum(np.cos(mid + half * x) * w) * half)
     assert got == pytest.approx(math.sin(hi) - math.sin(lo), rel=1e-14)
+
+
+@pytest.mark.parametrize("name", ["winch two-shoe (pivoted shoes, floating crank)", "internal hinged pair"])
+def test_the_kept_quadrature_gives_what_a_fresh_one_gives(tmp_path, name):
+    """The μ- and direction-free part of a line load's quadrature is kept
+    between solves; a solve with it kept equals, number for number, a solve
+    that computes every quadrature afresh (both directions, two μ).  (The
+    project's own invariant; no published source.)"""
+    from common import CATALOGUE
+
+    import dxfcheck
+
+    make, _ = CATALOGUE[name]
+    path = tmp_path / "long.dxf"
+    make().save(path)
+    mech = dxfcheck.build_mechanism(dxfcheck.read_drawing(path))
+    for mu in (0.3, 0.42):
+        long_shoe._line_load.cache_clear()
+        fresh = dxfcheck.solve(mech, mu)
+        assert long_shoe._line_load.cache_info().misses > 0
+        kept = dxfcheck.solve(mech, mu)
+        assert long_shoe._line_load.cache_info().hits > 0
+        assert kept == fresh
+        assert [c.torque_Nm for c in kept.cases] == [c.torque_Nm for c in fresh.cases]
