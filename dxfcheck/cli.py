@@ -15,7 +15,6 @@ from __future__ import annotations
 import argparse
 import itertools
 import json
-import logging
 import os
 import sys
 from collections.abc import Callable, Sequence
@@ -24,6 +23,7 @@ from typing import TYPE_CHECKING, Any
 
 from dxfcheck.core.deadline import TimeLimitExceeded
 from dxfcheck.core.errors import ConfigError, DxfcheckError, LimitError, VerificationError
+from dxfcheck.core.imports import when_imported
 from dxfcheck.core.textsafe import one_line
 
 if TYPE_CHECKING:
@@ -981,22 +981,29 @@ def main(argv: Sequence[str] | None = None) -> int:
         return code
 
 
-class _LibraryNote(logging.Handler):
-    """ezdxf's log records outside reading (which makes them findings), as
-    ``dxfcheck: note: ezdxf: ...`` lines on the standard error of the
-    moment."""
-
-    def emit(self, record: logging.LogRecord) -> None:
-        try:
-            text = " ".join(record.getMessage().split())
-        except (TypeError, ValueError):
-            text = str(record.msg)
-        sys.stderr.write(f"dxfcheck: note: ezdxf: {text}\n")
-
-
 def _route_library_logs() -> None:
+    """ezdxf's log records outside reading (reading makes them findings) as
+    ``dxfcheck: note: ezdxf: ...`` lines on the standard error of the
+    moment.  The route is laid when ezdxf is first imported (at once when
+    it is loaded already): a command that never loads ezdxf, such as
+    ``solve --json`` on a drawing the fast reader reads, never loads
+    ``logging`` either."""
+    when_imported("ezdxf", _lay_library_route)
+
+
+def _lay_library_route() -> None:
+    import logging
+
+    class _LibraryNote(logging.Handler):
+        def emit(self, record: logging.LogRecord) -> None:
+            try:
+                text = " ".join(record.getMessage().split())
+            except (TypeError, ValueError):
+                text = str(record.msg)
+            sys.stderr.write(f"dxfcheck: note: ezdxf: {text}\n")
+
     logger = logging.getLogger("ezdxf")
-    if not any(isinstance(h, _LibraryNote) for h in logger.handlers):
+    if not any(type(h).__name__ == "_LibraryNote" for h in logger.handlers):
         logger.addHandler(_LibraryNote(logging.WARNING))
         logger.propagate = False
 

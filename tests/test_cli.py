@@ -201,7 +201,7 @@ _LOADED = (
     "    runpy.run_module('dxfcheck', run_name='__main__', alter_sys=True)\n"
     "except SystemExit:\n"
     "    pass\n"
-    "heavy = ('ezdxf', 'rich', 'matplotlib', 'shapely', 'numpy.typing', *HEAVY_STAGES)\n"
+    "heavy = ('ezdxf', 'rich', 'matplotlib', 'shapely', 'numpy.typing', 'logging', *HEAVY_STAGES)\n"
     "sys.stderr.write(' '.join(sorted(m for m in heavy if m in sys.modules)))\n"
 )
 #: The stages ``solve --json`` on a drawing drawn on the role layers never
@@ -224,7 +224,8 @@ def test_solve_json_loads_neither_ezdxf_nor_rich(demo):
     """A small ASCII drawing is read by the fast reader and printed as JSON:
     neither the DXF library nor the terminal tables are loaded (the
     project's own speed goal; no published source), nor the stages that
-    solve does not print (:data:`HEAVY_STAGES`), nor numpy.typing (annotations only)."""
+    solve does not print (:data:`HEAVY_STAGES`), nor numpy.typing (annotations only),
+    nor ``logging`` (loaded with ezdxf, to route its messages)."""
     r = subprocess.run(
         [sys.executable, "-c", f"HEAVY_STAGES = {HEAVY_STAGES!r}\n" + _LOADED, str(ROOT / "drawings" / demo)],
         capture_output=True,

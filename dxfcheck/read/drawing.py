@@ -22,7 +22,6 @@ from __future__ import annotations
 
 import contextlib
 import itertools
-import logging
 import math
 import os
 import re
@@ -31,17 +30,21 @@ import sys
 from collections.abc import Iterable, Iterator
 from dataclasses import dataclass, field, replace
 from pathlib import Path
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from dxfcheck.core import deadline
 from dxfcheck.core.config import Config, Role
 from dxfcheck.core.errors import ConfigError, DrawingReadError, DxfcheckError
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.core.geometry import Affine, Point
+from dxfcheck.core.imports import when_imported
 from dxfcheck.core.records import record
 from dxfcheck.core.units import INSUNITS_MM, UnitError, length_unit_factor
 from dxfcheck.read import dwg, fast
 from dxfcheck.read.fast import MAX_LOOSE_CIRCLES_PER_LAYER, FastReadUnsupported
+
+if TYPE_CHECKING:  # loaded with ezdxf (_ezdxf_messages), not with the reader
+    import logging
 
 __all__ = [
     "ROLE_KINDS",
@@ -1123,16 +1126,16 @@ MAX_READER_MESSAGE_CHARS = 300
 _SAYS = "ezdxf says: "
 
 
-class _ReaderLog(logging.Handler):
-    """Turns ezdxf's log records of level WARNING and above into D114
-    findings (the first :data:`MAX_READER_MESSAGES`, then a count)."""
+class _ReaderMessages:
+    """ezdxf's log records of level WARNING and above as D114 findings (the
+    first :data:`MAX_READER_MESSAGES`, then a count); fed by a
+    :class:`logging.Handler` while ezdxf reads (:func:`_ezdxf_messages`)."""
 
     def __init__(self) -> None:
-        super().__init__(logging.WARNING)
         self.findings: list[Finding] = []
         self.more = 0
 
-    def emit(self, record: logging.LogRecord) -> None:
+    def add(self, record: logging.LogRecord) -> None:
         if len(self.findings) >= MAX_READER_MESSAGES:
             self.more += 1
             return
@@ -1148,21 +1151,39 @@ class _ReaderLog(logging.Handler):
 
 
 @contextlib.contextmanager
-def _ezdxf_messages() -> Iterator[_ReaderLog]:
+def _ezdxf_messages() -> Iterator[_ReaderMessages]:
     """Route ezdxf's log records into findings while the block runs (and
-    nowhere else: they do not reach standard error in their own format)."""
-    logger = logging.getLogger("ezdxf")
-    saved = (logger.handlers[:], logger.propagate, logger.level)
-    handler = _ReaderLog()
-    logger.handlers = [handler]
-    logger.propagate = False
-    if logger.level == logging.NOTSET or logger.level > logging.WARNING:
-        logger.setLevel(logging.WARNING)
+    nowhere else: they do not reach standard error in their own format).
+    The route is laid when ezdxf is loaded (at once if it is already): a
+    drawing the fast reader reads loads neither ezdxf nor ``logging``."""
+    messages = _ReaderMessages()
+    saved: list[tuple[list[logging.Handler], bool, int]] = []
+
+    def lay() -> None:
+        import logging
+
+        class _ToFindings(logging.Handler):
+            def emit(self, record: logging.LogRecord) -> None:
+                messages.add(record)
+
+        logger = logging.getLogger("ezdxf")
+        saved.append((logger.handlers[:], logger.propagate, logger.level))
+        logger.handlers = [_ToFindings(logging.WARNING)]
+        logger.propagate = False
+        if logger.level == logging.NOTSET or logger.level > logging.WARNING:
+            logger.setLevel(logging.WARNING)
+
+    cancel = when_imported("ezdxf", lay)
     try:
-        yield handler
+        yield messages
     finally:
-        logger.handlers, logger.propagate = saved[0], saved[1]
-        logger.setLevel(saved[2])
+        cancel()
+        if saved:
+            import logging
+
+            logger = logging.getLogger("ezdxf")
+            logger.handlers, logger.propagate = saved[0][0], saved[0][1]
+            logger.setLevel(saved[0][2])
 
 
 def _open(path: Path, config: Config, max_bytes: int | None, reader: str) -> tuple[Any, list[Finding]]:
