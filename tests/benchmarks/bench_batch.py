@@ -66,16 +66,16 @@ def main() -> None:
     print(f"  2 workers: {times[2]:7.2f} s ({n / times[2]:.1f} drawings/s)")
     print(f"  speed-up : {times[1] / times[2]:7.2f}x (2.0 would be linear)")
     print(f"  rerun from the cache: {cached:.2f} s ({times[2] / cached:.1f}x faster than checking)")
-    print("per-drawing cost in a warm worker (its own check time, median):")
+    _print_warm("per-drawing cost in a warm worker (its own check time, median):", warm)
+    _print_warm("the same with the demos' project file (their specs judged):", spec_warm)
+
+
+def _print_warm(title: str, warm: dict[str, list[float]]) -> None:
+    """Median per demo and mean over all of per-drawing times [s], in ms."""
+    print(title)
     for name, secs in warm.items():
         print(f"  {name:16s}: {statistics.median(secs) * 1000:6.1f} ms")
     every = [t for secs in warm.values() for t in secs]
-    mean_ms = statistics.fmean(every) * 1000
-    print(f"  mean over all    : {mean_ms:6.1f} ms (target <= 15 ms: {'met' if mean_ms <= 15 else 'NOT met'})")
-    print("the same with the demos' project file (their specs judged):")
-    for name, secs in spec_warm.items():
-        print(f"  {name:16s}: {statistics.median(secs) * 1000:6.1f} ms")
-    every = [t for secs in spec_warm.values() for t in secs]
     mean_ms = statistics.fmean(every) * 1000
     print(f"  mean over all    : {mean_ms:6.1f} ms (target <= 15 ms: {'met' if mean_ms <= 15 else 'NOT met'})")
 
