@@ -134,6 +134,8 @@ def _band_det_sign(mech: Mechanism, models: dict[str, ContactModel], direction: 
         return _sign(a[[i for i in range(a.shape[0]) if i not in dropped]])
 
     def signs(mus: Sequence[float]) -> list[float]:
+        if not mus:
+            return []
         stack = band_column_stack(base, mech, mus, direction, index)
         kept = _kept_rows(stack)
         if kept is None:  # the identities 0 = 0 differ between the μ: one at a time
