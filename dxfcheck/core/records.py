@@ -14,16 +14,34 @@ once, with the frozen dataclass's behaviour:
 * ``==`` -- the tuples of the fields with ``compare=True``, for two objects
   of the same class (otherwise ``NotImplemented``); ``hash`` -- of that
   tuple (fields with ``hash=False`` left out, as the standard library does);
-* assigning or deleting an attribute raises
-  :class:`dataclasses.FrozenInstanceError` with the standard library's
-  message; ``__init__`` sets each field once, which is the only assignment
-  allowed (``__post_init__`` may still use ``object.__setattr__``).
+  a ``__repr__``, ``__eq__`` or ``__hash__`` the body defines is kept, and a
+  body with ``__eq__`` alone still gets the fields' hash, as there;
+* assigning or deleting a field, a ``ClassVar`` or ``InitVar`` name or any
+  other attribute raises :class:`dataclasses.FrozenInstanceError` with the
+  standard library's message (a plain subclass's own attributes excepted,
+  as there); ``__init__`` sets each field it sets once, which is the only
+  assignment allowed (``__post_init__`` may still use
+  ``object.__setattr__``, for a ``field(init=False)`` too).
 
 Everything else is the standard library's: :func:`dataclasses.fields`,
 :func:`~dataclasses.replace`, :func:`~dataclasses.asdict`, ``__match_args__``,
 defaults and factories, pickling and copying.  A test builds the standard
-library's frozen twin of every record the demos' solutions hold and compares
-the two (``tests/core/test_records.py``).
+library's frozen twin of every record the demos' solutions hold, and of a
+catalogue of class bodies, and compares the two (``tests/core/test_records.py``).
+
+Where a record differs, it says so when the class is defined, except for
+the last point:
+
+* a body defining ``__setattr__`` or ``__delattr__``, or ``__slots__``, and a
+  field that is a descriptor or a base class's slot, are refused (a record
+  holds plain values in its instance dict);
+* the decorator takes no option but ``frozen=True`` (``order``, ``slots``,
+  ``kw_only``... are refused; ``KW_ONLY`` and ``field(kw_only=True)`` work);
+* records inherit from records and plain classes; they do not mix with the
+  standard library's dataclasses in one hierarchy (its frozen dataclass
+  refuses a record base, as a record refuses its base, because
+  ``__dataclass_params__`` shows how the standard library was called:
+  ``frozen=False``; a test keeps dxfcheck free of such mixes).
 
 Type checkers see ``@record(frozen=True)`` as ``@dataclass(frozen=True)``
 (the name is the standard decorator for them), so the static view is exact.
@@ -53,9 +71,13 @@ _T = TypeVar("_T")
 _REPR_NAMES = "__record_repr_names__"
 _COMPARED = "__record_compared__"
 _HASHED = "__record_hashed__"
+#: The fields ``__init__`` assigns (the only names assigned, once each), and
+#: every field name (assignment refused), of a record class itself.
+_SETTABLE = "__record_settable__"
+_FIELD_NAMES = "__record_field_names__"
 
-#: The methods :func:`record` gives; a record's body may not define them.
-_GIVEN = ("__repr__", "__eq__", "__hash__", "__setattr__", "__delattr__")
+#: The methods a record's body may not define (as for a frozen dataclass).
+_REFUSED = ("__setattr__", "__delattr__")
 
 
 def _tuple_getter(names: tuple[str, ...]) -> Callable[[Any], tuple[Any, ...]]:
@@ -85,33 +107,74 @@ def _hash(self: Any) -> int:
     return hash(getattr(self, _HASHED)(self))
 
 
+def _own_record(obj: Any) -> bool:
+    """Whether ``obj``'s class is a record itself (not a plain subclass of one)."""
+    return _SETTABLE in type(obj).__dict__
+
+
 def _setattr(self: Any, name: str, value: object) -> None:
     values = self.__dict__
-    if name in values or name not in self.__dataclass_fields__:
+    if name in getattr(self, _SETTABLE) and name not in values:
+        values[name] = value  # the one assignment, by __init__
+    elif _own_record(self) or name in getattr(self, _FIELD_NAMES):
         raise dataclasses.FrozenInstanceError(f"cannot assign to field {name!r}")
-    values[name] = value  # the one assignment, by __init__
+    else:  # a plain subclass's own attribute, as the standard library allows
+        object.__setattr__(self, name, value)
 
 
 def _delattr(self: Any, name: str) -> None:
-    raise dataclasses.FrozenInstanceError(f"cannot delete field {name!r}")
+    if _own_record(self) or name in getattr(self, _FIELD_NAMES):
+        raise dataclasses.FrozenInstanceError(f"cannot delete field {name!r}")
+    object.__delattr__(self, name)
+
+
+def _explicit_hash(cls: type) -> bool:
+    """Whether the body defines ``__hash__`` (the standard library's test: a
+    body with ``__eq__`` alone gets ``__hash__ = None`` from Python, which
+    does not count)."""
+    given = cls.__dict__.get("__hash__", dataclasses.MISSING)
+    return not (given is dataclasses.MISSING or (given is None and "__eq__" in cls.__dict__))
+
+
+def _refuse(cls: type, made: type) -> None:
+    """Refuse what the shared methods cannot serve as the standard library would."""
+    refused = [name for name in _REFUSED if name in cls.__dict__]
+    if refused:  # the standard library refuses these on a frozen class too
+        raise TypeError(f"Cannot overwrite attribute {refused[0]} in class {cls.__name__}")
+    if "__slots__" in cls.__dict__:
+        raise TypeError(f"record {cls.__qualname__}: a record keeps its fields in the instance dict, not __slots__")
+    for f in dataclasses.fields(made):
+        held = next((k.__dict__[f.name] for k in made.__mro__ if f.name in k.__dict__), None)
+        if hasattr(type(held), "__set__") or hasattr(type(held), "__delete__"):
+            raise TypeError(
+                f"record {cls.__qualname__}: field {f.name!r} is a descriptor or a slot (a record holds plain values)"
+            )
 
 
 def _make(cls: type[_T]) -> type[_T]:
-    given = [name for name in _GIVEN if name in cls.__dict__]
-    if given:
-        raise TypeError(f"record {cls.__qualname__} defines {', '.join(given)}; a record gives these itself")
+    hashed_given = _explicit_hash(cls)
     made = dataclasses.dataclass(cls, repr=False, eq=False)
+    _refuse(cls, made)
     fields = dataclasses.fields(made)  # type: ignore[arg-type]
-    unset = [f.name for f in fields if not f.init and f.default is dataclasses.MISSING]
-    if unset or "__slots__" in cls.__dict__:
-        raise TypeError(f"record {cls.__qualname__}: every field is set by __init__ and no __slots__ ({unset})")
     compared = tuple(f.name for f in fields if f.compare)
     hashed = tuple(f.name for f in fields if (f.compare if f.hash is None else f.hash))
+    settable = frozenset(f.name for f in fields if f.init or f.default_factory is not dataclasses.MISSING)
+    setattr(made, _SETTABLE, settable)
+    setattr(made, _FIELD_NAMES, frozenset(f.name for f in fields))
     setattr(made, _REPR_NAMES, tuple(f.name for f in fields if f.repr))
     setattr(made, _COMPARED, staticmethod(_tuple_getter(compared)))
     setattr(made, _HASHED, staticmethod(_tuple_getter(hashed)))
-    for name, method in zip(_GIVEN, (_repr, _eq, _hash, _setattr, _delattr), strict=True):
-        setattr(made, name, method)
+    given = {  # a method the body defines is kept, as the standard library keeps it
+        "__repr__": "__repr__" in cls.__dict__,
+        "__eq__": "__eq__" in cls.__dict__,
+        "__hash__": hashed_given,
+        "__setattr__": False,
+        "__delattr__": False,
+    }
+    methods = {"__repr__": _repr, "__eq__": _eq, "__hash__": _hash, "__setattr__": _setattr, "__delattr__": _delattr}
+    for name, method in methods.items():
+        if not given[name]:
+            setattr(made, name, method)
     return made
 
 
