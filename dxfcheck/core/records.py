@@ -72,7 +72,7 @@ _REPR_NAMES = "__record_repr_names__"
 _COMPARED = "__record_compared__"
 _HASHED = "__record_hashed__"
 #: The fields ``__init__`` assigns (the only names assigned, once each), and
-#: every field name (assignment refused), of a record class itself.
+#: every field's name (never assigned, even on a plain subclass).
 _SETTABLE = "__record_settable__"
 _FIELD_NAMES = "__record_field_names__"
 
@@ -164,16 +164,11 @@ def _make(cls: type[_T]) -> type[_T]:
     setattr(made, _REPR_NAMES, tuple(f.name for f in fields if f.repr))
     setattr(made, _COMPARED, staticmethod(_tuple_getter(compared)))
     setattr(made, _HASHED, staticmethod(_tuple_getter(hashed)))
-    given = {  # a method the body defines is kept, as the standard library keeps it
-        "__repr__": "__repr__" in cls.__dict__,
-        "__eq__": "__eq__" in cls.__dict__,
-        "__hash__": hashed_given,
-        "__setattr__": False,
-        "__delattr__": False,
-    }
+    # a repr, eq or hash the body defines is kept, as the standard library keeps it
+    kept = {"__repr__": "__repr__" in cls.__dict__, "__eq__": "__eq__" in cls.__dict__, "__hash__": hashed_given}
     methods = {"__repr__": _repr, "__eq__": _eq, "__hash__": _hash, "__setattr__": _setattr, "__delattr__": _delattr}
     for name, method in methods.items():
-        if not given[name]:
+        if not kept.get(name, False):
             setattr(made, name, method)
     return made
 
