@@ -11,7 +11,20 @@ real drum brakes.
 from __future__ import annotations
 
 from dxfcheck.mechanism.build import LIES_ON_RTOL, build_mechanism, default_tolerance
-from dxfcheck.mechanism.model import FRAME, Band, BandKind, Drum, Load, Mechanism, Mounting, Part, Pin, Shoe, Spring
+from dxfcheck.mechanism.model import (
+    FRAME,
+    Band,
+    BandKind,
+    Drum,
+    Guide,
+    Load,
+    Mechanism,
+    Mounting,
+    Part,
+    Pin,
+    Shoe,
+    Spring,
+)
 
 __all__ = [
     "FRAME",
@@ -19,6 +32,7 @@ __all__ = [
     "Band",
     "BandKind",
     "Drum",
+    "Guide",
     "Load",
     "Mechanism",
     "Mounting",

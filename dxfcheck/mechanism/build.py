@@ -32,6 +32,7 @@ from dataclasses import replace
 from dxfcheck.core.config import Role
 from dxfcheck.core.findings import Code, Finding
 from dxfcheck.mechanism.bands import build_bands
+from dxfcheck.mechanism.guides import build_guides
 from dxfcheck.mechanism.layers import layer_findings, missing_role_note, searched
 from dxfcheck.mechanism.loads import build_loads
 from dxfcheck.mechanism.model import Drum, Load, Mechanism, Part, Pin, Spring
@@ -126,18 +127,20 @@ def build_mechanism(
     part_pins = _part_pins(part_names, pins)
     on_parts = ShoeParts(part_names, part_pins, _loaded(loads, springs))
     shoes, f_shoes = build_shoes(drawing, drum, topo, on_parts, namer, has_bands=bool(bands))
+    parts = _parts(topo, part_names, part_pins)
     mech = Mechanism(
         drawing=drawing,
         tolerance_mm=tol,
         length_scale_mm=drawing.extent_mm(),
         drum=drum,
         pins=pins,
-        parts=_parts(topo, part_names, part_pins),
+        parts=parts,
         shoes=shoes,
         loads=loads,
         findings=(*drawing.findings, *f_drum, *f_parts, *f_labels, *f_pins, *f_loads, *f_springs, *f_bands, *f_shoes),
         springs=springs,
         bands=bands,
         labelled_names=namer.labelled_names,
+        guides=build_guides(springs, parts, pins, tol),
     )
     return replace(mech, findings=(*mech.findings, *layer_findings(mech)))  # layers that look like a role's

@@ -14,7 +14,20 @@ from dxfcheck.core.geometry import Point, dist, point_segment_distance
 from dxfcheck.core.records import record
 from dxfcheck.read.drawing import ArcGeom, Drawing, Source
 
-__all__ = ["FRAME", "Band", "BandKind", "Drum", "Load", "Mechanism", "Mounting", "Part", "Pin", "Shoe", "Spring"]
+__all__ = [
+    "FRAME",
+    "Band",
+    "BandKind",
+    "Drum",
+    "Guide",
+    "Load",
+    "Mechanism",
+    "Mounting",
+    "Part",
+    "Pin",
+    "Shoe",
+    "Spring",
+]
 
 #: Name of the fixed body (the machine frame and the drum's bearings).
 FRAME = "frame"
@@ -199,6 +212,41 @@ class Spring:
 
 
 @record(frozen=True)
+class Guide:
+    """A rod passing through a hole in another part, where a spring sits on
+    that part (a pull rod through a lever, its setting spring seated on the
+    lever): the part holds the rod across its axis and the rod slides along
+    it, so the one force between them is normal to the rod, with no
+    component along it and no moment (a frictionless sliding guide).
+
+    Attributes
+    ----------
+    name : str
+    rod, part : str
+        The part that passes through, and the part with the hole.
+    at_mm : Point
+        Where the rod's centreline crosses the part [mm]: the spring's seat.
+    axis : Point
+        Unit vector along the rod there.
+    spring : str
+        The spring seated there.
+    """
+
+    name: str
+    rod: str
+    part: str
+    at_mm: Point
+    axis: Point
+    spring: str
+
+    @property
+    def normal(self) -> Point:
+        """Unit vector across the rod (its axis turned 90° counter-clockwise):
+        the direction of a positive guide force on the rod."""
+        return (-self.axis[1], self.axis[0])
+
+
+@record(frozen=True)
 class Band:
     """A flexible band wrapped on the drum.
 
@@ -255,6 +303,8 @@ class Mechanism:
     pins, parts, shoes, loads : tuple
     findings : tuple of Finding
         Reading and topology findings.
+    springs, bands, guides : tuple
+    labelled_names : frozenset of str
     """
 
     drawing: Drawing
@@ -269,6 +319,7 @@ class Mechanism:
     springs: tuple[Spring, ...] = field(default=())
     bands: tuple[Band, ...] = field(default=())
     labelled_names: frozenset[str] = field(default=frozenset())
+    guides: tuple[Guide, ...] = field(default=())
 
     @property
     def family(self) -> str:

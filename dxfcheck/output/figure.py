@@ -114,7 +114,7 @@ def force_text(f_N: float) -> str:
 class Arrow:
     """One force arrow: ``ref`` names the result field it draws
     (``shoe/NAME/normal``, ``shoe/NAME/friction``, ``pin/NAME``,
-    ``load/NAME``, ``spring/NAME/END``, ``band/NAME/END``); ``at_mm`` the
+    ``load/NAME``, ``spring/NAME/END``, ``band/NAME/END``, ``guide/NAME``); ``at_mm`` the
     point of application [mm], ``force_N`` the solver's vector [N],
     ``length_mm`` the drawn length [mm]."""
 
@@ -165,6 +165,8 @@ def _arrows(mech: Mechanism, case: CaseSolution, size_mm: float) -> tuple[list[A
     for sp in case.springs:
         for i, e in enumerate(sp.ends):
             raw.append((f"spring/{sp.name}/{i}", f"spring {sp.name}", e.at_mm, e.force_N))
+    for g in case.guides:
+        raw.append((f"guide/{g.name}", f"{g.name} on {g.rod}", g.at_mm, g.force_N))
     pins = {p.name: p.center for p in mech.pins}
     for b in case.bands:
         for i, be in enumerate(b.ends):

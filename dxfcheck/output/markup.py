@@ -104,7 +104,7 @@ class Arrow:
     Attributes
     ----------
     kind : str
-        ``pin``, ``normal``, ``friction``, ``load``, ``band`` or ``spring``.
+        ``pin``, ``normal``, ``friction``, ``load``, ``band``, ``spring`` or ``guide``.
     name : str
         What it belongs to (pin, shoe or load name).
     tail, head : Point
@@ -269,6 +269,16 @@ def _spring_forces(case: CaseSolution) -> list[_Force]:
     return out
 
 
+def _guide_forces(case: CaseSolution) -> list[_Force]:
+    """Each guide's force on its rod (the part with the hole takes the
+    opposite); a guide that carries nothing draws no arrow."""
+    return [
+        ("guide", g.name, g.at_mm, g.force_N, f"{g.name} on {g.rod} {_fmt_force(math.hypot(*g.force_N))}")
+        for g in case.guides
+        if g.force_N != (0.0, 0.0)
+    ]
+
+
 def _arrows(forces: list[_Force], drum_d: float) -> tuple[float, str, tuple[Arrow, ...]]:
     """The round scale [mm/N] that makes the largest force
     :data:`ARROW_FRACTION` of the drum diameter, its text, and the arrows."""
@@ -363,6 +373,7 @@ def plan_markup(
         *_load_forces(case),
         *_band_forces(case, mech),
         *_spring_forces(case),
+        *_guide_forces(case),
     ]
     mm_per_N, scale_text, arrows = _arrows(forces, drum_d)
     curves = _pressure_curves(case, mech.drum, drum_d) if mech.drum is not None else ()

@@ -232,6 +232,10 @@ def case_to_dict(c: CaseSolution) -> dict[str, Any]:
         "members": [_member_result(m) for m in c.members],
         "bands": [_band_result(b) for b in c.bands],
         "springs": [_spring_result(s) for s in c.springs],
+        "guides": [
+            {"name": g.name, "rod": g.rod, "part": g.part, "at_mm": _point(g.at_mm), "force_N": _point(g.force_N)}
+            for g in c.guides
+        ],
         "effort_scale": c.effort_scale,
         "loads": [_load_result(ld) for ld in c.loads],
         "drum_load_N": _point(c.drum_load_N),

@@ -290,6 +290,13 @@ def _print_case(console: Any, c: CaseSolution) -> None:
         console.print(_band_table(c))
     if c.springs and c.effort_scale is None:
         console.print("springs: " + _springs_text(c))
+    if c.guides:
+        console.print(
+            "guides (the part's push on the rod, across it): "
+            + ", ".join(
+                f"{_esc(g.name)} {_esc(g.rod)} through {_esc(g.part)} {math.hypot(*g.force_N):.1f} N" for g in c.guides
+            )
+        )
     console.print(_pin_table(c))
     if c.members:
         console.print(_member_table(c))

@@ -19,7 +19,6 @@ from dxfcheck.core.directions import Direction
 from dxfcheck.core.findings import Code, Finding, Severity
 from dxfcheck.core.geometry import Point
 from dxfcheck.mechanism.model import Mechanism, Mounting
-from dxfcheck.mechanism.topology import fmt_point
 from dxfcheck.statics.equations import Balance, ColumnKind, RowKind, RowOwner, System
 
 if TYPE_CHECKING:  # numpy.typing costs a tenth of numpy's import; annotations only
@@ -201,7 +200,6 @@ def _free_motions(
     verb = "can move under the loads" if excited else "can move freely (the loads do not drive it)"
     around = f" (around pins {', '.join(pin_names)})" if pin_names else ""
     causes = _probable_causes(mech, null, owners)
-    guided = [] if excited else _rods_through_parts(mech, moving)
     count = null.shape[1]
     return [
         Finding(
@@ -213,8 +211,6 @@ def _free_motions(
                 + ", ".join(f"{f.code.id} {f.code.slug}" + _at_text(f.at) for f in causes)
                 + " (listed below)"
                 if causes
-                else _guide_advice(guided)
-                if guided
                 else "add the pin or link that holds it"
             ),
             h,
@@ -223,31 +219,6 @@ def _free_motions(
             Severity.ERROR if excited else Severity.WARNING,
         )
     ]
-
-
-def _rods_through_parts(mech: Mechanism, moving: Sequence[str]) -> list[str]:
-    """Each moving part that carries one end of a spring and passes through
-    the part holding its other end, there (a pull rod through a lever's
-    hole, the spring seated on the lever): '<rod> through <part> at (x, y)'."""
-    parts = {p.name: p for p in mech.parts}
-    out: list[str] = []
-    for sp in mech.springs:
-        for k in (0, 1):
-            seat, rod = sp.parts[k], sp.parts[1 - k]
-            at = sp.ends[k]
-            if seat is None or rod is None or seat == rod or rod not in moving or rod not in parts:
-                continue
-            if parts[rod].distance_to(at) <= mech.tolerance_mm:
-                out.append(f"{rod} through {seat} at {fmt_point(at)}, where {sp.name} sits")
-    return list(dict.fromkeys(out))
-
-
-def _guide_advice(guided: Sequence[str]) -> str:
-    """What an undriven free motion of a guided rod means: not a missing pin."""
-    return (
-        f"the turn is the guide of {'; '.join(guided)}, which dxfcheck does not model yet: "
-        "nothing drives it, so the forces found stand (a known gap; `solve --samples` refuses the drawing)"
-    )
 
 
 def _redundancy(mech: Mechanism, sys_: System, v: NDArray[np.float64], direction: Direction) -> Finding:

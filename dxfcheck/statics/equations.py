@@ -87,11 +87,12 @@ class RowOwner(NamedTuple):
 
 class ColumnKind(enum.StrEnum):
     """What an unknown is: a pin's force on a body, a shoe's contact
-    coefficient, a band's slack tension."""
+    coefficient, a band's slack tension, a guide's force across its rod."""
 
     PIN = "pin"
     SHOE = "shoe"
     BAND = "band"
+    GUIDE = "guide"
 
 
 class Axis(enum.IntEnum):
@@ -232,7 +233,8 @@ def contact_models(
 class _Frame(NamedTuple):
     """What the equations take from the mechanism alone (not from μ, the
     direction or the contact models): the rows, the reference points, the
-    pin and band columns, the pin columns' entries, the right-hand side."""
+    pin, band and guide columns, the pin and guide columns' entries, the
+    right-hand side."""
 
     rows: list[RowOwner]
     row_index: dict[RowOwner, int]
@@ -241,6 +243,8 @@ class _Frame(NamedTuple):
     band_cols: list[ColumnOwner]
     pin_block: NDArray[np.float64]
     b: NDArray[np.float64]
+    guide_cols: list[ColumnOwner]
+    guide_block: NDArray[np.float64]
 
 
 #: The last mechanism's frame, by identity (the model is frozen): the solves
@@ -263,7 +267,10 @@ def _frame(mech: Mechanism) -> _Frame:
     pin_block = np.zeros((len(rows), len(pin_cols)))
     _pin_columns(mech, pin_block, pin_cols, index, refs)
     band_cols = [ColumnOwner(ColumnKind.BAND, band.name) for band in mech.bands]
-    frame = _Frame(rows, index, refs, pin_cols, band_cols, pin_block, _applied(mech, len(rows), index, refs))
+    guide_cols = [ColumnOwner(ColumnKind.GUIDE, g.name) for g in mech.guides]
+    guide_block = _guide_block(mech, len(rows), index, refs)
+    applied = _applied(mech, len(rows), index, refs)
+    frame = _Frame(rows, index, refs, pin_cols, band_cols, pin_block, applied, guide_cols, guide_block)
     _LAST_FRAME[:] = [(mech, frame)]
     return frame
 
@@ -276,9 +283,10 @@ def assemble(mech: Mechanism, models: dict[str, ContactModel], mu: float, direct
     rows, index, refs = fr.rows, fr.row_index, fr.refs
     bases = {sh.name: models[sh.name].basis(mu, direction) for sh in mech.shoes}
     shoe_cols = [ColumnOwner(ColumnKind.SHOE, s.name, basis=k) for s in mech.shoes for k in range(len(bases[s.name]))]
-    cols = fr.pin_cols + shoe_cols + fr.band_cols  # the order of column_owners
+    cols = fr.pin_cols + shoe_cols + fr.band_cols + fr.guide_cols  # the order of column_owners
     a = np.zeros((len(rows), len(cols)))
     a[:, : len(fr.pin_cols)] = fr.pin_block
+    a[:, len(cols) - len(fr.guide_cols) :] = fr.guide_block
     findings = _shoe_columns(mech, a, cols, index, refs, bases)
     _band_columns(mech, a, cols, index, mu, direction)
     b = fr.b.copy()
@@ -336,11 +344,13 @@ def row_owners(mech: Mechanism) -> list[RowOwner]:
 
 def column_owners(mech: Mechanism, bases: dict[str, tuple[ContactWrench, ...]]) -> list[ColumnOwner]:
     """Every pin's force on each body it joins (x, y), then every shoe's
-    contact coefficients, then every band's slack tension."""
+    contact coefficients, then every band's slack tension, then every
+    guide's force across its rod."""
     return (
         [ColumnOwner(ColumnKind.PIN, p.name, body, axis) for p in mech.pins for body in p.bodies for axis in Axis]
         + [ColumnOwner(ColumnKind.SHOE, s.name, basis=k) for s in mech.shoes for k in range(len(bases[s.name]))]
         + [ColumnOwner(ColumnKind.BAND, band.name) for band in mech.bands]
+        + [ColumnOwner(ColumnKind.GUIDE, g.name) for g in mech.guides]
     )
 
 
@@ -401,6 +411,28 @@ def _shoe_columns(
         a[ry, c] = w.force[1]
         a[rm, c] = w.moment_about(refs[part]) / L
     return findings
+
+
+def _guide_block(
+    mech: Mechanism, n_rows: int, index: dict[RowOwner, int], refs: dict[str, Point]
+) -> NDArray[np.float64]:
+    """Each guide's force across its rod, one unknown: along the guide's
+    normal on the rod, the opposite on the part with the hole, both at the
+    crossing (force and moment balance of each, moments about each body's
+    reference point, divided by the length scale)."""
+    L = mech.length_scale_mm
+    block = np.zeros((n_rows, len(mech.guides)))
+    for c, g in enumerate(mech.guides):
+        nx, ny = g.normal
+        for body, sign in ((g.rod, 1.0), (g.part, -1.0)):
+            if body == FRAME:
+                continue
+            fx, fy = sign * nx, sign * ny
+            rx, ry = g.at_mm[0] - refs[body][0], g.at_mm[1] - refs[body][1]
+            block[index[RowOwner(RowKind.BODY, body, Balance.FX)], c] = fx
+            block[index[RowOwner(RowKind.BODY, body, Balance.FY)], c] = fy
+            block[index[RowOwner(RowKind.BODY, body, Balance.MOMENT)], c] = (rx * fy - ry * fx) / L
+    return block
 
 
 def _band_columns(

@@ -270,10 +270,10 @@ class Release:
 
 def free_motions(mech: Mechanism) -> list[Motion]:
     """An orthonormal basis (over the equations' rows) of the small motions
-    the pin joints allow, the drum contacts left free."""
+    the pin joints and the guides allow, the drum contacts left free."""
     models, _ = contact_models(mech)
     sys_ = assemble(mech, models, 0.0, Direction.CW)
-    pin_cols = [j for j, _ in sys_.columns(ColumnKind.PIN)]
+    pin_cols = [j for j, o in enumerate(sys_.col_owner) if o.kind in (ColumnKind.PIN, ColumnKind.GUIDE)]
     n = len(sys_.row_owner)
     if pin_cols:
         u, s, _ = np.linalg.svd(sys_.a[:, pin_cols], full_matrices=True)

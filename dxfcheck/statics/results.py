@@ -20,6 +20,7 @@ __all__ = [
     "BandEnd",
     "BandResult",
     "CaseSolution",
+    "GuideResult",
     "LoadResult",
     "MemberResult",
     "PartDiagram",
@@ -231,6 +232,20 @@ class SpringResult:
 
 
 @record(frozen=True)
+class GuideResult:
+    """A guide's force (:class:`dxfcheck.mechanism.model.Guide`): the part
+    with the hole pushes the rod with ``force_N`` [N] at ``at_mm`` [mm],
+    across the rod (normal to its axis); the rod pushes the part with the
+    opposite force."""
+
+    name: str
+    rod: str
+    part: str
+    at_mm: Point
+    force_N: Point
+
+
+@record(frozen=True)
 class MemberResult:
     """A two-force member's axial force ``axial_N`` [N], tension positive,
     between ``ends`` (two pins, or a pin and a spring or load that acts on
@@ -353,6 +368,8 @@ class CaseSolution:
     #: The resultant [N] of every force the shoes and bands put on the drum
     #: (the drum shaft's load; its bearings take the opposite).
     drum_load_N: Point | None = None
+    #: Each guide's force on its rod (a rod through a lever's hole).
+    guides: tuple[GuideResult, ...] = ()
 
     @property
     def brakes(self) -> bool:

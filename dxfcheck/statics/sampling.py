@@ -163,6 +163,12 @@ class _Parts:
     what scales with μ, with e^(μθ), and with the pin positions."""
 
     def __init__(self, mech: Mechanism, direction: Direction, options: ContactOptions) -> None:
+        if mech.guides:
+            g = mech.guides[0]
+            raise ConfigError(
+                f"sampling does not yet move a guide with the pins: {g.rod} through {g.part} at "
+                f"({g.at_mm[0]:g}, {g.at_mm[1]:g}) (solve and check take the drawing as drawn)"
+            )
         models, _ = contact_models(mech, options)  # fresh models: every lining in full contact
         s0 = assemble(mech, models, 0.0, direction)
         s1 = assemble(mech, models, 1.0, direction)

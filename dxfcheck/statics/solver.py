@@ -74,6 +74,7 @@ from dxfcheck.statics.results import (
     BandEnd,
     BandResult,
     CaseSolution,
+    GuideResult,
     LoadResult,
     MemberResult,
     PinResult,
@@ -103,6 +104,10 @@ PATCH_ITERATIONS = 30
 NMM_PER_NM = 1000.0
 #: Stands in for the largest force when there is none [N] (no division by 0).
 TINY_FORCE_N = 1e-300
+#: A guide's force at most this fraction of the largest other force on its
+#: rod is no force point: the rod stays a two-force member (a spring on the
+#: rod's axis leaves the guide nothing to carry but rounding) [-].
+GUIDE_IDLE_RTOL = 1e-9
 
 
 def _settle_contact(
@@ -392,6 +397,7 @@ def _results(
     """The results of one solve; ``options`` None skips the self-locking
     search."""
     att = _attachments(sys_, x)
+    guides = _guide_results(mech, sys_, x)
     shoes = tuple(
         _shoe_result(mech, s, models[s.name], sys_.bases[s.name], coefficients(sys_, x, s.name), mu) for s in mech.shoes
     )
@@ -405,7 +411,7 @@ def _results(
         torque_Nm=sum(s.torque_Nm for s in shoes) + sum(b.torque_Nm for b in bands),
         shoes=shoes,
         pins=_pin_results(mech, att),
-        members=_member_results(mech, att),
+        members=_member_results(mech, att, guides),
         loads=loads,
         critical_mu=mu_c,
         residual=residual,
@@ -413,7 +419,19 @@ def _results(
         findings=tuple(findings),
         bands=bands,
         springs=_spring_results(mech),
+        guides=guides,
     )
+
+
+def _guide_results(mech: Mechanism, sys_: System, x: NDArray[np.float64]) -> tuple[GuideResult, ...]:
+    """Each guide's force on its rod: its unknown along the guide's normal."""
+    guides = {g.name: g for g in mech.guides}
+    out = []
+    for j, o in sys_.columns(ColumnKind.GUIDE):
+        g = guides[o.name]
+        force = float(x[j]) * g.normal[0] + 0.0, float(x[j]) * g.normal[1] + 0.0  # + 0.0: no negative zero
+        out.append(GuideResult(g.name, g.rod, g.part, g.at_mm, force))
+    return tuple(out)
 
 
 def _attachments(sys_: System, x: NDArray[np.float64]) -> dict[str, list[Attachment]]:
@@ -450,17 +468,24 @@ def _pin_results(mech: Mechanism, att: dict[str, list[Attachment]]) -> tuple[Pin
     return tuple(pins)
 
 
-def _member_results(mech: Mechanism, att: dict[str, list[Attachment]]) -> tuple[MemberResult, ...]:
+def _member_results(
+    mech: Mechanism, att: dict[str, list[Attachment]], guides: tuple[GuideResult, ...] = ()
+) -> tuple[MemberResult, ...]:
     """The two-force members (no shoe, exactly two points where forces act:
     two pins, or a pin and a spring's end or a load, such as a pull rod with
-    the setting spring on its nut): their axial force, positive in tension."""
+    the setting spring on its nut, a guide that carries a force counting as
+    a third): their axial force, positive in tension."""
     shoe_parts = {s.part for s in mech.shoes}
     members: list[MemberResult] = []
     for part in mech.parts:
         if part.name in shoe_parts:
             continue
         points = _force_points(mech, att, part.name)
-        if len(points) != 2:
+        largest = max((math.hypot(*f) for _, _, f in points), default=0.0)
+        carried = [
+            g for g in guides if part.name in (g.rod, g.part) and math.hypot(*g.force_N) > GUIDE_IDLE_RTOL * largest
+        ]
+        if len(points) + len(carried) != 2:
             continue
         (na, pa, _), (nb, pb, fb) = points
         length = dist(pa, pb)
