@@ -56,6 +56,7 @@ if TYPE_CHECKING:  # the static view of the lazily loaded names below
     from dxfcheck.statics.contact import ContactOptions, ShoeModelChoice
     from dxfcheck.statics.results import (
         BandResult,
+        GuideResult,
         LoadResult,
         MemberResult,
         PinResult,
@@ -112,6 +113,7 @@ _LAZY = {
     "BandResult": "dxfcheck.statics.results",
     "MemberResult": "dxfcheck.statics.results",
     "SpringResult": "dxfcheck.statics.results",
+    "GuideResult": "dxfcheck.statics.results",
     "LoadResult": "dxfcheck.statics.results",
     "Sketch": "dxfcheck.output.sketch",
 }
@@ -146,6 +148,7 @@ __all__ = [
     "DrawingReadError",
     "DxfcheckError",
     "Finding",
+    "GuideResult",
     "Judgement",
     "LimitError",
     "LoadResult",
