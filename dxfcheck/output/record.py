@@ -339,9 +339,10 @@ def free_body(
     for sp in c.springs:
         for e in sp.ends:
             add(e.part, f"spring {sp.name}", e.at_mm, e.force_N)
-    for g in c.guides:  # on the rod, and the opposite on the part with the hole
-        add(g.rod, f"guide {g.name} ({g.part})", g.at_mm, g.force_N)
-        add(g.part, f"guide {g.name} ({g.rod})", g.at_mm, (-g.force_N[0], -g.force_N[1]))
+    for g in c.guides:
+        (rod, on_rod), (part, on_part) = g.on_parts()
+        add(rod, f"guide {g.name} ({part})", g.at_mm, on_rod)
+        add(part, f"guide {g.name} ({rod})", g.at_mm, on_part)
     return out
 
 

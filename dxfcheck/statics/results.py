@@ -244,6 +244,11 @@ class GuideResult:
     at_mm: Point
     force_N: Point
 
+    def on_parts(self) -> tuple[tuple[str, Point], tuple[str, Point]]:
+        """(part name, force on it [N]) for the rod and for the part with
+        the hole: the guide's force, and its opposite."""
+        return (self.rod, self.force_N), (self.part, (-self.force_N[0], -self.force_N[1]))
+
 
 @record(frozen=True)
 class MemberResult:

@@ -120,11 +120,8 @@ def _forces_on(mech: Mechanism, case: CaseSolution, name: str) -> list[tuple[Poi
     out += [((ld.x_mm, ld.y_mm), (ld.fx_N, ld.fy_N)) for ld in case.loads if ld.part == name]
     for sp in case.springs:
         out += [(e.at_mm, e.force_N) for e in sp.ends if e.part == name]
-    for g in case.guides:  # on the rod, and the opposite on the part with the hole
-        if g.rod == name:
-            out.append((g.at_mm, g.force_N))
-        if g.part == name:
-            out.append((g.at_mm, (-g.force_N[0], -g.force_N[1])))
+    for g in case.guides:
+        out += [(g.at_mm, f) for body, f in g.on_parts() if body == name]
     return out
 
 

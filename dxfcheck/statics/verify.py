@@ -120,9 +120,9 @@ def _check_parts(mech: Mechanism, case: CaseSolution, ftol: float, mtol: float) 
     for sp in case.springs:
         for e in sp.ends:
             add(e.part, e.at_mm, e.force_N)
-    for g in case.guides:  # on the rod, and the opposite on the part with the hole
-        add(g.rod, g.at_mm, g.force_N)
-        add(g.part, g.at_mm, (-g.force_N[0], -g.force_N[1]))
+    for g in case.guides:
+        for body, f in g.on_parts():
+            add(body, g.at_mm, f)
     for name, (fx, fy, mz) in acc.items():
         if math.hypot(fx, fy) > ftol or abs(mz) > mtol or not all(map(math.isfinite, (fx, fy, mz))):
             raise _fail(
